@@ -1,0 +1,53 @@
+package builtins
+
+import (
+	"math"
+
+	"loopwise/runtime"
+)
+
+// Physical constants. Exact values are exact by the definition of the SI
+// (SI Brochure, 9th ed., 2019, Table 1); mu0 and eps0 are the CODATA 2018
+// recommended values (Tiesinga et al., Rev. Mod. Phys. 93, 025010, 2021).
+const (
+	SpeedOfLight       = 299792458        // m/s, exact
+	ElementaryCharge   = 1.602176634e-19  // C, exact
+	VacuumPermeability = 1.25663706212e-6 // N/A^2, CODATA 2018, u_r = 1.5e-10
+	VacuumPermittivity = 8.8541878128e-12 // F/m, CODATA 2018, u_r = 1.5e-10
+)
+
+func mustDim(unit string) runtime.Dim {
+	u, err := runtime.ParseUnit(unit)
+	if err != nil {
+		panic(err)
+	}
+	return u.Dim
+}
+
+func constants() []runtime.Constant {
+	return []runtime.Constant{
+		{Name: "pi", Value: runtime.Num(math.Pi), Help: &runtime.Help{
+			Signature: "pi: dimensionless", Summary: "The ratio of a circle's circumference to its diameter.",
+			Example: "2*pi*50 Hz", Reference: "math.Pi (Go standard library)"}},
+		{Name: "mu0", Value: runtime.Quantity{V: VacuumPermeability, D: mustDim("N/A^2")}, Help: &runtime.Help{
+			Signature: "mu0: H/m", Summary: "Magnetic constant (vacuum permeability), 1.25663706212e-6 N/A^2.",
+			Example: "mu0 * 1000 * 2 A / 0.1 m", Reference: "CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010, 2021)"}},
+		{Name: "eps0", Value: runtime.Quantity{V: VacuumPermittivity, D: mustDim("F/m")}, Help: &runtime.Help{
+			Signature: "eps0: F/m", Summary: "Electric constant (vacuum permittivity), 8.8541878128e-12 F/m.",
+			Example: "1/sqrt(mu0*eps0)", Reference: "CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010, 2021)"}},
+		{Name: "c", Value: runtime.Quantity{V: SpeedOfLight, D: mustDim("m/s")}, Help: &runtime.Help{
+			Signature: "c: m/s", Summary: "Speed of light in vacuum, 299792458 m/s exactly.",
+			Example: "c / 13.56 MHz", Reference: "SI Brochure, 9th ed. (BIPM 2019), Table 1"}},
+		{Name: "e", Value: runtime.Quantity{V: ElementaryCharge, D: mustDim("C")}, Help: &runtime.Help{
+			Signature: "e: C", Summary: "Elementary charge, 1.602176634e-19 C exactly.",
+			Example: "1 V * e as J", Reference: "SI Brochure, 9th ed. (BIPM 2019), Table 1"}},
+	}
+}
+
+// Standard returns the library every session starts with.
+func Standard() runtime.Library {
+	var fs []*runtime.Func
+	fs = append(fs, mathFuncs()...)
+	fs = append(fs, vectorFuncs()...)
+	return runtime.Library{Funcs: fs, Consts: constants()}
+}

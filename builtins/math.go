@@ -1,0 +1,143 @@
+package builtins
+
+import (
+	"math"
+
+	"loopwise/runtime"
+)
+
+const refGoMath = "Go standard library math package (IEEE 754 double precision)"
+
+// unary makes a builtin of a dimensionless real function.
+func unary(name, summary, example string, f func(float64) float64) *runtime.Func {
+	return &runtime.Func{
+		Name: name, Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
+		Call: func(args []runtime.Value) (runtime.Value, error) {
+			x, err := number(name, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return finite(name, f(x), runtime.Dimensionless)
+		},
+		Help: &runtime.Help{
+			Signature: name + "(x: dimensionless) -> dimensionless",
+			Summary:   summary,
+			Example:   example,
+			Reference: refGoMath,
+		},
+	}
+}
+
+func mathFuncs() []*runtime.Func {
+	fs := []*runtime.Func{
+		unary("sin", "Sine of an angle (rad, or deg via the unit deg).", "sin(30 deg)", math.Sin),
+		unary("cos", "Cosine of an angle.", "cos(2*pi*50 Hz*5 ms)", math.Cos),
+		unary("tan", "Tangent of an angle.", "tan(45 deg)", math.Tan),
+		unary("asin", "Inverse sine, in rad.", "asin(0.5) as deg", math.Asin),
+		unary("acos", "Inverse cosine, in rad.", "acos(0.5) as deg", math.Acos),
+		unary("atan", "Inverse tangent, in rad.", "atan(1) as deg", math.Atan),
+		unary("sinh", "Hyperbolic sine.", "sinh(1)", math.Sinh),
+		unary("cosh", "Hyperbolic cosine.", "cosh(1)", math.Cosh),
+		unary("tanh", "Hyperbolic tangent.", "tanh(1)", math.Tanh),
+		unary("exp", "Exponential e^x.", "exp(-1 ms/(2 ms))", math.Exp),
+		unary("ln", "Natural logarithm.", "ln(10)", math.Log),
+		unary("log10", "Logarithm to base 10.", "log10(1000)", math.Log10),
+		unary("floor", "Largest whole number not above x.", "floor(2.7)", math.Floor),
+		unary("ceil", "Smallest whole number not below x.", "ceil(2.1)", math.Ceil),
+		unary("round", "Nearest whole number (halves away from zero).", "round(2.5)", math.Round),
+		{
+			Name: "sqrt", Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
+			Call: func(args []runtime.Value) (runtime.Value, error) {
+				q, err := quantity("sqrt", args, 0)
+				if err != nil {
+					return nil, err
+				}
+				if q.V < 0 {
+					return nil, errorf("sqrt: the argument is negative (%s)", runtime.Format(q, 6))
+				}
+				for _, e := range q.D {
+					if e%2 != 0 {
+						return nil, errorf("sqrt: %s has an odd power of a base unit, so its square root has no SI unit", q.D.Describe())
+					}
+				}
+				return runtime.Quantity{V: math.Sqrt(q.V), D: halfDim(q.D)}, nil
+			},
+			Help: &runtime.Help{
+				Signature: "sqrt(x: any unit with even powers) -> unit^(1/2)",
+				Summary:   "Square root; the unit's powers are halved (sqrt(4 m^2) is 2 m).",
+				Example:   "sqrt(2 H * 8 H)",
+				Reference: refGoMath,
+			},
+		},
+		{
+			Name: "abs", Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
+			Call: func(args []runtime.Value) (runtime.Value, error) {
+				q, err := quantity("abs", args, 0)
+				if err != nil {
+					return nil, err
+				}
+				return runtime.Quantity{V: math.Abs(q.V), D: q.D}, nil
+			},
+			Help: &runtime.Help{Signature: "abs(x: any unit) -> same unit", Summary: "Absolute value.", Example: "abs(-3 mV)", Reference: refGoMath},
+		},
+		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> dimensionless", "atan2(1 mm, -1 mm) as deg",
+			func(y, x runtime.Quantity) runtime.Quantity { return runtime.Num(math.Atan2(y.V, x.V)) }),
+		sameDim2("hypot", "sqrt(a^2 + b^2) without overflow.", "hypot(a: unit, b: same unit) -> unit", "hypot(3 mm, 4 mm)",
+			func(a, b runtime.Quantity) runtime.Quantity { return runtime.Quantity{V: math.Hypot(a.V, b.V), D: a.D} }),
+		sameDimN("min", "Smallest of its arguments.", "min(a: unit, b: same unit, ...) -> unit", "min(3 mm, 0.2 inch)", math.Min),
+		sameDimN("max", "Largest of its arguments.", "max(a: unit, b: same unit, ...) -> unit", "max(3 mm, 0.2 inch)", math.Max),
+	}
+	return fs
+}
+
+func halfDim(d runtime.Dim) runtime.Dim {
+	for i := range d {
+		d[i] /= 2
+	}
+	return d
+}
+
+func sameDim2(name, summary, sig, example string, f func(a, b runtime.Quantity) runtime.Quantity) *runtime.Func {
+	return &runtime.Func{
+		Name: name, Params: []string{"a", "b"}, MinArgs: 2, MaxArgs: 2,
+		Call: func(args []runtime.Value) (runtime.Value, error) {
+			a, err := quantity(name, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			b, err := quantity(name, args, 1)
+			if err != nil {
+				return nil, err
+			}
+			if a.D != b.D {
+				return nil, errorf("%s: both arguments must have one dimension; got %s and %s", name, a.D.Describe(), b.D.Describe())
+			}
+			return f(a, b), nil
+		},
+		Help: &runtime.Help{Signature: sig, Summary: summary, Example: example, Reference: refGoMath},
+	}
+}
+
+func sameDimN(name, summary, sig, example string, f func(a, b float64) float64) *runtime.Func {
+	return &runtime.Func{
+		Name: name, Params: []string{"a", "b", "..."}, MinArgs: 1, MaxArgs: -1,
+		Call: func(args []runtime.Value) (runtime.Value, error) {
+			acc, err := quantity(name, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			for i := 1; i < len(args); i++ {
+				q, err := quantity(name, args, i)
+				if err != nil {
+					return nil, err
+				}
+				if q.D != acc.D {
+					return nil, errorf("%s: all arguments must have one dimension; the first is %s, the %s is %s", name, acc.D.Describe(), ordinal(i), q.D.Describe())
+				}
+				acc.V = f(acc.V, q.V)
+			}
+			return acc, nil
+		},
+		Help: &runtime.Help{Signature: sig, Summary: summary, Example: example, Reference: refGoMath},
+	}
+}

@@ -1,0 +1,65 @@
+package lang
+
+import (
+	"errors"
+	"strings"
+	"unicode/utf8"
+)
+
+// Error is the one positioned error of Loopwise: every message a user sees
+// about bad input is an *Error. It prints as
+//
+//	file:line:col: message
+//	  <the source line>
+//	  <caret under the offending column>
+type Error struct {
+	Pos    Pos
+	Msg    string
+	Source string // the whole source line the position refers to; may be empty
+	Width  int    // number of carets; at least 1
+}
+
+// Errorf-like constructor.
+func NewError(pos Pos, src string, width int, msg string) *Error {
+	return &Error{Pos: pos, Msg: msg, Source: src, Width: width}
+}
+
+func (e *Error) Error() string {
+	var b strings.Builder
+	b.WriteString(e.Pos.String())
+	b.WriteString(": ")
+	b.WriteString(e.Msg)
+	if e.Source != "" && e.Pos.Col >= 1 {
+		b.WriteString("\n    ")
+		b.WriteString(strings.ReplaceAll(e.Source, "\t", " "))
+		b.WriteString("\n    ")
+		b.WriteString(Caret(e.Source, e.Pos.Col, e.Width))
+	}
+	return b.String()
+}
+
+// Caret returns the caret line for column col (1-based, runes) of src, with
+// width carets (at least one).
+func Caret(src string, col, width int) string {
+	if width < 1 {
+		width = 1
+	}
+	n := utf8.RuneCountInString(src)
+	if col > n+1 {
+		col = n + 1
+	}
+	if col-1+width > n && n >= col {
+		width = n - col + 1
+	}
+	if width < 1 {
+		width = 1
+	}
+	return strings.Repeat(" ", col-1) + strings.Repeat("^", width)
+}
+
+// AsError reports whether err is (or wraps) a positioned *Error.
+func AsError(err error) (*Error, bool) {
+	var e *Error
+	ok := errors.As(err, &e)
+	return e, ok
+}

@@ -1,0 +1,299 @@
+package lang
+
+import (
+	"fmt"
+	"strings"
+	"unicode"
+)
+
+// UnitNames tells the pre-lexer which identifiers are unit symbols (with or
+// without an SI prefix) and suggests a near name for a misspelt one.
+type UnitNames interface {
+	IsUnit(name string) bool
+	SuggestUnit(name string) string
+}
+
+// Literal is a unit literal found by the pre-lexer.
+type Literal struct {
+	Placeholder string // identifier that stands for it in Rewritten.Src
+	Number      string // decimal text of the number ("" for a postfix unit after ']' or ')')
+	Unit        string // unit expression text, such as "kg*m^2/s^2"
+	Off         int    // rune offset of the literal in the expression
+	UnitOff     int    // rune offset of the unit text
+}
+
+// Rewritten is an expression with its unit literals replaced by
+// placeholders, ready for the expression engine.
+type Rewritten struct {
+	Src  string
+	Lits []Literal
+	orig []int // rune index in Src -> rune offset in the original expression
+}
+
+// Orig maps a rune offset in Src back to the rune offset in the expression
+// that was rewritten.
+func (w *Rewritten) Orig(i int) int {
+	if i < 0 {
+		return 0
+	}
+	if i >= len(w.orig) {
+		if len(w.orig) == 0 {
+			return i
+		}
+		return w.orig[len(w.orig)-1] + 1 + (i - len(w.orig))
+	}
+	return w.orig[i]
+}
+
+// PlaceholderPrefix starts every identifier the pre-lexer invents; users may
+// not write names that start with "__".
+const PlaceholderPrefix = "__L"
+
+// Rewrite replaces unit literals in the statement's expression. A unit
+// literal is a number followed (optionally after spaces) by a unit
+// expression written without spaces: "5 mT", "3 A/ms", "2 kg*m^2/s^2",
+// "9.81 m/s^2", "4 ohm". A unit may also follow a closing ']' or ')' to
+// scale a vector or a parenthesised expression: "[0, 0, 5] mm".
+func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten, error) {
+	r := []rune(src)
+	w := &Rewritten{}
+	var out []rune
+	emit := func(text string, origAt int) {
+		for _, c := range text {
+			out = append(out, c)
+			w.orig = append(w.orig, origAt)
+		}
+	}
+	copyRange := func(a, b int) {
+		for k := a; k < b; k++ {
+			out = append(out, r[k])
+			w.orig = append(w.orig, k)
+		}
+	}
+	errAt := func(off, width int, format string, args ...any) error {
+		return s.Errorf(srcOff+off, width, format, args...)
+	}
+	newLit := func(num, unit string, off, uoff int) string {
+		ph := fmt.Sprintf("%s%d", PlaceholderPrefix, len(w.Lits))
+		w.Lits = append(w.Lits, Literal{Placeholder: ph, Number: num, Unit: unit, Off: off, UnitOff: uoff})
+		return ph
+	}
+	// unitAfter looks for a unit expression starting at or after spaces from
+	// j; it returns its start and end, or -1 when the next word is not a unit.
+	unitAfter := func(j int) (int, int, error) {
+		k := j
+		for k < len(r) && (r[k] == ' ' || r[k] == '\t') {
+			k++
+		}
+		if k >= len(r) || !isIdentStart(r[k]) {
+			return -1, -1, nil
+		}
+		e := k
+		for e < len(r) && isIdentPart(r[e]) {
+			e++
+		}
+		word := string(r[k:e])
+		if Keywords[word] {
+			return -1, -1, nil
+		}
+		if !units.IsUnit(word) {
+			return k, e, nil // caller decides
+		}
+		return k, scanUnit(r, k, units), nil
+	}
+
+	for i := 0; i < len(r); {
+		c := r[i]
+		switch {
+		case c == '"' || c == '\'' || c == '`':
+			j := i + 1
+			for j < len(r) && r[j] != c {
+				if r[j] == '\\' && c != '`' {
+					j++
+				}
+				j++
+			}
+			if j >= len(r) {
+				return nil, errAt(i, 1, "this string is never closed")
+			}
+			copyRange(i, j+1)
+			i = j + 1
+		case isIdentStart(c):
+			j := i
+			for j < len(r) && isIdentPart(r[j]) {
+				j++
+			}
+			word := string(r[i:j])
+			if strings.HasPrefix(word, "__") {
+				return nil, errAt(i, j-i, "names starting with \"__\" are reserved")
+			}
+			copyRange(i, j)
+			i = j
+		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || r[i-1] != '.')):
+			j := scanNumber(r, i)
+			num := strings.ReplaceAll(string(r[i:j]), "_", "")
+			us, ue, err := unitAfter(j)
+			if err != nil {
+				return nil, err
+			}
+			if us < 0 {
+				if j < len(r) && isIdentStart(r[j]) {
+					// digits glued to a keyword, e.g. "2and"
+					return nil, errAt(i, j-i+1, "a number must be followed by a space or an operator here")
+				}
+				if c == '.' {
+					emit("0", i)
+				}
+				copyRange(i, j)
+				i = j
+				continue
+			}
+			word := string(r[us:ue])
+			if !units.IsUnit(firstAtom(word)) {
+				msg := fmt.Sprintf("unknown unit %q after a number", word)
+				if sug := units.SuggestUnit(word); sug != "" {
+					msg += fmt.Sprintf("; did you mean %q?", sug)
+				} else {
+					msg += fmt.Sprintf(" (to multiply by a name, write %s*%s)", num, word)
+				}
+				return nil, errAt(us, ue-us, "%s", msg)
+			}
+			ph := newLit(num, word, i, us)
+			emit(ph, i)
+			i = ue
+		case c == ']' || c == ')':
+			copyRange(i, i+1)
+			us, ue, err := unitAfter(i + 1)
+			if err != nil {
+				return nil, err
+			}
+			if us < 0 || !units.IsUnit(firstAtom(string(r[us:ue]))) {
+				i++
+				continue
+			}
+			ph := newLit("", string(r[us:ue]), us, us)
+			emit("*"+ph, us)
+			i = ue
+		default:
+			copyRange(i, i+1)
+			i++
+		}
+	}
+	w.Src = string(out)
+	return w, nil
+}
+
+func firstAtom(u string) string {
+	for i, c := range u {
+		if !isIdentPart(c) {
+			return u[:i]
+		}
+	}
+	return u
+}
+
+// scanNumber returns the end of the number that starts at i: digits with
+// optional underscores, an optional fraction and an optional exponent.
+func scanNumber(r []rune, i int) int {
+	j := i
+	digits := func() {
+		for j < len(r) && (unicode.IsDigit(r[j]) || (r[j] == '_' && j+1 < len(r) && unicode.IsDigit(r[j+1]))) {
+			j++
+		}
+	}
+	digits()
+	if j+1 < len(r) && r[j] == '.' && unicode.IsDigit(r[j+1]) {
+		j++
+		digits()
+	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && !isIdentStart(safe(r, j+1)) {
+		j++ // "5." is a number
+	}
+	if j < len(r) && (r[j] == 'e' || r[j] == 'E') {
+		k := j + 1
+		if k < len(r) && (r[k] == '+' || r[k] == '-') {
+			k++
+		}
+		if k < len(r) && unicode.IsDigit(r[k]) {
+			j = k
+			digits()
+		}
+	}
+	return j
+}
+
+func safe(r []rune, i int) rune {
+	if i < len(r) {
+		return r[i]
+	}
+	return 0
+}
+
+// scanUnit returns the end of the unit expression that starts with a unit
+// atom at k. Grammar (no spaces inside):
+//
+//	unit   = factor { ("*" | "/") factor }
+//	factor = (atom | "(" unit ")") [ "^" ["-"] digits ]
+func scanUnit(r []rune, k int, units UnitNames) int {
+	end, ok := scanUnitSeq(r, k, units)
+	if !ok {
+		return k
+	}
+	return end
+}
+
+func scanUnitSeq(r []rune, k int, units UnitNames) (int, bool) {
+	e, ok := scanFactor(r, k, units)
+	if !ok {
+		return k, false
+	}
+	for e < len(r) && (r[e] == '*' || r[e] == '/') {
+		if e+1 < len(r) && r[e+1] == r[e] {
+			break // "**" is power in the expression syntax, "//" a comment
+		}
+		n, ok := scanFactor(r, e+1, units)
+		if !ok {
+			break
+		}
+		e = n
+	}
+	return e, true
+}
+
+func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
+	if k >= len(r) {
+		return k, false
+	}
+	var e int
+	switch {
+	case r[k] == '(':
+		n, ok := scanUnitSeq(r, k+1, units)
+		if !ok || n >= len(r) || r[n] != ')' {
+			return k, false
+		}
+		e = n + 1
+	case isIdentStart(r[k]):
+		e = k
+		for e < len(r) && isIdentPart(r[e]) {
+			e++
+		}
+		if !units.IsUnit(string(r[k:e])) {
+			return k, false
+		}
+	default:
+		return k, false
+	}
+	if e < len(r) && r[e] == '^' {
+		p := e + 1
+		if p < len(r) && r[p] == '-' {
+			p++
+		}
+		q := p
+		for q < len(r) && unicode.IsDigit(r[q]) {
+			q++
+		}
+		if q > p {
+			e = q
+		}
+	}
+	return e, true
+}

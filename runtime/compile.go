@@ -1,0 +1,293 @@
+package runtime
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/expr-lang/expr"
+	"github.com/expr-lang/expr/ast"
+	"github.com/expr-lang/expr/file"
+	"github.com/expr-lang/expr/vm"
+
+	"loopwise/lang"
+)
+
+// Names of the engine functions the patcher calls. They start with "__",
+// which users cannot write.
+const (
+	fnCall = "__call"
+	fnArg  = "__arg"
+	fnVec  = "__vec"
+	fnComp = "__comp"
+)
+
+var binaryOps = map[string]string{
+	"+": "__add", "-": "__sub", "*": "__mul", "/": "__div", "%": "__mod",
+	"**": "__pow", "^": "__pow",
+	"==": "__eq", "!=": "__ne", "<": "__lt", "<=": "__le", ">": "__gt", ">=": "__ge",
+}
+
+func wrap2(f func(a, b Value) (Value, error)) func(...any) (any, error) {
+	return func(p ...any) (any, error) { return f(p[0], p[1]) }
+}
+
+func cmp(op string) func(...any) (any, error) {
+	return func(p ...any) (any, error) { return Compare(op, p[0], p[1]) }
+}
+
+// opOptions registers the operator dispatcher with the engine.
+var opOptions = []expr.Option{
+	expr.Function("__add", wrap2(Add)),
+	expr.Function("__sub", wrap2(Sub)),
+	expr.Function("__mul", wrap2(Mul)),
+	expr.Function("__div", wrap2(Div)),
+	expr.Function("__mod", wrap2(Mod)),
+	expr.Function("__pow", wrap2(Pow)),
+	expr.Function("__neg", func(p ...any) (any, error) { return Neg(p[0]) }),
+	expr.Function("__eq", cmp("==")),
+	expr.Function("__ne", cmp("!=")),
+	expr.Function("__lt", cmp("<")),
+	expr.Function("__le", cmp("<=")),
+	expr.Function("__gt", cmp(">")),
+	expr.Function("__ge", cmp(">=")),
+	expr.Function(fnVec, func(p ...any) (any, error) { return MakeVector(p) }),
+	expr.Function(fnComp, func(p ...any) (any, error) { return Component(p[0], p[1].(int)) }),
+	expr.Env(map[string]any{}),
+	expr.AllowUndefinedVariables(),
+	expr.DisableAllBuiltins(),
+}
+
+// program is a compiled expression with what is needed to report errors
+// against the statement it came from.
+type program struct {
+	prog *vm.Program
+	st   *lang.Statement
+	rw   *lang.Rewritten
+	off  int // rune offset of the expression in the statement's line
+}
+
+// errorAt maps a rune offset in the rewritten expression to the statement's
+// line. It is the one place where engine positions become user positions.
+func (p *program) errorAt(loc file.Location, msg string) *lang.Error {
+	from := p.rw.Orig(loc.From)
+	width := 1
+	if loc.To > loc.From {
+		width = p.rw.Orig(loc.To-1) - from + 1
+	}
+	return p.st.Errorf(p.off+from, width, "%s", msg)
+}
+
+// patcher rewrites the parsed expression so that every operator calls the
+// dispatcher, every number is a Quantity and every call goes through
+// __call. It records the first problem it meets.
+type patcher struct {
+	lits   map[string]Quantity
+	params map[string]int
+	known  func(name string) bool
+	err    *lang.Error
+	p      *program
+}
+
+func (v *patcher) fail(n ast.Node, format string, args ...any) {
+	if v.err == nil {
+		v.err = v.p.errorAt(n.Location(), fmt.Sprintf(format, args...))
+	}
+}
+
+func call(name string, args ...ast.Node) *ast.CallNode {
+	return &ast.CallNode{Callee: &ast.IdentifierNode{Value: name}, Arguments: args}
+}
+
+func (v *patcher) Visit(node *ast.Node) {
+	switch n := (*node).(type) {
+	case *ast.IdentifierNode:
+		if q, ok := v.lits[n.Value]; ok {
+			ast.Patch(node, &ast.ConstantNode{Value: q})
+			return
+		}
+		if strings.HasPrefix(n.Value, "__") {
+			return // engine function names
+		}
+		if i, ok := v.params[n.Value]; ok {
+			ast.Patch(node, call(fnArg, &ast.ConstantNode{Value: i}))
+			return
+		}
+		if !v.known(n.Value) {
+			v.fail(n, "%s", unknownNameMsg(n.Value, v))
+		}
+	case *ast.IntegerNode:
+		ast.Patch(node, &ast.ConstantNode{Value: Num(float64(n.Value))})
+	case *ast.FloatNode:
+		ast.Patch(node, &ast.ConstantNode{Value: Num(n.Value)})
+	case *ast.BinaryNode:
+		if fn, ok := binaryOps[n.Operator]; ok {
+			ast.Patch(node, call(fn, n.Left, n.Right))
+		}
+	case *ast.UnaryNode:
+		switch n.Operator {
+		case "-":
+			ast.Patch(node, call("__neg", n.Node))
+		case "+":
+			ast.Patch(node, n.Node)
+		}
+	case *ast.ArrayNode:
+		if len(n.Nodes) != 3 {
+			v.fail(n, "a vector needs exactly 3 components, got %d", len(n.Nodes))
+			return
+		}
+		ast.Patch(node, call(fnVec, n.Nodes...))
+	case *ast.CallNode:
+		if id, ok := n.Callee.(*ast.IdentifierNode); ok && strings.HasPrefix(id.Value, "__") {
+			return
+		}
+		args := append([]ast.Node{n.Callee}, n.Arguments...)
+		ast.Patch(node, call(fnCall, args...))
+	case *ast.MemberNode:
+		prop, ok := n.Property.(*ast.StringNode)
+		idx := map[string]int{"x": 0, "y": 1, "z": 2}
+		if !ok || n.Method {
+			v.fail(n, "only .x, .y and .z may follow a value")
+			return
+		}
+		i, ok := idx[prop.Value]
+		if !ok {
+			v.fail(n, "a vector has components .x, .y and .z, not .%s", prop.Value)
+			return
+		}
+		ast.Patch(node, call(fnComp, n.Node, &ast.ConstantNode{Value: i}))
+	case *ast.ConstantNode, *ast.BoolNode, *ast.StringNode, *ast.ConditionalNode, *ast.NilNode:
+	default:
+		v.fail(*node, "this syntax is not part of the Loopwise language")
+	}
+}
+
+func unknownNameMsg(name string, v *patcher) string {
+	msg := fmt.Sprintf("unknown name %q", name)
+	if (UnitTable{}).IsUnit(name) {
+		return msg + fmt.Sprintf(" (%s is a unit: write a number before it, as in 1 %s)", name, name)
+	}
+	return msg
+}
+
+// compile turns expression text into a program. params are the parameter
+// names of a function body being compiled; frame supplies their values.
+func (s *Session) compile(st *lang.Statement, src string, off int, params []string, frame *frameStack) (*program, error) {
+	rw, err := lang.Rewrite(st, src, off, UnitTable{})
+	if err != nil {
+		return nil, err
+	}
+	p := &program{st: st, rw: rw, off: off}
+	lits := make(map[string]Quantity, len(rw.Lits))
+	for _, l := range rw.Lits {
+		u, err := ParseUnit(l.Unit)
+		if err != nil {
+			var ue *UnitError
+			if errors.As(err, &ue) {
+				return nil, st.Errorf(off+l.UnitOff+ue.Off, ue.Width, "%s", ue.Msg)
+			}
+			return nil, st.Errorf(off+l.UnitOff, utf8.RuneCountInString(l.Unit), "%s", err)
+		}
+		if l.Number == "" {
+			lits[l.Placeholder] = Quantity{u.Scale(), u.Dim}
+			continue
+		}
+		val, err := LiteralValue(l.Number, u)
+		if err != nil {
+			return nil, st.Errorf(off+l.Off, l.UnitOff-l.Off+utf8.RuneCountInString(l.Unit), "%s", err)
+		}
+		lits[l.Placeholder] = Quantity{val, u.Dim}
+	}
+	pm := make(map[string]int, len(params))
+	for i, name := range params {
+		pm[name] = i
+	}
+	pt := &patcher{lits: lits, params: pm, known: s.known, p: p}
+	opts := append([]expr.Option{}, opOptions...)
+	opts = append(opts, expr.Patch(pt), expr.Function(fnCall, s.callFunc))
+	if frame != nil {
+		opts = append(opts, expr.Function(fnArg, func(a ...any) (any, error) { return frame.arg(a[0].(int)), nil }))
+	}
+	prog, err := expr.Compile(rw.Src, opts...)
+	if pt.err != nil {
+		return nil, pt.err
+	}
+	if err != nil {
+		return nil, p.engineError(err, true)
+	}
+	p.prog = prog
+	return p, nil
+}
+
+// engineError turns an error of the expression engine into a positioned
+// error of ours.
+func (p *program) engineError(err error, compile bool) error {
+	var le *lang.Error
+	if errors.As(err, &le) {
+		return le
+	}
+	var fe *file.Error
+	if !errors.As(err, &fe) {
+		return p.st.Errorf(p.off, 1, "%s", err)
+	}
+	msg := fe.Message
+	if fe.Prev != nil {
+		msg = fe.Prev.Error()
+	} else if compile {
+		msg = "syntax error: " + tidySyntax(msg)
+	}
+	return p.errorAt(fe.Location, msg)
+}
+
+// tidySyntax rewrites the engine's token names into plain words.
+func tidySyntax(msg string) string {
+	r := strings.NewReplacer(
+		"unexpected token EOF", "the expression ends too early",
+		"unexpected token ", "unexpected ",
+		"Operator(", "operator ",
+		"Bracket(", "bracket ",
+		"Identifier(", "name ",
+		"Number(", "number ",
+		"String(", "string ",
+	)
+	msg = r.Replace(msg)
+	msg = strings.ReplaceAll(msg, "\")", "\"")
+	return strings.ReplaceAll(msg, lang.PlaceholderPrefix, "unit literal ")
+}
+
+// run evaluates a compiled program against the session's names.
+func (s *Session) run(p *program) (Value, error) {
+	out, err := expr.Run(p.prog, s.vars)
+	if err != nil {
+		return nil, p.engineError(err, false)
+	}
+	return normalize(out), nil
+}
+
+// frameStack holds the argument lists of the active calls of one user
+// function (more than one when it recurses).
+type frameStack struct{ frames [][]Value }
+
+func (f *frameStack) arg(i int) Value { return f.frames[len(f.frames)-1][i] }
+
+// maxDepth bounds nested calls of user functions.
+const maxDepth = 200
+
+// callFunc is __call(f, args...): it calls a builtin or a user function.
+func (s *Session) callFunc(p ...any) (any, error) {
+	f, ok := p[0].(*Func)
+	if !ok {
+		return nil, dimErr("%s is not a function and cannot be called", TypeName(p[0]))
+	}
+	args := make([]Value, len(p)-1)
+	for i, a := range p[1:] {
+		args[i] = normalize(a)
+	}
+	s.depth++
+	defer func() { s.depth-- }()
+	if s.depth > maxDepth {
+		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
+	}
+	return f.Invoke(args)
+}

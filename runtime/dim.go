@@ -1,0 +1,166 @@
+package runtime
+
+import (
+	"fmt"
+	"strings"
+)
+
+// Dim is an SI dimension: exponents of the seven base quantities in the
+// order length, mass, time, electric current, temperature, amount of
+// substance, luminous intensity (SI Brochure, 9th ed., 2019, §2.3.3).
+type Dim [7]int8
+
+// Base dimension indices.
+const (
+	Length = iota
+	Mass
+	Time
+	Current
+	Temperature
+	Amount
+	Luminous
+)
+
+// baseSymbols are the SI base unit symbols in Dim order.
+var baseSymbols = [7]string{"m", "kg", "s", "A", "K", "mol", "cd"}
+
+// Dimensionless is the dimension of pure numbers.
+var Dimensionless Dim
+
+func (d Dim) Mul(e Dim) Dim {
+	for i := range d {
+		d[i] += e[i]
+	}
+	return d
+}
+
+func (d Dim) Div(e Dim) Dim {
+	for i := range d {
+		d[i] -= e[i]
+	}
+	return d
+}
+
+func (d Dim) Pow(n int) Dim {
+	for i := range d {
+		d[i] *= int8(n)
+	}
+	return d
+}
+
+// IsZero reports whether d is dimensionless.
+func (d Dim) IsZero() bool { return d == Dimensionless }
+
+// BaseUnits writes d in SI base units, such as "kg*m^2/(s^3*A)"; the text
+// parses back as a unit expression.
+func (d Dim) BaseUnits() string {
+	if d.IsZero() {
+		return "1"
+	}
+	var num, den []string
+	order := []int{Mass, Length, Time, Current, Temperature, Amount, Luminous}
+	for _, i := range order {
+		p := d[i]
+		switch {
+		case p > 0:
+			num = append(num, powStr(baseSymbols[i], int(p)))
+		case p < 0:
+			den = append(den, powStr(baseSymbols[i], int(-p)))
+		}
+	}
+	s := strings.Join(num, "*")
+	if s == "" {
+		s = "1"
+	}
+	switch len(den) {
+	case 0:
+	case 1:
+		s += "/" + den[0]
+	default:
+		s += "/(" + strings.Join(den, "*") + ")"
+	}
+	return s
+}
+
+func powStr(sym string, p int) string {
+	if p == 1 {
+		return sym
+	}
+	return fmt.Sprintf("%s^%d", sym, p)
+}
+
+// dimNames names the dimensions practitioners speak of, in words.
+var dimNames = []struct {
+	name string
+	unit string
+}{
+	{"dimensionless", ""},
+	{"length", "m"},
+	{"mass", "kg"},
+	{"time", "s"},
+	{"electric current", "A"},
+	{"temperature", "K"},
+	{"amount of substance", "mol"},
+	{"luminous intensity", "cd"},
+	{"area", "m^2"},
+	{"volume", "m^3"},
+	{"speed", "m/s"},
+	{"acceleration", "m/s^2"},
+	{"frequency", "Hz"},
+	{"force", "N"},
+	{"energy", "J"},
+	{"power", "W"},
+	{"pressure", "Pa"},
+	{"electric charge", "C"},
+	{"voltage", "V"},
+	{"resistance", "ohm"},
+	{"conductance", "S"},
+	{"capacitance", "F"},
+	{"inductance", "H"},
+	{"magnetic flux", "Wb"},
+	{"magnetic flux density", "T"},
+	{"magnetic field strength", "A/m"},
+	{"current density", "A/m^2"},
+	{"electric field", "V/m"},
+	{"permeability", "H/m"},
+	{"permittivity", "F/m"},
+	{"resistivity", "ohm*m"},
+	{"rate of change of flux density", "T/s"},
+	{"rate of change of current", "A/s"},
+	{"power density", "W/m^3"},
+	{"magnetic moment", "A*m^2"},
+	{"torque or energy", "N*m"},
+}
+
+var dimNameOf = buildDimNames()
+
+func buildDimNames() map[Dim]string {
+	dimNameOf := make(map[Dim]string, len(dimNames))
+	for _, dn := range dimNames {
+		d := Dimensionless
+		if dn.unit != "" {
+			u, err := ParseUnit(dn.unit)
+			if err != nil {
+				panic("dimNames: " + err.Error())
+			}
+			d = u.Dim
+		}
+		if _, dup := dimNameOf[d]; !dup {
+			dimNameOf[d] = dn.name
+		}
+	}
+	return dimNameOf
+}
+
+// Describe names d in words and units, such as "magnetic flux density (T)"
+// or "kg*m/s^3" when it has no common name.
+func (d Dim) Describe() string {
+	unit := DisplayUnitOf(d)
+	if n, ok := dimNameOf[d]; ok {
+		if d.IsZero() {
+			return n
+		}
+		return fmt.Sprintf("%s (%s)", n, unit)
+	}
+	return fmt.Sprintf("a quantity in %s", unit)
+}

@@ -1,0 +1,254 @@
+package runtime
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"sync"
+)
+
+// DefaultDigits is the number of significant digits shown by default.
+const DefaultDigits = 6
+
+// RecordDigits is the number of significant digits written into scripts as
+// recorded results: enough that a replay check at a relative tolerance of
+// 1e-9 is not defeated by the rounding of the recorded text (half a unit in
+// the 12th digit is at most 5e-12 relative).
+const RecordDigits = 12
+
+// display describes how a dimension is shown: the first atom may take an SI
+// prefix (scaled by its power), the rest is appended as written.
+type display struct {
+	atom      string  // "T", "g", "m", or "" for a composite shown without prefix
+	power     int     // power of the atom
+	rest      string  // e.g. "/s", "*m^2"
+	scale     float64 // SI size of the unprefixed atom (1e-3 for g)
+	kmin      int     // lowest engineering prefix step (-5 = femto)
+	kmax      int     // highest (4 = tera)
+	composite string  // full text when atom == ""
+}
+
+// named units that dimensions are shown in, most preferred first.
+var displayNamed = []struct {
+	sym        string
+	kmin, kmax int
+}{
+	{"T", -5, 4}, {"Wb", -5, 4}, {"H", -5, 4}, {"V", -5, 4}, {"A", -5, 4}, {"Ω", -5, 4},
+	{"W", -5, 4}, {"J", -5, 4}, {"N", -5, 4}, {"C", -5, 4}, {"F", -5, 4}, {"S", -5, 4},
+	{"Hz", -5, 4}, {"Pa", -5, 4},
+	{"m", -5, 1}, {"s", -5, 0}, {"g", -5, 2}, {"K", -5, 0}, {"mol", -5, 1}, {"cd", -5, 1},
+}
+
+var displayRest = []string{"m", "m^2", "m^3", "s", "s^2", "A", "kg", "K"}
+
+var displayCache sync.Map // Dim -> display
+
+func displayOf(d Dim) display {
+	if ds, ok := displayCache.Load(d); ok {
+		return ds.(display)
+	}
+	ds := findDisplay(d)
+	displayCache.Store(d, ds)
+	return ds
+}
+
+func findDisplay(d Dim) display {
+	atomDim := func(sym string) Dim {
+		u, _ := lookupAtom(sym)
+		return u.Dim
+	}
+	mk := func(i int, power int, rest string) display {
+		n := displayNamed[i]
+		scale := 1.0
+		if n.sym == "g" {
+			scale = 1e-3
+		}
+		return display{atom: n.sym, power: power, rest: rest, scale: scale, kmin: n.kmin, kmax: n.kmax}
+	}
+	// 1. a named unit, or a single base unit to a power
+	for i, n := range displayNamed {
+		ad := atomDim(n.sym)
+		for p := 1; p <= 3; p++ {
+			if ad.Pow(p) == d {
+				return mk(i, p, "")
+			}
+		}
+	}
+	// 2. a named unit times or over one simple unit
+	for i, n := range displayNamed {
+		ad := atomDim(n.sym)
+		for _, r := range displayRest {
+			rd := mustUnit(r).Dim
+			if ad.Div(rd) == d {
+				return mk(i, 1, "/"+r)
+			}
+			if n.sym != "m" && n.sym != "s" && n.sym != "g" && ad.Mul(rd) == d {
+				return mk(i, 1, "*"+r)
+			}
+		}
+	}
+	// 3. SI base units
+	return display{composite: d.BaseUnits(), scale: 1}
+}
+
+func mustUnit(s string) UnitExpr {
+	u, err := ParseUnit(s)
+	if err != nil {
+		panic(err)
+	}
+	return u
+}
+
+// DisplayUnitOf returns the unprefixed unit a dimension is shown in, such as
+// "T", "V/m" or "kg*m/s^3".
+func DisplayUnitOf(d Dim) string {
+	if d.IsZero() {
+		return "1"
+	}
+	ds := displayOf(d)
+	if ds.atom == "" {
+		return ds.composite
+	}
+	if ds.atom == "g" && ds.rest == "" && ds.power == 1 {
+		return "kg"
+	}
+	return ds.unitText("")
+}
+
+func (ds display) unitText(prefix string) string {
+	s := prefix + ds.atom
+	if ds.power != 1 {
+		s += "^" + strconv.Itoa(ds.power)
+	}
+	return s + ds.rest
+}
+
+var engPrefix = map[int]string{-5: "f", -4: "p", -3: "n", -2: "µ", -1: "m", 0: "", 1: "k", 2: "M", 3: "G", 4: "T"}
+
+// roundSig rounds x to digits significant digits.
+func roundSig(x float64, digits int) float64 {
+	if x == 0 || math.IsInf(x, 0) || math.IsNaN(x) {
+		return x
+	}
+	r, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', digits-1, 64), 64)
+	if err != nil {
+		return x
+	}
+	return r
+}
+
+// FormatNumber prints a plain number with digits significant digits.
+func FormatNumber(x float64, digits int) string {
+	r := roundSig(x, digits)
+	a := math.Abs(r)
+	if a != 0 && (a < 1e-4 || a >= 1e9) {
+		return strconv.FormatFloat(r, 'g', digits, 64)
+	}
+	return strconv.FormatFloat(r, 'f', -1, 64)
+}
+
+// chooseK picks the engineering prefix step for magnitude x (in the atom's
+// unprefixed unit).
+func (ds display) chooseK(x float64, digits int) int {
+	if x == 0 || ds.atom == "" {
+		return 0
+	}
+	a := math.Abs(roundSig(x, digits))
+	k := int(math.Floor(math.Log10(a) / float64(3*ds.power)))
+	// guard against log10 rounding at exact powers of ten
+	if m := a / math.Pow10(3*k*ds.power); m >= math.Pow10(3*ds.power) {
+		k++
+	} else if m < 1 {
+		k--
+	}
+	return max(ds.kmin, min(ds.kmax, k))
+}
+
+// Format shows a value for people: quantities in the best SI prefix of the
+// unit that matches their dimension ("0.00123 T" → "1.23 mT").
+func Format(v Value, digits int) string {
+	switch x := v.(type) {
+	case Quantity:
+		return formatQuantity(x, digits)
+	case Vector:
+		return formatVector(x, digits)
+	case *Func:
+		if x.Body != "" {
+			return x.Signature() + " = " + x.Body
+		}
+		return "builtin " + x.Name
+	case bool:
+		return strconv.FormatBool(x)
+	case string:
+		return strconv.Quote(x)
+	default:
+		return fmt.Sprint(v)
+	}
+}
+
+func formatQuantity(q Quantity, digits int) string {
+	if q.D.IsZero() {
+		return FormatNumber(q.V, digits)
+	}
+	ds := displayOf(q.D)
+	if ds.atom == "" {
+		return FormatNumber(q.V, digits) + " " + ds.composite
+	}
+	x := q.V / ds.scale
+	k := ds.chooseK(x, digits)
+	m := x / math.Pow10(3*k*ds.power)
+	return FormatNumber(m, digits) + " " + ds.unitText(engPrefix[k])
+}
+
+func formatVector(v Vector, digits int) string {
+	ds := displayOf(v.D)
+	scale, unit := 1.0, ""
+	if !v.D.IsZero() {
+		if ds.atom == "" {
+			unit = ds.composite
+		} else {
+			big := math.Max(math.Abs(v.V[0]), math.Max(math.Abs(v.V[1]), math.Abs(v.V[2])))
+			k := ds.chooseK(big/ds.scale, digits)
+			scale = ds.scale * math.Pow10(3*k*ds.power)
+			unit = ds.unitText(engPrefix[k])
+		}
+	}
+	parts := make([]string, 3)
+	for i, c := range v.V {
+		parts[i] = FormatNumber(c/scale, digits)
+	}
+	s := "[" + strings.Join(parts, ", ") + "]"
+	if unit != "" {
+		s += " " + unit
+	}
+	return s
+}
+
+// FormatIn shows a quantity or vector in the given unit expression; the
+// dimensions must match.
+func FormatIn(v Value, unit string, digits int) (string, error) {
+	u, err := ParseUnit(unit)
+	if err != nil {
+		return "", err
+	}
+	scale := u.Scale()
+	switch x := v.(type) {
+	case Quantity:
+		if x.D != u.Dim {
+			return "", &DimError{Msg: fmt.Sprintf("cannot show %s in %s, which measures %s", x.D.Describe(), unit, u.Dim.Describe())}
+		}
+		return FormatNumber(x.V/scale, digits) + " " + unit, nil
+	case Vector:
+		if x.D != u.Dim {
+			return "", &DimError{Msg: fmt.Sprintf("cannot show a vector of %s in %s, which measures %s", x.D.Describe(), unit, u.Dim.Describe())}
+		}
+		parts := make([]string, 3)
+		for i, c := range x.V {
+			parts[i] = FormatNumber(c/scale, digits)
+		}
+		return "[" + strings.Join(parts, ", ") + "] " + unit, nil
+	default:
+		return "", &DimError{Msg: fmt.Sprintf("only quantities can be shown in a unit, not %s", TypeName(v))}
+	}
+}

@@ -1,0 +1,247 @@
+package runtime
+
+import (
+	"fmt"
+	"math"
+)
+
+// DimError is a dimension or type mismatch found while evaluating.
+type DimError struct{ Msg string }
+
+func (e *DimError) Error() string { return e.Msg }
+
+// EvalError is any other problem found while evaluating (division by zero,
+// a value out of a function's domain, a wrong argument count).
+type EvalError struct{ Msg string }
+
+func (e *EvalError) Error() string { return e.Msg }
+
+func dimErr(format string, args ...any) error  { return &DimError{fmt.Sprintf(format, args...)} }
+func evalErr(format string, args ...any) error { return &EvalError{fmt.Sprintf(format, args...)} }
+
+// normalize turns Go numbers that can appear inside the engine into
+// quantities.
+func normalize(v Value) Value {
+	switch x := v.(type) {
+	case float64:
+		return Num(x)
+	case int:
+		return Num(float64(x))
+	}
+	return v
+}
+
+func checkFinite(q Quantity, what string) (Value, error) {
+	if math.IsNaN(q.V) {
+		return nil, evalErr("%s is not a number (NaN)", what)
+	}
+	if math.IsInf(q.V, 0) {
+		return nil, evalErr("%s overflows to infinity", what)
+	}
+	return q, nil
+}
+
+// Add is a + b.
+func Add(a, b Value) (Value, error) { return addSub(a, b, 1, "add", "+") }
+
+// Sub is a - b.
+func Sub(a, b Value) (Value, error) { return addSub(a, b, -1, "subtract", "-") }
+
+func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	switch x := a.(type) {
+	case Quantity:
+		if y, ok := b.(Quantity); ok {
+			if x.D != y.D {
+				return nil, dimErr("cannot %s %s and %s", verb, x.D.Describe(), y.D.Describe())
+			}
+			return checkFinite(Quantity{x.V + sign*y.V, x.D}, "the result of "+op)
+		}
+	case Vector:
+		if y, ok := b.(Vector); ok {
+			if x.D != y.D {
+				return nil, dimErr("cannot %s vectors of %s and of %s", verb, x.D.Describe(), y.D.Describe())
+			}
+			return Vector{[3]float64{x.V[0] + sign*y.V[0], x.V[1] + sign*y.V[1], x.V[2] + sign*y.V[2]}, x.D}, nil
+		}
+	}
+	return nil, dimErr("cannot %s %s and %s", verb, TypeName(a), TypeName(b))
+}
+
+// Mul is a * b: quantities, or a vector scaled by a quantity.
+func Mul(a, b Value) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	switch x := a.(type) {
+	case Quantity:
+		switch y := b.(type) {
+		case Quantity:
+			return checkFinite(Quantity{x.V * y.V, x.D.Mul(y.D)}, "the product")
+		case Vector:
+			return scaleVec(y, x.V, x.D), nil
+		}
+	case Vector:
+		switch y := b.(type) {
+		case Quantity:
+			return scaleVec(x, y.V, y.D), nil
+		case Vector:
+			return nil, dimErr("cannot multiply two vectors with *; use dot(a, b) or cross(a, b)")
+		}
+	}
+	return nil, dimErr("cannot multiply %s and %s", TypeName(a), TypeName(b))
+}
+
+func scaleVec(v Vector, s float64, d Dim) Vector {
+	return Vector{[3]float64{v.V[0] * s, v.V[1] * s, v.V[2] * s}, v.D.Mul(d)}
+}
+
+// Div is a / b.
+func Div(a, b Value) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	y, ok := b.(Quantity)
+	if !ok {
+		return nil, dimErr("cannot divide %s by %s", TypeName(a), TypeName(b))
+	}
+	if y.V == 0 {
+		return nil, evalErr("division by zero")
+	}
+	switch x := a.(type) {
+	case Quantity:
+		return checkFinite(Quantity{x.V / y.V, x.D.Div(y.D)}, "the quotient")
+	case Vector:
+		return scaleVec(x, 1/y.V, y.D.Pow(-1)), nil
+	}
+	return nil, dimErr("cannot divide %s by %s", TypeName(a), TypeName(b))
+}
+
+// Mod is the remainder a % b of quantities of the same dimension.
+func Mod(a, b Value) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	x, ok1 := a.(Quantity)
+	y, ok2 := b.(Quantity)
+	if !ok1 || !ok2 {
+		return nil, dimErr("cannot take the remainder of %s by %s", TypeName(a), TypeName(b))
+	}
+	if x.D != y.D {
+		return nil, dimErr("cannot take the remainder of %s by %s", x.D.Describe(), y.D.Describe())
+	}
+	if y.V == 0 {
+		return nil, evalErr("remainder by zero")
+	}
+	return Quantity{math.Mod(x.V, y.V), x.D}, nil
+}
+
+// Pow is a ^ b. The exponent is dimensionless; a quantity with a dimension
+// may be raised only to powers that give whole exponents of every base unit
+// (so m^2^0.5 works, m^0.5 does not).
+func Pow(a, b Value) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	x, ok1 := a.(Quantity)
+	y, ok2 := b.(Quantity)
+	if !ok1 || !ok2 {
+		return nil, dimErr("cannot raise %s to %s", TypeName(a), TypeName(b))
+	}
+	if !y.D.IsZero() {
+		return nil, dimErr("an exponent must be dimensionless, not %s", y.D.Describe())
+	}
+	var d Dim
+	if !x.D.IsZero() {
+		for i, e := range x.D {
+			p := float64(e) * y.V
+			r := math.Round(p)
+			if math.Abs(p-r) > 1e-9 || math.Abs(r) > 127 {
+				return nil, dimErr("cannot raise %s to the power %s: the unit would need a fractional exponent", x.D.Describe(), FormatNumber(y.V, 6))
+			}
+			d[i] = int8(r)
+		}
+	}
+	if x.V == 0 && y.V < 0 {
+		return nil, evalErr("zero raised to a negative power (division by zero)")
+	}
+	return checkFinite(Quantity{math.Pow(x.V, y.V), d}, "the power")
+}
+
+// Neg is -a.
+func Neg(a Value) (Value, error) {
+	switch x := normalize(a).(type) {
+	case Quantity:
+		return Quantity{-x.V, x.D}, nil
+	case Vector:
+		return Vector{[3]float64{-x.V[0], -x.V[1], -x.V[2]}, x.D}, nil
+	}
+	return nil, dimErr("cannot negate %s", TypeName(a))
+}
+
+// Compare implements ==, !=, <, <=, >, >=.
+func Compare(op string, a, b Value) (Value, error) {
+	a, b = normalize(a), normalize(b)
+	switch x := a.(type) {
+	case Quantity:
+		y, ok := b.(Quantity)
+		if !ok {
+			break
+		}
+		if x.D != y.D {
+			return nil, dimErr("cannot compare %s with %s", x.D.Describe(), y.D.Describe())
+		}
+		switch op {
+		case "==":
+			return x.V == y.V, nil
+		case "!=":
+			return x.V != y.V, nil
+		case "<":
+			return x.V < y.V, nil
+		case "<=":
+			return x.V <= y.V, nil
+		case ">":
+			return x.V > y.V, nil
+		case ">=":
+			return x.V >= y.V, nil
+		}
+	case Vector:
+		y, ok := b.(Vector)
+		if !ok || (op != "==" && op != "!=") {
+			break
+		}
+		if x.D != y.D {
+			return nil, dimErr("cannot compare vectors of %s and of %s", x.D.Describe(), y.D.Describe())
+		}
+		return (x.V == y.V) == (op == "=="), nil
+	case bool:
+		y, ok := b.(bool)
+		if !ok || (op != "==" && op != "!=") {
+			break
+		}
+		return (x == y) == (op == "=="), nil
+	}
+	return nil, dimErr("cannot compare %s with %s using %s", TypeName(a), TypeName(b), op)
+}
+
+// MakeVector builds a vector from three quantities of one dimension.
+func MakeVector(args []Value) (Value, error) {
+	if len(args) != 3 {
+		return nil, evalErr("a vector needs exactly 3 components, got %d", len(args))
+	}
+	var v Vector
+	for i, a := range args {
+		q, ok := normalize(a).(Quantity)
+		if !ok {
+			return nil, dimErr("vector component %d is %s, not a quantity", i+1, TypeName(a))
+		}
+		if i == 0 {
+			v.D = q.D
+		} else if q.D != v.D {
+			return nil, dimErr("vector components must share one dimension: component 1 is %s, component %d is %s", v.D.Describe(), i+1, q.D.Describe())
+		}
+		v.V[i] = q.V
+	}
+	return v, nil
+}
+
+// Component returns component i (0, 1, 2) of a vector.
+func Component(v Value, i int) (Value, error) {
+	x, ok := v.(Vector)
+	if !ok {
+		return nil, dimErr("only a vector has components .x, .y, .z; this is %s", TypeName(v))
+	}
+	return Quantity{x.V[i], x.D}, nil
+}

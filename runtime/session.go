@@ -1,0 +1,359 @@
+package runtime
+
+import (
+	"errors"
+	"fmt"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"loopwise/lang"
+)
+
+// Constant is a named value provided by a library (pi, mu0, ...).
+type Constant struct {
+	Name  string
+	Value Value
+	Help  *Help
+}
+
+// Library is what a session starts with: builtin functions and constants.
+// The builtins package provides the standard one; the runtime does not
+// import it.
+type Library struct {
+	Funcs  []*Func
+	Consts []Constant
+}
+
+type nameKind int
+
+const (
+	kindVar nameKind = iota + 1
+	kindUserFunc
+	kindBuiltin
+	kindConst
+)
+
+// Entry is one evaluated statement kept for saving a session as a script.
+type Entry struct {
+	Line   string // the statement as typed
+	Record string // its recorded result
+}
+
+// Session holds the names a user has defined and evaluates statements.
+type Session struct {
+	vars     map[string]Value
+	kinds    map[string]nameKind
+	declared map[string]string // name -> declared unit text
+	shownAs  map[string]string // name -> unit text it was last shown "as"
+	lib      Library
+	help     map[string]*Help
+	// Digits is the number of significant digits shown (default 6).
+	Digits int
+	// Transcript lists the statements evaluated without error.
+	Transcript []Entry
+	depth      int
+}
+
+// NewSession starts a session with the given library.
+func NewSession(lib Library) *Session {
+	s := &Session{
+		vars:     map[string]Value{},
+		kinds:    map[string]nameKind{},
+		declared: map[string]string{},
+		shownAs:  map[string]string{},
+		help:     map[string]*Help{},
+		lib:      lib,
+		Digits:   DefaultDigits,
+	}
+	for _, f := range lib.Funcs {
+		s.vars[f.Name] = f
+		s.kinds[f.Name] = kindBuiltin
+		s.help[f.Name] = f.Help
+	}
+	for _, c := range lib.Consts {
+		s.vars[c.Name] = c.Value
+		s.kinds[c.Name] = kindConst
+		s.help[c.Name] = c.Help
+	}
+	return s
+}
+
+func (s *Session) known(name string) bool {
+	_, ok := s.kinds[name]
+	return ok
+}
+
+// Result is the outcome of one statement.
+type Result struct {
+	Stmt   *lang.Statement
+	Value  Value  // nil for empty lines and commands
+	Text   string // what to show, at the session's digits
+	Record string // what to record in a script ("" when nothing)
+}
+
+// ErrNotSessionCommand is returned by Eval for a command the session does
+// not handle itself (the REPL handles help, listing, saving, loading).
+var ErrNotSessionCommand = errors.New("not a session command")
+
+// Eval parses and evaluates one line. base is the position of the line's
+// first character. Every error it returns is a *lang.Error.
+func (s *Session) Eval(base lang.Pos, line string) (res *Result, err error) {
+	st, err := lang.ParseStatement(base, line)
+	if err != nil {
+		return nil, err
+	}
+	return s.Exec(st)
+}
+
+// Exec evaluates a parsed statement.
+func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			// A panic here is a bug in Loopwise, not bad input; report it
+			// against the statement instead of crashing the session.
+			res, err = nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "internal error (please report): %v", r)
+		}
+	}()
+	s.depth = 0
+	switch st.Kind {
+	case lang.Empty:
+		return &Result{Stmt: st}, nil
+	case lang.Command:
+		return s.command(st)
+	case lang.Define:
+		return s.define(st)
+	}
+	p, err := s.compile(st, st.Expr, st.ExprOff, nil, nil)
+	if err != nil {
+		return nil, err
+	}
+	v, err := s.run(p)
+	if err != nil {
+		return nil, err
+	}
+	unit := st.As
+	if st.Kind == lang.Assign {
+		if err := s.assign(st, v); err != nil {
+			return nil, err
+		}
+		if unit == "" {
+			unit = s.declared[st.Name]
+		} else {
+			s.shownAs[st.Name] = unit
+		}
+	} else if unit == "" {
+		if id := strings.TrimSpace(st.Expr); s.kinds[id] == kindVar {
+			unit = s.shownAs[id]
+			if unit == "" {
+				unit = s.declared[id]
+			}
+		}
+	}
+	text, err := s.show(st, v, unit, s.Digits)
+	if err != nil {
+		return nil, err
+	}
+	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec})
+	return &Result{Stmt: st, Value: v, Text: text, Record: rec}, nil
+}
+
+// show formats v, in unit when one is given.
+func (s *Session) show(st *lang.Statement, v Value, unit string, digits int) (string, error) {
+	if unit == "" {
+		return Format(v, digits), nil
+	}
+	text, err := FormatIn(v, unit, digits)
+	if err != nil {
+		off := st.AsOff
+		if st.As == "" {
+			off = st.DeclaredOff
+		}
+		var ue *UnitError
+		if errors.As(err, &ue) {
+			return "", st.Errorf(off+ue.Off, ue.Width, "%s", ue.Msg)
+		}
+		return "", st.Errorf(off, utf8.RuneCountInString(unit), "%s", err)
+	}
+	return text, nil
+}
+
+func (s *Session) checkAssignable(st *lang.Statement) error {
+	switch s.kinds[st.Name] {
+	case kindBuiltin:
+		return st.Errorf(0, utf8.RuneCountInString(st.Name), "%s is a builtin function; choose another name", st.Name)
+	case kindConst:
+		return st.Errorf(0, utf8.RuneCountInString(st.Name), "%s is a constant; choose another name", st.Name)
+	}
+	return nil
+}
+
+func (s *Session) assign(st *lang.Statement, v Value) error {
+	name := st.Name
+	nameOff := leadingSpace(st.Text)
+	if err := s.checkAssignable(st); err != nil {
+		return err
+	}
+	if _, ok := v.(bool); ok {
+		// allowed: flags from comparisons
+	}
+	decl := st.Declared
+	declOff := st.DeclaredOff
+	if decl == "" {
+		decl = s.declared[name]
+		declOff = nameOff
+	}
+	if decl != "" {
+		u, err := ParseUnit(decl)
+		if err != nil {
+			var ue *UnitError
+			if errors.As(err, &ue) {
+				return st.Errorf(st.DeclaredOff+ue.Off, ue.Width, "%s", ue.Msg)
+			}
+			return err
+		}
+		var d Dim
+		switch x := v.(type) {
+		case Quantity:
+			d = x.D
+		case Vector:
+			d = x.D
+		default:
+			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s; cannot assign %s", name, decl, TypeName(v))
+		}
+		if d != u.Dim {
+			return st.Errorf(declOff, utf8.RuneCountInString(decl), "%s is declared in %s, which measures %s; cannot assign %s", name, decl, u.Dim.Describe(), d.Describe())
+		}
+		if st.Declared != "" {
+			s.declared[name] = st.Declared
+		}
+	}
+	s.vars[name] = v
+	if f, ok := v.(*Func); ok && f.Body != "" {
+		s.kinds[name] = kindUserFunc
+	} else {
+		s.kinds[name] = kindVar
+	}
+	return nil
+}
+
+func leadingSpace(t string) int {
+	return utf8.RuneCountInString(t) - utf8.RuneCountInString(strings.TrimLeft(t, " \t"))
+}
+
+// define handles "name(params) = body".
+func (s *Session) define(st *lang.Statement) (*Result, error) {
+	if err := s.checkAssignable(st); err != nil {
+		return nil, err
+	}
+	if s.kinds[st.Name] == kindVar {
+		if _, isFunc := s.vars[st.Name].(*Func); !isFunc {
+			delete(s.declared, st.Name)
+		}
+	}
+	frame := &frameStack{}
+	// The function's own name must be known to compile a recursive body.
+	prev, had := s.kinds[st.Name]
+	s.kinds[st.Name] = kindUserFunc
+	p, err := s.compile(st, st.Expr, st.ExprOff, st.Params, frame)
+	if err != nil {
+		if had {
+			s.kinds[st.Name] = prev
+		} else {
+			delete(s.kinds, st.Name)
+		}
+		return nil, err
+	}
+	n := len(st.Params)
+	f := &Func{Name: st.Name, Params: st.Params, Body: st.Expr, MinArgs: n, MaxArgs: n}
+	where := st.Base.String()
+	f.Call = func(args []Value) (Value, error) {
+		frame.frames = append(frame.frames, args)
+		defer func() { frame.frames = frame.frames[:len(frame.frames)-1] }()
+		v, err := s.run(p)
+		if err != nil {
+			var le *lang.Error
+			if errors.As(err, &le) {
+				return nil, evalErr("in %s (defined at %s, column %d): %s", f.Signature(), where, le.Pos.Col, le.Msg)
+			}
+			return nil, err
+		}
+		return v, nil
+	}
+	s.vars[st.Name] = f
+	s.kinds[st.Name] = kindUserFunc
+	delete(s.shownAs, st.Name)
+	text := "defined " + f.Signature()
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: text})
+	return &Result{Stmt: st, Value: f, Text: text, Record: text}, nil
+}
+
+// command handles the commands that belong to the session itself.
+func (s *Session) command(st *lang.Statement) (*Result, error) {
+	switch st.Cmd {
+	case "digits":
+		n, err := strconv.Atoi(st.Args)
+		if err != nil || n < 2 || n > 15 {
+			return nil, st.Errorf(0, utf8.RuneCountInString(st.Text), ":digits needs a whole number from 2 to 15")
+		}
+		s.Digits = n
+		text := fmt.Sprintf("showing %d significant digits", n)
+		s.Transcript = append(s.Transcript, Entry{Line: st.Text})
+		return &Result{Stmt: st, Text: text}, nil
+	}
+	return nil, ErrNotSessionCommand
+}
+
+// Lookup returns the value bound to name.
+func (s *Session) Lookup(name string) (Value, bool) {
+	v, ok := s.vars[name]
+	return v, ok
+}
+
+// HelpFor returns the help of a builtin or constant.
+func (s *Session) HelpFor(name string) (*Help, bool) {
+	h, ok := s.help[name]
+	return h, ok && h != nil
+}
+
+// Library returns the session's library.
+func (s *Session) Library() Library { return s.lib }
+
+// Variable is a user-defined name with its value, for listings.
+type Variable struct {
+	Name  string
+	Value Value
+	Text  string
+}
+
+// Variables lists user-defined variables and functions in name order.
+func (s *Session) Variables() []Variable {
+	var out []Variable
+	for name, k := range s.kinds {
+		if k != kindVar && k != kindUserFunc {
+			continue
+		}
+		v := s.vars[name]
+		text := Format(v, s.Digits)
+		if u := s.declared[name]; u != "" && k == kindVar {
+			if t, err := FormatIn(v, u, s.Digits); err == nil {
+				text = t
+			}
+		}
+		out = append(out, Variable{Name: name, Value: v, Text: text})
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Name < out[j].Name })
+	return out
+}
+
+// Names lists every name the session knows (for completion).
+func (s *Session) Names() []string {
+	out := make([]string, 0, len(s.kinds))
+	for n := range s.kinds {
+		out = append(out, n)
+	}
+	sort.Strings(out)
+	return out
+}

@@ -1,0 +1,355 @@
+package runtime
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode"
+)
+
+// UnitDef is one entry of the unit catalogue. The unit's size in SI is
+// Factor × 10^Exp10 of the coherent SI unit of Dim; keeping the power of ten
+// apart lets literals such as "5 µT" be built from decimal text exactly.
+type UnitDef struct {
+	Sym     string
+	Name    string
+	Factor  float64
+	Exp10   int
+	Dim     Dim
+	Prefix  bool   // accepts SI prefixes
+	Exact   bool   // the factor is exact by definition
+	Defined string // where the factor comes from
+}
+
+func dim(m, kg, s, a, k, mol, cd int8) Dim { return Dim{m, kg, s, a, k, mol, cd} }
+
+var (
+	dLength  = dim(1, 0, 0, 0, 0, 0, 0)
+	dMass    = dim(0, 1, 0, 0, 0, 0, 0)
+	dTime    = dim(0, 0, 1, 0, 0, 0, 0)
+	dCurrent = dim(0, 0, 0, 1, 0, 0, 0)
+	dFreq    = dim(0, 0, -1, 0, 0, 0, 0)
+	dForce   = dim(1, 1, -2, 0, 0, 0, 0)
+	dEnergy  = dim(2, 1, -2, 0, 0, 0, 0)
+	dPower   = dim(2, 1, -3, 0, 0, 0, 0)
+	dCharge  = dim(0, 0, 1, 1, 0, 0, 0)
+	dVolt    = dim(2, 1, -3, -1, 0, 0, 0)
+	dOhm     = dim(2, 1, -3, -2, 0, 0, 0)
+	dTesla   = dim(0, 1, -2, -1, 0, 0, 0)
+	dWeber   = dim(2, 1, -2, -1, 0, 0, 0)
+	dHenry   = dim(2, 1, -2, -2, 0, 0, 0)
+	dFarad   = dim(-2, -1, 4, 2, 0, 0, 0)
+)
+
+const (
+	siBrochure = "SI Brochure, 9th ed. (BIPM 2019)"
+	nist811    = "NIST SP 811 (2008), Appendix B"
+)
+
+// catalogue lists every unit symbol Loopwise knows.
+var catalogue = []UnitDef{
+	{Sym: "m", Name: "metre", Factor: 1, Dim: dLength, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "g", Name: "gram", Factor: 1, Exp10: -3, Dim: dMass, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "s", Name: "second", Factor: 1, Dim: dTime, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "A", Name: "ampere", Factor: 1, Dim: dCurrent, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "K", Name: "kelvin", Factor: 1, Dim: dim(0, 0, 0, 0, 1, 0, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "mol", Name: "mole", Factor: 1, Dim: dim(0, 0, 0, 0, 0, 1, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "cd", Name: "candela", Factor: 1, Dim: dim(0, 0, 0, 0, 0, 0, 1), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+
+	{Sym: "rad", Name: "radian", Factor: 1, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "sr", Name: "steradian", Factor: 1, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "Hz", Name: "hertz", Factor: 1, Dim: dFreq, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "N", Name: "newton", Factor: 1, Dim: dForce, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "Pa", Name: "pascal", Factor: 1, Dim: dim(-1, 1, -2, 0, 0, 0, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "J", Name: "joule", Factor: 1, Dim: dEnergy, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "W", Name: "watt", Factor: 1, Dim: dPower, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "C", Name: "coulomb", Factor: 1, Dim: dCharge, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "V", Name: "volt", Factor: 1, Dim: dVolt, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "F", Name: "farad", Factor: 1, Dim: dFarad, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "Ω", Name: "ohm", Factor: 1, Dim: dOhm, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "ohm", Name: "ohm", Factor: 1, Dim: dOhm, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "S", Name: "siemens", Factor: 1, Dim: dOhm.Pow(-1), Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "Wb", Name: "weber", Factor: 1, Dim: dWeber, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "T", Name: "tesla", Factor: 1, Dim: dTesla, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "H", Name: "henry", Factor: 1, Dim: dHenry, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+
+	{Sym: "L", Name: "litre", Factor: 1, Exp10: -3, Dim: dLength.Pow(3), Prefix: true, Exact: true, Defined: siBrochure + " Table 8"},
+	{Sym: "min", Name: "minute", Factor: 60, Dim: dTime, Exact: true, Defined: siBrochure + " Table 8"},
+	{Sym: "h", Name: "hour", Factor: 3600, Dim: dTime, Exact: true, Defined: siBrochure + " Table 8"},
+	{Sym: "deg", Name: "degree of angle", Factor: math.Pi / 180, Defined: siBrochure + " Table 8 (π/180 rad)"},
+	{Sym: "eV", Name: "electronvolt", Factor: 1.602176634, Exp10: -19, Dim: dEnergy, Prefix: true, Exact: true, Defined: siBrochure + " Table 8 (e × 1 V)"},
+	{Sym: "gauss", Name: "gauss", Factor: 1, Exp10: -4, Dim: dTesla, Prefix: true, Exact: true, Defined: nist811 + " (1 G = 1e-4 T)"},
+	{Sym: "maxwell", Name: "maxwell", Factor: 1, Exp10: -8, Dim: dWeber, Exact: true, Defined: nist811 + " (1 Mx = 1e-8 Wb)"},
+	{Sym: "Mx", Name: "maxwell", Factor: 1, Exp10: -8, Dim: dWeber, Exact: true, Defined: nist811 + " (1 Mx = 1e-8 Wb)"},
+	{Sym: "inch", Name: "inch", Factor: 254, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 in = 0.0254 m)"},
+	{Sym: "mil", Name: "mil (thou)", Factor: 254, Exp10: -7, Dim: dLength, Exact: true, Defined: nist811 + " (1 mil = 2.54e-5 m)"},
+	{Sym: "ft", Name: "foot", Factor: 3048, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 ft = 0.3048 m)"},
+	{Sym: "rpm", Name: "revolution per minute", Factor: 1.0 / 60, Dim: dFreq, Defined: nist811 + " (1 r/min = 1/60 s^-1)"},
+	{Sym: "turns", Name: "turns (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
+	{Sym: "turn", Name: "turn (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
+}
+
+// siPrefixes lists the accepted SI prefixes (SI Brochure, 9th ed., Table 7).
+// "u" is accepted for micro beside "µ" (U+00B5) and "μ" (U+03BC).
+var siPrefixes = []struct {
+	Sym   string
+	Exp10 int
+}{
+	{"f", -15}, {"p", -12}, {"n", -9}, {"u", -6}, {"µ", -6}, {"μ", -6},
+	{"m", -3}, {"c", -2}, {"k", 3}, {"M", 6}, {"G", 9}, {"T", 12},
+}
+
+var unitBySym = func() map[string]*UnitDef {
+	m := make(map[string]*UnitDef, len(catalogue))
+	for i := range catalogue {
+		m[catalogue[i].Sym] = &catalogue[i]
+	}
+	return m
+}()
+
+// Catalogue returns the unit catalogue (read-only).
+func Catalogue() []UnitDef { return catalogue }
+
+// UnitExpr is the value of a unit expression: Factor × 10^Exp10 in the
+// coherent SI unit of Dim.
+type UnitExpr struct {
+	Factor float64
+	Exp10  int
+	Dim    Dim
+}
+
+// Scale returns the size of the unit in coherent SI units.
+func (u UnitExpr) Scale() float64 {
+	return u.Factor * math.Pow10(u.Exp10)
+}
+
+func (u UnitExpr) mul(v UnitExpr) UnitExpr {
+	return UnitExpr{u.Factor * v.Factor, u.Exp10 + v.Exp10, u.Dim.Mul(v.Dim)}
+}
+
+func (u UnitExpr) pow(n int) UnitExpr {
+	return UnitExpr{math.Pow(u.Factor, float64(n)), u.Exp10 * n, u.Dim.Pow(n)}
+}
+
+// lookupAtom resolves a unit symbol with an optional SI prefix.
+func lookupAtom(sym string) (UnitExpr, bool) {
+	if d, ok := unitBySym[sym]; ok {
+		return UnitExpr{d.Factor, d.Exp10, d.Dim}, true
+	}
+	for _, p := range siPrefixes {
+		if rest, ok := strings.CutPrefix(sym, p.Sym); ok && rest != "" {
+			if d, ok := unitBySym[rest]; ok && d.Prefix {
+				return UnitExpr{d.Factor, d.Exp10 + p.Exp10, d.Dim}, true
+			}
+		}
+	}
+	return UnitExpr{}, false
+}
+
+// UnitTable implements lang.UnitNames over the catalogue.
+type UnitTable struct{}
+
+// IsUnit reports whether name is a unit symbol, with or without a prefix.
+func (UnitTable) IsUnit(name string) bool {
+	_, ok := lookupAtom(name)
+	return ok
+}
+
+// SuggestUnit returns the known unit symbol nearest to name, or "".
+func (UnitTable) SuggestUnit(name string) string {
+	return nearest(name, allUnitSpellings())
+}
+
+var unitSpellings []string
+
+func allUnitSpellings() []string {
+	if unitSpellings != nil {
+		return unitSpellings
+	}
+	var out []string
+	for _, d := range catalogue {
+		out = append(out, d.Sym)
+		if d.Prefix {
+			for _, p := range siPrefixes {
+				out = append(out, p.Sym+d.Sym)
+			}
+		}
+	}
+	sort.Strings(out)
+	unitSpellings = out
+	return out
+}
+
+// UnitError is a problem in a unit expression at rune offset Off.
+type UnitError struct {
+	Off, Width int
+	Msg        string
+}
+
+func (e *UnitError) Error() string { return e.Msg }
+
+// ParseUnit evaluates a unit expression such as "kg*m^2/s^2", "A/ms",
+// "uWb" or "1/(ohm*m)". Spaces are not allowed inside.
+func ParseUnit(text string) (UnitExpr, error) {
+	p := unitParser{r: []rune(text)}
+	u, err := p.product()
+	if err != nil {
+		return UnitExpr{}, err
+	}
+	if p.i < len(p.r) {
+		return UnitExpr{}, &UnitError{p.i, len(p.r) - p.i, fmt.Sprintf("unexpected %q in unit %q", string(p.r[p.i:]), text)}
+	}
+	return u, nil
+}
+
+type unitParser struct {
+	r []rune
+	i int
+}
+
+func (p *unitParser) product() (UnitExpr, error) {
+	u, err := p.factor()
+	if err != nil {
+		return u, err
+	}
+	for p.i < len(p.r) && (p.r[p.i] == '*' || p.r[p.i] == '/') {
+		op := p.r[p.i]
+		p.i++
+		v, err := p.factor()
+		if err != nil {
+			return u, err
+		}
+		if op == '/' {
+			v = v.pow(-1)
+		}
+		u = u.mul(v)
+	}
+	return u, nil
+}
+
+func (p *unitParser) factor() (UnitExpr, error) {
+	var u UnitExpr
+	start := p.i
+	switch {
+	case p.i >= len(p.r):
+		return u, &UnitError{p.i, 1, "a unit is missing"}
+	case p.r[p.i] == '(':
+		p.i++
+		v, err := p.product()
+		if err != nil {
+			return u, err
+		}
+		if p.i >= len(p.r) || p.r[p.i] != ')' {
+			return u, &UnitError{start, 1, "'(' in a unit is never closed"}
+		}
+		p.i++
+		u = v
+	case p.r[p.i] == '1':
+		p.i++
+		u = UnitExpr{Factor: 1}
+	case unicode.IsLetter(p.r[p.i]) || p.r[p.i] == 'µ' || p.r[p.i] == 'Ω':
+		for p.i < len(p.r) && (unicode.IsLetter(p.r[p.i]) || unicode.IsDigit(p.r[p.i]) || p.r[p.i] == '_' || p.r[p.i] == 'µ' || p.r[p.i] == 'Ω') {
+			p.i++
+		}
+		sym := string(p.r[start:p.i])
+		v, ok := lookupAtom(sym)
+		if !ok {
+			msg := fmt.Sprintf("unknown unit %q", sym)
+			if s := (UnitTable{}).SuggestUnit(sym); s != "" {
+				msg += fmt.Sprintf("; did you mean %q?", s)
+			}
+			return u, &UnitError{start, p.i - start, msg}
+		}
+		u = v
+	default:
+		return u, &UnitError{p.i, 1, fmt.Sprintf("unexpected %q in a unit", p.r[p.i])}
+	}
+	if p.i < len(p.r) && p.r[p.i] == '^' {
+		p.i++
+		s := p.i
+		if p.i < len(p.r) && p.r[p.i] == '-' {
+			p.i++
+		}
+		for p.i < len(p.r) && unicode.IsDigit(p.r[p.i]) {
+			p.i++
+		}
+		n, err := strconv.Atoi(string(p.r[s:p.i]))
+		if err != nil || n > 12 || n < -12 {
+			return u, &UnitError{s - 1, p.i - s + 1, "a unit power must be a whole number from -12 to 12"}
+		}
+		u = u.pow(n)
+	}
+	return u, nil
+}
+
+// LiteralValue builds the SI value of "number unit" from the decimal text of
+// the number, so that "5 µT" is exactly the float64 nearest 5e-6.
+func LiteralValue(number string, u UnitExpr) (float64, error) {
+	mant, exp := number, 0
+	if i := strings.IndexAny(number, "eE"); i >= 0 {
+		e, err := strconv.Atoi(number[i+1:])
+		if err != nil {
+			return 0, fmt.Errorf("bad exponent in %q", number)
+		}
+		mant, exp = number[:i], e
+	}
+	v, err := strconv.ParseFloat(fmt.Sprintf("%se%d", mant, exp+u.Exp10), 64)
+	if err != nil && !isRangeErr(err) {
+		return 0, fmt.Errorf("bad number %q", number)
+	}
+	if u.Factor != 1 {
+		v *= u.Factor
+	}
+	if math.IsInf(v, 0) {
+		return 0, fmt.Errorf("number %q is too large", number)
+	}
+	return v, nil
+}
+
+func isRangeErr(err error) bool {
+	ne, ok := err.(*strconv.NumError)
+	return ok && ne.Err == strconv.ErrRange
+}
+
+// nearest returns the candidate closest to name by edit distance, if close
+// enough to be a plausible misspelling.
+func nearest(name string, cands []string) string {
+	best, bestD := "", 1<<30
+	for _, c := range cands {
+		d := editDistance(name, c)
+		if d < bestD || (d == bestD && len(c) < len(best)) {
+			best, bestD = c, d
+		}
+	}
+	limit := 1
+	if n := len([]rune(name)); n > 3 {
+		limit = 2
+	}
+	if bestD <= limit {
+		return best
+	}
+	return ""
+}
+
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}

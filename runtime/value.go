@@ -1,0 +1,112 @@
+package runtime
+
+import (
+	"fmt"
+	"math"
+)
+
+// A Value is what an expression evaluates to: Quantity, Vector, *Func or
+// bool (from comparisons).
+type Value = any
+
+// Quantity is a float64 magnitude in coherent SI units with its dimension.
+// Dimensionless numbers are quantities with a zero Dim.
+type Quantity struct {
+	V float64
+	D Dim
+}
+
+// Num makes a dimensionless quantity.
+func Num(v float64) Quantity { return Quantity{V: v} }
+
+// Vector is a 3-vector whose three components share one dimension.
+type Vector struct {
+	V [3]float64
+	D Dim
+}
+
+// Norm returns the Euclidean length of v.
+func (v Vector) Norm() Quantity {
+	return Quantity{math.Sqrt(v.V[0]*v.V[0] + v.V[1]*v.V[1] + v.V[2]*v.V[2]), v.D}
+}
+
+// Func is a callable value: a builtin or a user-defined function. Functions
+// are first-class: they can be passed to builtins that integrate or
+// differentiate them.
+type Func struct {
+	Name   string
+	Params []string // parameter names (user functions) or documented names
+	Body   string   // source text of a user function's body
+	// MinArgs and MaxArgs bound the argument count; MaxArgs < 0 means any.
+	MinArgs, MaxArgs int
+	// Call evaluates the function. Arguments are already counted.
+	Call func(args []Value) (Value, error)
+	// Help is set for builtins.
+	Help *Help
+}
+
+// Help documents a builtin for the REPL's help command and the README.
+type Help struct {
+	Signature string // with units, e.g. "sqrt(x: any unit with even powers) -> unit^(1/2)"
+	Summary   string
+	Method    string // method and accuracy, when numerical
+	Example   string // one statement that runs
+	Reference string // outside source for the behaviour
+}
+
+// Invoke checks the argument count and calls f.
+func (f *Func) Invoke(args []Value) (Value, error) {
+	if len(args) < f.MinArgs || (f.MaxArgs >= 0 && len(args) > f.MaxArgs) {
+		return nil, fmt.Errorf("%s takes %s, got %d", f.Name, argCount(f.MinArgs, f.MaxArgs), len(args))
+	}
+	return f.Call(args)
+}
+
+func argCount(lo, hi int) string {
+	plural := func(n int) string {
+		if n == 1 {
+			return "1 argument"
+		}
+		return fmt.Sprintf("%d arguments", n)
+	}
+	switch {
+	case lo == hi:
+		return plural(lo)
+	case hi < 0:
+		return "at least " + plural(lo)
+	default:
+		return fmt.Sprintf("%d to %d arguments", lo, hi)
+	}
+}
+
+// Signature returns "name(p1, p2)".
+func (f *Func) Signature() string {
+	s := f.Name + "("
+	for i, p := range f.Params {
+		if i > 0 {
+			s += ", "
+		}
+		s += p
+	}
+	return s + ")"
+}
+
+// TypeName names the kind of a value for messages.
+func TypeName(v Value) string {
+	switch x := v.(type) {
+	case Quantity:
+		return x.D.Describe()
+	case Vector:
+		return "a vector of " + x.D.Describe()
+	case *Func:
+		return "the function " + x.Name
+	case bool:
+		return "a true/false value"
+	case string:
+		return "text"
+	case nil:
+		return "nothing"
+	default:
+		return fmt.Sprintf("%T", v)
+	}
+}
