@@ -86,6 +86,7 @@ type patcher struct {
 	lits   map[string]Quantity
 	params map[string]int
 	known  func(name string) bool
+	names  func() []string
 	err    *lang.Error
 	p      *program
 }
@@ -168,13 +169,32 @@ func unknownNameMsg(name string, v *patcher) string {
 	if (UnitTable{}).IsUnit(name) {
 		return msg + fmt.Sprintf(" (%s is a unit: write a number before it, as in 1 %s)", name, name)
 	}
+	if v.names != nil {
+		if near := nearest(name, v.names()); near != "" {
+			return msg + fmt.Sprintf("; did you mean %q?", near)
+		}
+	}
 	return msg
+}
+
+// sessionUnits is the unit table as the pre-lexer sees it in a session: a
+// word after a number that is one of the session's names gets no unit
+// suggestion, so the message can say how to multiply instead.
+type sessionUnits struct{ s *Session }
+
+func (u sessionUnits) IsUnit(name string) bool { return UnitTable{}.IsUnit(name) }
+
+func (u sessionUnits) SuggestUnit(name string) string {
+	if u.s.known(name) {
+		return ""
+	}
+	return UnitTable{}.SuggestUnit(name)
 }
 
 // compile turns expression text into a program. params are the parameter
 // names of a function body being compiled; frame supplies their values.
 func (s *Session) compile(st *lang.Statement, src string, off int, params []string, frame *frameStack) (*program, error) {
-	rw, err := lang.Rewrite(st, src, off, UnitTable{})
+	rw, err := lang.Rewrite(st, src, off, sessionUnits{s})
 	if err != nil {
 		return nil, err
 	}
@@ -203,7 +223,7 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 	for i, name := range params {
 		pm[name] = i
 	}
-	pt := &patcher{lits: lits, params: pm, known: s.known, p: p}
+	pt := &patcher{lits: lits, params: pm, known: s.known, names: s.Names, p: p}
 	opts := append([]expr.Option{}, opOptions...)
 	opts = append(opts, expr.Patch(pt), expr.Function(fnCall, s.callFunc))
 	if frame != nil {

@@ -196,9 +196,6 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 	if err := s.checkAssignable(st); err != nil {
 		return err
 	}
-	if _, ok := v.(bool); ok {
-		// allowed: flags from comparisons
-	}
 	decl := st.Declared
 	declOff := st.DeclaredOff
 	if decl == "" {

@@ -319,7 +319,7 @@ func nearest(name string, cands []string) string {
 	best, bestD := "", 1<<30
 	for _, c := range cands {
 		d := editDistance(name, c)
-		if d < bestD || (d == bestD && len(c) < len(best)) {
+		if d < bestD || (d == bestD && sharesFirst(name, c) && !sharesFirst(name, best)) {
 			best, bestD = c, d
 		}
 	}
@@ -352,4 +352,8 @@ func editDistance(a, b string) int {
 		prev, cur = cur, prev
 	}
 	return prev[len(rb)]
+}
+
+func sharesFirst(a, b string) bool {
+	return a != "" && b != "" && []rune(a)[0] == []rune(b)[0]
 }

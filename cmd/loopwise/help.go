@@ -1,0 +1,119 @@
+package main
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+const generalHelp = `Loopwise evaluates statements with units.
+
+Statements
+  gap = 4 mm                     assign a name
+  coil: mm = 12.5 mm             assign and declare the unit it must keep (and is shown in)
+  I(t) = 20 A * sin(2*pi*50 Hz*t)  define a function (it sees current values of other names)
+  I(2.5 ms)                      show a value, in the best SI prefix
+  flux as uWb                    show a value in a chosen unit
+  x = 3 mm*4 mm as mm^2          assign, and show it in a unit
+  // text after two slashes is a comment
+
+Numbers and units
+  A unit follows a number, with or without a space: 5 mT, 3 A/ms, 2 kg*m^2/s^2.
+  Compound units are written without spaces; a space ends the unit (2 m * s
+  multiplies by a name s). Prefixes f p n u µ m c k M G T; u means micro.
+  Vectors: [0, 0, 5] mm, with + - * / by scalars, dot, cross, norm, .x .y .z.
+  Operators: + - * / % ^ (power), comparisons == != < <= > >=, and/or/not.
+
+Commands
+  :help [name]    this text, or help on a builtin, constant, unit or variable
+  :vars           list your variables and functions
+  :units [text]   list the units (optionally only those matching text)
+  :digits N       show N significant digits (default 6)
+  :save FILE      save this session as a script that replays (statements and results)
+  :load FILE      evaluate a script into this session
+  :quit           leave (Ctrl-D also leaves; Ctrl-C clears the line)
+
+Scripts
+  A script is a Markdown file; statements sit in blocks fenced by a line
+  ` + "```lw" + ` and a line ` + "```" + `, each followed by its recorded result on a
+  line starting with ↳. loopwise run/check/record FILE replay them.
+
+Safety
+  Induced voltages, induction heating and strong magnetic fields can injure.
+  Loopwise computes numbers; it does not replace local electrical codes,
+  exposure limits or the judgement of a licensed professional.
+`
+
+func (c *console) help(arg string) {
+	arg = strings.TrimSpace(arg)
+	if arg == "" {
+		fmt.Fprint(c.out, generalHelp)
+		c.listBuiltins()
+		return
+	}
+	if h, ok := c.s.HelpFor(arg); ok {
+		c.showHelp(arg, h)
+		return
+	}
+	if v, ok := c.s.Lookup(arg); ok {
+		fmt.Fprintf(c.out, "%s is your variable: %s\n", arg, runtime.Format(v, c.s.Digits))
+		return
+	}
+	if u, err := runtime.ParseUnit(arg); err == nil {
+		fmt.Fprintf(c.out, "%s is a unit: 1 %s = %s, a unit of %s\n", arg, arg,
+			siSize(u), u.Dim.Describe())
+		for _, d := range runtime.Catalogue() {
+			if d.Sym == arg {
+				fmt.Fprintf(c.out, "  %s; defined by %s\n", d.Name, d.Defined)
+			}
+		}
+		return
+	}
+	fmt.Fprintf(c.out, "no help for %q; :help lists the builtins, :units the units\n", arg)
+}
+
+func (c *console) showHelp(name string, h *runtime.Help) {
+	fmt.Fprintf(c.out, "%s\n  %s\n", h.Signature, h.Summary)
+	if h.Method != "" {
+		fmt.Fprintf(c.out, "  method: %s\n", h.Method)
+	}
+	if h.Example != "" {
+		// The example runs in a scratch session so the user's names are
+		// untouched; its result is shown beside it.
+		scratch := newSession()
+		res, err := scratch.Eval(lang.Pos{Line: 1, Col: 1}, h.Example)
+		if err != nil {
+			fmt.Fprintf(c.out, "  example: %s\n", h.Example)
+		} else {
+			fmt.Fprintf(c.out, "  example: %s   %s %s\n", h.Example, runtime.ResultMark, res.Text)
+		}
+	}
+	if h.Reference != "" {
+		fmt.Fprintf(c.out, "  reference: %s\n", h.Reference)
+	}
+}
+
+func (c *console) listBuiltins() {
+	lib := c.s.Library()
+	var fs, cs []string
+	for _, f := range lib.Funcs {
+		fs = append(fs, f.Name)
+	}
+	for _, k := range lib.Consts {
+		cs = append(cs, k.Name)
+	}
+	sort.Strings(fs)
+	fmt.Fprintf(c.out, "\nBuiltins (:help NAME for one): %s\n", strings.Join(fs, " "))
+	fmt.Fprintf(c.out, "Constants: %s\n", strings.Join(cs, " "))
+}
+
+// siSize writes the size of a unit in the coherent SI unit of its dimension.
+func siSize(u runtime.UnitExpr) string {
+	if u.Dim.IsZero() {
+		return runtime.FormatNumber(u.Scale(), 12)
+	}
+	return runtime.FormatNumber(u.Scale(), 12) + " " + runtime.DisplayUnitOf(u.Dim)
+}

@@ -1,0 +1,182 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"loopwise/builtins"
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+const usage = `usage:
+  loopwise                          interactive prompt (reads a pipe line by line)
+  loopwise FILE.lw                  same as loopwise run FILE.lw
+  loopwise run FILE|DIR...          evaluate scripts and print the worked calculation
+  loopwise check [-tol R] FILE|DIR...
+                                    re-evaluate scripts and compare recorded results
+                                    (relative tolerance R, default 1e-9); exit 1 on drift
+  loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
+  loopwise help                     this text; type :help at the prompt for the language
+`
+
+func newSession() *runtime.Session {
+	return runtime.NewSession(builtins.Standard())
+}
+
+// run is main without os.Exit, so tests can call it.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		return repl(stdin, stdout, stderr)
+	}
+	cmd, rest := args[0], args[1:]
+	switch cmd {
+	case "run":
+		return runFiles(rest, stdout, stderr)
+	case "check":
+		return checkFiles(rest, stdout, stderr)
+	case "record":
+		return recordFiles(rest, stdout, stderr)
+	case "help", "-h", "-help", "--help":
+		fmt.Fprint(stdout, usage)
+		return 0
+	}
+	if strings.HasSuffix(cmd, runtime.ScriptExt) {
+		return runFiles(args, stdout, stderr)
+	}
+	fmt.Fprintf(stderr, "loopwise: unknown command %q\n%s", cmd, usage)
+	return 2
+}
+
+func expand(cmd string, args []string, stderr io.Writer) ([]string, bool) {
+	if len(args) == 0 {
+		fmt.Fprintf(stderr, "loopwise %s: name at least one script file or directory\n", cmd)
+		return nil, false
+	}
+	files, err := runtime.ExpandPaths(args)
+	if err != nil {
+		fmt.Fprintf(stderr, "loopwise %s: %v\n", cmd, err)
+		return nil, false
+	}
+	return files, true
+}
+
+func load(path string) (*runtime.Script, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	return runtime.ParseScript(path, data)
+}
+
+func runFiles(args []string, stdout, stderr io.Writer) int {
+	files, ok := expand("run", args, stderr)
+	if !ok {
+		return 2
+	}
+	status := 0
+	for i, f := range files {
+		if len(files) > 1 {
+			if i > 0 {
+				fmt.Fprintln(stdout)
+			}
+			fmt.Fprintf(stdout, "==> %s <==\n", f)
+		}
+		sc, err := load(f)
+		if err == nil {
+			err = sc.Run(newSession(), stdout)
+		}
+		if err != nil {
+			fmt.Fprintln(stderr, err)
+			status = 1
+		}
+	}
+	return status
+}
+
+func checkFiles(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("check", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
+	if err := fs.Parse(args); err != nil {
+		return 2
+	}
+	if *tol < 0 || *tol >= 1 {
+		fmt.Fprintf(stderr, "loopwise check: -tol must be at least 0 and below 1, got %g\n", *tol)
+		return 2
+	}
+	files, ok := expand("check", fs.Args(), stderr)
+	if !ok {
+		return 2
+	}
+	status := 0
+	for _, f := range files {
+		sc, err := load(f)
+		var drifts []runtime.Drift
+		if err == nil {
+			drifts, err = sc.Check(newSession(), *tol)
+		}
+		for _, d := range drifts {
+			status = 1
+			switch {
+			case d.Why != "":
+				fmt.Fprintf(stdout, "%s:%d: %s\n", f, d.Line, d.Why)
+				if d.Recorded != "" {
+					fmt.Fprintf(stdout, "    recorded: %s\n", d.Recorded)
+				}
+				if d.Now != "" {
+					fmt.Fprintf(stdout, "    now:      %s\n", d.Now)
+				}
+			default:
+				fmt.Fprintf(stdout, "%s:%d: result drifted\n    recorded: %s\n    now:      %s\n", f, d.Line, d.Recorded, d.Now)
+			}
+		}
+		if err != nil {
+			fmt.Fprintln(stderr, err)
+			status = 1
+			continue
+		}
+		if len(drifts) == 0 {
+			fmt.Fprintf(stdout, "%s: ok (%d statements)\n", f, len(sc.Stmts))
+		}
+	}
+	return status
+}
+
+func recordFiles(args []string, stdout, stderr io.Writer) int {
+	files, ok := expand("record", args, stderr)
+	if !ok {
+		return 2
+	}
+	status := 0
+	for _, f := range files {
+		sc, err := load(f)
+		var data []byte
+		if err == nil {
+			data, err = sc.Record(newSession())
+		}
+		if err == nil {
+			err = runtime.WriteFileAtomic(f, data)
+		}
+		if err != nil {
+			var le *lang.Error
+			if !errors.As(err, &le) {
+				err = fmt.Errorf("%s: %w (file left unchanged)", f, err)
+			}
+			fmt.Fprintln(stderr, err)
+			fmt.Fprintf(stderr, "%s: left unchanged\n", f)
+			status = 1
+			continue
+		}
+		fmt.Fprintf(stdout, "%s: recorded\n", f)
+	}
+	return status
+}

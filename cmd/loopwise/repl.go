@@ -1,0 +1,302 @@
+package main
+
+import (
+	"bufio"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"time"
+	"unicode"
+
+	"github.com/peterh/liner"
+
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+const prompt = "lw> "
+
+// console evaluates what a user types; it knows nothing of terminals, so
+// tests feed it lines from any reader.
+type console struct {
+	s      *runtime.Session
+	out    io.Writer
+	errOut io.Writer
+	n      int  // lines read so far
+	failed bool // some line gave an error
+}
+
+func newConsole(out, errOut io.Writer) *console {
+	return &console{s: newSession(), out: out, errOut: errOut}
+}
+
+// line handles one input line; it reports whether the user asked to quit.
+func (c *console) line(text string) (quit bool) {
+	c.n++
+	st, err := lang.ParseStatement(lang.Pos{Line: c.n, Col: 1}, text)
+	if err != nil {
+		c.fail(err)
+		return false
+	}
+	if st.Kind == lang.Command {
+		switch st.Cmd {
+		case "quit", "exit":
+			return true
+		case "help":
+			c.help(st.Args)
+			return false
+		case "vars":
+			c.vars()
+			return false
+		case "units":
+			c.units(st.Args)
+			return false
+		case "save":
+			c.save(st)
+			return false
+		case "load":
+			c.load(st)
+			return false
+		}
+	}
+	res, err := c.s.Exec(st)
+	if errors.Is(err, runtime.ErrNotSessionCommand) {
+		c.fail(st.Errorf(0, len([]rune(strings.TrimSpace(st.Text))), "unknown command :%s; type :help for the list", st.Cmd))
+		return false
+	}
+	if err != nil {
+		c.fail(err)
+		return false
+	}
+	switch {
+	case st.Kind == lang.Empty:
+	case st.Kind == lang.Assign:
+		fmt.Fprintf(c.out, "%s = %s\n", st.Name, res.Text)
+	default:
+		fmt.Fprintln(c.out, res.Text)
+	}
+	return false
+}
+
+func (c *console) fail(err error) {
+	c.failed = true
+	fmt.Fprintln(c.errOut, err)
+}
+
+func (c *console) vars() {
+	vs := c.s.Variables()
+	if len(vs) == 0 {
+		fmt.Fprintln(c.out, "no variables yet; assign one with: gap = 4 mm")
+		return
+	}
+	w := 0
+	for _, v := range vs {
+		w = max(w, len(v.Name))
+	}
+	for _, v := range vs {
+		if f, ok := v.Value.(*runtime.Func); ok {
+			fmt.Fprintf(c.out, "%-*s  %s\n", w, v.Name, runtime.Format(f, c.s.Digits))
+			continue
+		}
+		fmt.Fprintf(c.out, "%-*s  %s\n", w, v.Name, v.Text)
+	}
+}
+
+func (c *console) units(filter string) {
+	fmt.Fprintln(c.out, "symbol   name                      size in SI units                  defined by")
+	for _, u := range runtime.Catalogue() {
+		if filter != "" && !strings.Contains(u.Sym+" "+u.Name, filter) {
+			continue
+		}
+		size := runtime.Format(runtime.Quantity{V: u.Factor * pow10(u.Exp10), D: u.Dim}, 12)
+		if u.Dim.IsZero() {
+			size = runtime.FormatNumber(u.Factor*pow10(u.Exp10), 12) + " (dimensionless)"
+		}
+		pre := ""
+		if u.Prefix {
+			pre = " *"
+		}
+		fmt.Fprintf(c.out, "%-8s %-25s %-33s %s\n", u.Sym+pre, u.Name, size, u.Defined)
+	}
+	fmt.Fprintln(c.out, "* takes SI prefixes: f p n u µ m c k M G T (u is micro, like µ)")
+	fmt.Fprintln(c.out, "compound units need no spaces: 3 A/ms, 2 kg*m^2/s^2, 1.5 W/(m*K)")
+}
+
+func pow10(n int) float64 {
+	x := 1.0
+	for ; n > 0; n-- {
+		x *= 10
+	}
+	for ; n < 0; n++ {
+		x /= 10
+	}
+	return x
+}
+
+func (c *console) save(st *lang.Statement) {
+	path := strings.TrimSpace(st.Args)
+	if path == "" {
+		c.fail(st.Errorf(0, 5, ":save needs a file name, as in :save coil.lw"))
+		return
+	}
+	if filepath.Ext(path) == "" {
+		path += runtime.ScriptExt
+	}
+	title := "Loopwise session of " + time.Now().Format("2006-01-02 15:04")
+	if err := runtime.WriteFileAtomic(path, runtime.SessionScript(title, c.s.Transcript)); err != nil {
+		c.fail(st.Errorf(0, 5, "cannot save: %v", err))
+		return
+	}
+	fmt.Fprintf(c.out, "saved %d statements to %s\n", len(c.s.Transcript), path)
+}
+
+func (c *console) load(st *lang.Statement) {
+	path := strings.TrimSpace(st.Args)
+	if path == "" {
+		c.fail(st.Errorf(0, 5, ":load needs a file name, as in :load coil.lw"))
+		return
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		c.fail(st.Errorf(0, 5, "cannot load: %v", err))
+		return
+	}
+	sc, err := runtime.ParseScript(path, data)
+	if err == nil {
+		err = sc.Run(c.s, c.out)
+	}
+	if err != nil {
+		c.fail(err)
+		fmt.Fprintln(c.errOut, "(statements before the error are kept)")
+	}
+}
+
+// repl runs the interactive prompt, or reads statements line by line when
+// stdin is not a terminal.
+func repl(stdin io.Reader, stdout, stderr io.Writer) int {
+	c := newConsole(stdout, stderr)
+	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
+		return terminalLoop(c)
+	}
+	sc := bufio.NewScanner(stdin)
+	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
+	for sc.Scan() {
+		if c.line(sc.Text()) {
+			break
+		}
+	}
+	if err := sc.Err(); err != nil {
+		fmt.Fprintf(stderr, "loopwise: reading input: %v\n", err)
+		return 1
+	}
+	if c.failed {
+		return 1
+	}
+	return 0
+}
+
+func isTerminal(f *os.File) bool {
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+func historyPath() string {
+	dir, err := os.UserConfigDir()
+	if err != nil {
+		return ""
+	}
+	return filepath.Join(dir, "loopwise", "history")
+}
+
+func terminalLoop(c *console) int {
+	ln := liner.NewLiner()
+	defer ln.Close()
+	ln.SetCtrlCAborts(true)
+	ln.SetTabCompletionStyle(liner.TabPrints)
+	ln.SetWordCompleter(func(line string, pos int) (string, []string, string) {
+		return complete(c.s, line, pos)
+	})
+	hist := historyPath()
+	if hist != "" {
+		if f, err := os.Open(hist); err == nil {
+			ln.ReadHistory(f)
+			f.Close()
+		}
+	}
+	saveHistory := func() {
+		if hist == "" {
+			return
+		}
+		if err := os.MkdirAll(filepath.Dir(hist), 0o755); err != nil {
+			return
+		}
+		if f, err := os.Create(hist); err == nil {
+			ln.WriteHistory(f)
+			f.Close()
+		}
+	}
+	defer saveHistory()
+	fmt.Fprintln(c.out, "Loopwise — induction calculations with units. :help for help, Ctrl-D to leave.")
+	for {
+		text, err := ln.Prompt(prompt)
+		if errors.Is(err, liner.ErrPromptAborted) {
+			continue // Ctrl-C drops the line, keeps the session
+		}
+		if err != nil { // io.EOF on Ctrl-D
+			fmt.Fprintln(c.out)
+			return 0
+		}
+		if strings.TrimSpace(text) != "" {
+			ln.AppendHistory(text)
+		}
+		if c.line(text) {
+			return 0
+		}
+	}
+}
+
+// complete offers names, units and commands for the word before pos.
+func complete(s *runtime.Session, line string, pos int) (string, []string, string) {
+	r := []rune(line)
+	if pos > len(r) {
+		pos = len(r)
+	}
+	start := pos
+	for start > 0 && (unicode.IsLetter(r[start-1]) || unicode.IsDigit(r[start-1]) || r[start-1] == '_' || r[start-1] == ':' || r[start-1] == 'µ') {
+		start--
+	}
+	word := string(r[start:pos])
+	if word == "" {
+		return line[:len(string(r[:pos]))], nil, string(r[pos:])
+	}
+	var cands []string
+	if strings.HasPrefix(word, ":") {
+		for _, cmd := range commandNames {
+			if strings.HasPrefix(cmd, word) {
+				cands = append(cands, cmd)
+			}
+		}
+	} else {
+		seen := map[string]bool{}
+		add := func(n string) {
+			if strings.HasPrefix(n, word) && !seen[n] {
+				seen[n] = true
+				cands = append(cands, n)
+			}
+		}
+		for _, n := range s.Names() {
+			add(n)
+		}
+		for _, u := range runtime.Catalogue() {
+			add(u.Sym)
+		}
+		sort.Strings(cands)
+	}
+	return string(r[:start]), cands, string(r[pos:])
+}
+
+var commandNames = []string{":help", ":vars", ":units", ":save", ":load", ":digits", ":quit"}
