@@ -354,3 +354,33 @@ func (s *Session) Names() []string {
 	sort.Strings(out)
 	return out
 }
+
+// Compiled is an expression compiled once, to be evaluated many times (by
+// sweeps, solvers and benchmarks) against the session's current names.
+type Compiled struct {
+	s *Session
+	p *program
+}
+
+// CompileExpr compiles the expression text of one line without evaluating
+// it. The line must be a bare expression.
+func (s *Session) CompileExpr(base lang.Pos, text string) (*Compiled, error) {
+	st, err := lang.ParseStatement(base, text)
+	if err != nil {
+		return nil, err
+	}
+	if st.Kind != lang.Expr || st.As != "" {
+		return nil, st.Errorf(0, utf8.RuneCountInString(text), "only an expression can be compiled here")
+	}
+	p, err := s.compile(st, st.Expr, st.ExprOff, nil, nil)
+	if err != nil {
+		return nil, err
+	}
+	return &Compiled{s: s, p: p}, nil
+}
+
+// Eval evaluates the compiled expression.
+func (c *Compiled) Eval() (Value, error) {
+	c.s.depth = 0
+	return c.s.run(c.p)
+}

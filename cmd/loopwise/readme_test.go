@@ -1,0 +1,42 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"strings"
+	"testing"
+)
+
+// TestReadmeTour replays the prompt transcript in README.md's tour, so the
+// documentation cannot drift from what the program prints.
+func TestReadmeTour(t *testing.T) {
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, after, ok := strings.Cut(string(data), "```text\n")
+	if !ok {
+		t.Fatal("README has no ```text block")
+	}
+	block, _, _ := strings.Cut(after, "```")
+	var inputs []string
+	var want strings.Builder
+	for _, line := range strings.Split(strings.TrimSuffix(block, "\n"), "\n") {
+		if in, ok := strings.CutPrefix(line, prompt); ok {
+			inputs = append(inputs, in)
+			continue
+		}
+		want.WriteString(line + "\n")
+	}
+	if len(inputs) < 3 {
+		t.Fatalf("tour has only %d inputs", len(inputs))
+	}
+	var got bytes.Buffer
+	c := newConsole(&got, &got)
+	for _, in := range inputs {
+		c.line(in)
+	}
+	if got.String() != want.String() {
+		t.Errorf("README tour differs from the program.\n--- README\n%s--- program\n%s", want.String(), got.String())
+	}
+}

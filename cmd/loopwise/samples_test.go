@@ -1,0 +1,54 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"loopwise/runtime"
+)
+
+// TestSamples replays every worked sample and compares each recorded result
+// (relative tolerance 1e-9, the default of loopwise check). The samples'
+// numbers were checked against their sources when they were written; this
+// test guards them against drift. On a mismatch it writes the freshly
+// recorded script beside the sample and prints the diff command.
+func TestSamples(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join("..", "..", "samples", "*.lw"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(files) == 0 {
+		t.Fatal("no samples found")
+	}
+	for _, f := range files {
+		t.Run(filepath.Base(f), func(t *testing.T) {
+			data, err := os.ReadFile(f)
+			if err != nil {
+				t.Fatal(err)
+			}
+			sc, err := runtime.ParseScript(f, data)
+			if err != nil {
+				t.Fatal(err)
+			}
+			drifts, err := sc.Check(newSession(), runtime.DefaultTolerance)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(drifts) == 0 {
+				return
+			}
+			for _, d := range drifts {
+				t.Errorf("%s:%d: recorded %q, now %q %s", f, d.Line, d.Recorded, d.Now, d.Why)
+			}
+			fresh, err := sc.Record(newSession())
+			if err == nil && !bytes.Equal(fresh, data) {
+				out := f + ".new"
+				if os.WriteFile(out, fresh, 0o644) == nil {
+					t.Logf("wrote the new results to %s; compare with: diff %s %s", out, f, out)
+				}
+			}
+		})
+	}
+}
