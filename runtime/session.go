@@ -192,15 +192,12 @@ func (s *Session) checkAssignable(st *lang.Statement) error {
 
 func (s *Session) assign(st *lang.Statement, v Value) error {
 	name := st.Name
-	nameOff := leadingSpace(st.Text)
 	if err := s.checkAssignable(st); err != nil {
 		return err
 	}
 	decl := st.Declared
-	declOff := st.DeclaredOff
 	if decl == "" {
 		decl = s.declared[name]
-		declOff = nameOff
 	}
 	if decl != "" {
 		u, err := ParseUnit(decl)
@@ -221,7 +218,7 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s; cannot assign %s", name, decl, TypeName(v))
 		}
 		if d != u.Dim {
-			return st.Errorf(declOff, utf8.RuneCountInString(decl), "%s is declared in %s, which measures %s; cannot assign %s", name, decl, u.Dim.Describe(), d.Describe())
+			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s, which measures %s; cannot assign %s", name, decl, u.Dim.Describe(), d.Describe())
 		}
 		if st.Declared != "" {
 			s.declared[name] = st.Declared
@@ -236,19 +233,10 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 	return nil
 }
 
-func leadingSpace(t string) int {
-	return utf8.RuneCountInString(t) - utf8.RuneCountInString(strings.TrimLeft(t, " \t"))
-}
-
 // define handles "name(params) = body".
 func (s *Session) define(st *lang.Statement) (*Result, error) {
 	if err := s.checkAssignable(st); err != nil {
 		return nil, err
-	}
-	if s.kinds[st.Name] == kindVar {
-		if _, isFunc := s.vars[st.Name].(*Func); !isFunc {
-			delete(s.declared, st.Name)
-		}
 	}
 	frame := &frameStack{}
 	// The function's own name must be known to compile a recursive body.
@@ -282,6 +270,7 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 	s.vars[st.Name] = f
 	s.kinds[st.Name] = kindUserFunc
 	delete(s.shownAs, st.Name)
+	delete(s.declared, st.Name)
 	text := "defined " + f.Signature()
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: text})
 	return &Result{Stmt: st, Value: f, Text: text, Record: text}, nil
