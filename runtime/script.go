@@ -43,6 +43,7 @@ type Script struct {
 	Lines []string
 	Stmts []ScriptStmt
 	block []bool // line i lies inside a block of statements
+	fence []bool // line i opens or closes a block of statements
 }
 
 // ScriptStmt is one statement line of a script.
@@ -90,6 +91,7 @@ func ParseScript(path string, data []byte) (*Script, error) {
 	inLW, inOther := false, false
 	openLine := 0
 	sc.block = make([]bool, len(sc.Lines))
+	sc.fence = make([]bool, len(sc.Lines))
 	for i, line := range sc.Lines {
 		if ok, info := fence(line); ok {
 			switch {
@@ -98,10 +100,12 @@ func ParseScript(path string, data []byte) (*Script, error) {
 					return nil, scriptErr(path, i, line, "a block of statements must be closed with ``` before another one opens")
 				}
 				inLW = false
+				sc.fence[i] = true
 			case inOther:
 				inOther = false
 			case info == FenceTag:
 				inLW, openLine = true, i
+				sc.fence[i] = true
 			default:
 				inOther = true
 			}
@@ -117,8 +121,11 @@ func ParseScript(path string, data []byte) (*Script, error) {
 				sc.Stmts[n-1].Result = i
 			}
 			// a result line with no statement above it is left for
-			// record to drop and check to report
+			// record to drop
 			continue
+		}
+		if t := strings.TrimSpace(line); t == "" || strings.HasPrefix(t, "//") {
+			continue // blank and comment lines are kept as they are
 		}
 		sc.Stmts = append(sc.Stmts, ScriptStmt{Line: i, Result: -1})
 	}
@@ -144,7 +151,9 @@ func (sc *Script) evalStmt(s *Session, st ScriptStmt) (*Result, error) {
 	text, col := statementText(sc.Lines[st.Line])
 	res, err := s.Eval(lang.Pos{File: sc.Path, Line: st.Line + 1, Col: col}, text)
 	if errors.Is(err, ErrNotSessionCommand) {
-		return nil, scriptErr(sc.Path, st.Line, sc.Lines[st.Line], fmt.Sprintf("the command :%s works only at the interactive prompt", res0(text)))
+		return nil, &lang.Error{Pos: lang.Pos{File: sc.Path, Line: st.Line + 1, Col: col},
+			Msg:    fmt.Sprintf("the command :%s works only at the interactive prompt", res0(text)),
+			Source: sc.Lines[st.Line], Width: len([]rune(strings.TrimSpace(text)))}
 	}
 	if le, ok := lang.AsError(err); ok && le.Source == text {
 		le.Source = sc.Lines[st.Line]
@@ -179,10 +188,13 @@ func (sc *Script) Run(s *Session, w io.Writer) error {
 			}
 			continue
 		}
-		if ok, _ := fence(line); ok || isResultLineInBlock(sc, i) {
-			continue
+		switch {
+		case sc.fence[i] || isResultLineInBlock(sc, i):
+		case sc.block[i] && strings.TrimSpace(line) != "":
+			fmt.Fprintf(w, "    %s\n", strings.TrimLeft(line, " \t")) // a comment line
+		default:
+			fmt.Fprintln(w, strings.TrimRight(line, " \t"))
 		}
-		fmt.Fprintln(w, line)
 	}
 	return nil
 }

@@ -63,8 +63,12 @@ func (c *console) help(arg string) {
 		return
 	}
 	if u, err := runtime.ParseUnit(arg); err == nil {
-		fmt.Fprintf(c.out, "%s is a unit: 1 %s = %s, a unit of %s\n", arg, arg,
-			siSize(u), u.Dim.Describe())
+		if u.Dim.IsZero() {
+			fmt.Fprintf(c.out, "%s is a dimensionless unit of size %s\n", arg, siSize(u))
+		} else {
+			fmt.Fprintf(c.out, "%s is a unit: 1 %s = %s, a unit of %s\n", arg, arg,
+				siSize(u), u.Dim.Describe())
+		}
 		for _, d := range runtime.Catalogue() {
 			if d.Sym == arg {
 				fmt.Fprintf(c.out, "  %s; defined by %s\n", d.Name, d.Defined)

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"strings"
 
@@ -56,17 +57,24 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	return 2
 }
 
-func expand(cmd string, args []string, stderr io.Writer) ([]string, bool) {
+// expand lists the scripts named by args; on failure it has printed why.
+// It returns the exit status to use on failure: 2 for a usage error, 1 for
+// a file that cannot be read.
+func expand(cmd string, args []string, stderr io.Writer) ([]string, int) {
 	if len(args) == 0 {
 		fmt.Fprintf(stderr, "loopwise %s: name at least one script file or directory\n", cmd)
-		return nil, false
+		return nil, 2
 	}
 	files, err := runtime.ExpandPaths(args)
 	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = fmt.Errorf("%s: %v", pe.Path, pe.Err)
+		}
 		fmt.Fprintf(stderr, "loopwise %s: %v\n", cmd, err)
-		return nil, false
+		return nil, 1
 	}
-	return files, true
+	return files, 0
 }
 
 func load(path string) (*runtime.Script, error) {
@@ -78,9 +86,9 @@ func load(path string) (*runtime.Script, error) {
 }
 
 func runFiles(args []string, stdout, stderr io.Writer) int {
-	files, ok := expand("run", args, stderr)
-	if !ok {
-		return 2
+	files, code := expand("run", args, stderr)
+	if code != 0 {
+		return code
 	}
 	status := 0
 	for i, f := range files {
@@ -106,16 +114,25 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
-	if err := fs.Parse(args); err != nil {
-		return 2
+	// Flags may come before or after the file names.
+	var files []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return 2
+		}
+		if fs.NArg() == 0 {
+			break
+		}
+		files = append(files, fs.Arg(0))
+		args = fs.Args()[1:]
 	}
 	if *tol < 0 || *tol >= 1 {
 		fmt.Fprintf(stderr, "loopwise check: -tol must be at least 0 and below 1, got %g\n", *tol)
 		return 2
 	}
-	files, ok := expand("check", fs.Args(), stderr)
-	if !ok {
-		return 2
+	files, code := expand("check", files, stderr)
+	if code != 0 {
+		return code
 	}
 	status := 0
 	for _, f := range files {
@@ -145,16 +162,17 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 			continue
 		}
 		if len(drifts) == 0 {
-			fmt.Fprintf(stdout, "%s: ok (%d statements)\n", f, len(sc.Stmts))
+			n := len(sc.Stmts)
+			fmt.Fprintf(stdout, "%s: ok (%d statement%s)\n", f, n, map[bool]string{true: "", false: "s"}[n == 1])
 		}
 	}
 	return status
 }
 
 func recordFiles(args []string, stdout, stderr io.Writer) int {
-	files, ok := expand("record", args, stderr)
-	if !ok {
-		return 2
+	files, code := expand("record", args, stderr)
+	if code != 0 {
+		return code
 	}
 	status := 0
 	for _, f := range files {
