@@ -2,6 +2,7 @@ package lang
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 	"unicode"
 )
@@ -25,9 +26,10 @@ type Literal struct {
 // Rewritten is an expression with its unit literals replaced by
 // placeholders, ready for the expression engine.
 type Rewritten struct {
-	Src  string
-	Lits []Literal
-	orig []int // rune index in Src -> rune offset in the original expression
+	Src     string
+	Lits    []Literal
+	orig    []int // rune index in Src -> rune offset in the original expression
+	origLen int   // rune length of the original expression
 }
 
 // Orig maps a rune offset in Src back to the rune offset in the expression
@@ -37,10 +39,7 @@ func (w *Rewritten) Orig(i int) int {
 		return 0
 	}
 	if i >= len(w.orig) {
-		if len(w.orig) == 0 {
-			return i
-		}
-		return w.orig[len(w.orig)-1] + 1 + (i - len(w.orig))
+		return w.origLen + (i - len(w.orig))
 	}
 	return w.orig[i]
 }
@@ -56,7 +55,7 @@ const PlaceholderPrefix = "__L"
 // scale a vector or a parenthesised expression: "[0, 0, 5] mm".
 func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten, error) {
 	r := []rune(src)
-	w := &Rewritten{}
+	w := &Rewritten{origLen: len(r)}
 	var out []rune
 	emit := func(text string, origAt int) {
 		for _, c := range text {
@@ -140,6 +139,9 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 				if j < len(r) && isIdentStart(r[j]) {
 					// digits glued to a keyword, e.g. "2and"
 					return nil, errAt(i, j-i+1, "a number must be followed by a space or an operator here")
+				}
+				if _, err := strconv.ParseFloat(num, 64); err != nil {
+					return nil, errAt(i, j-i, "number %q is too large", num)
 				}
 				if c == '.' {
 					emit("0", i)
@@ -290,6 +292,14 @@ func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
 		q := p
 		for q < len(r) && unicode.IsDigit(r[q]) {
 			q++
+		}
+		// a fractional power ("m^0.5") is taken whole so that the unit
+		// parser can reject it with a clear message
+		if q > p && q+1 < len(r) && r[q] == '.' && unicode.IsDigit(r[q+1]) {
+			q++
+			for q < len(r) && unicode.IsDigit(r[q]) {
+				q++
+			}
 		}
 		if q > p {
 			e = q

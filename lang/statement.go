@@ -127,7 +127,7 @@ func ParseStatement(base Pos, text string) (*Statement, error) {
 func (s *Statement) parseLeft(r []rune, start, eq int) error {
 	i := start
 	if !isIdentStart(r[i]) {
-		return s.Errorf(start, eq-start, "the left side of = must be a name, name(parameters) or name: unit")
+		return s.Errorf(start, trimmedWidth(r, start, eq), "the left side of = must be a name, name(parameters) or name: unit")
 	}
 	j := i
 	for j < eq && isIdentPart(r[j]) {
@@ -179,7 +179,7 @@ func (s *Statement) parseLeft(r []rune, start, eq int) error {
 				if strings.TrimSpace(inner) == "" {
 					break
 				}
-				return s.Errorf(off, 1, "empty parameter name")
+				return s.Errorf(off+lead, 1, "empty parameter name")
 			}
 			if !isIdent(name) {
 				return s.Errorf(off+lead, utf8.RuneCountInString(name), "parameter %q is not a name", name)
@@ -197,8 +197,16 @@ func (s *Statement) parseLeft(r []rune, start, eq int) error {
 		s.Kind = Define
 		return nil
 	default:
-		return s.Errorf(start, eq-start, "the left side of = must be a name, name(parameters) or name: unit")
+		return s.Errorf(start, trimmedWidth(r, start, eq), "the left side of = must be a name, name(parameters) or name: unit")
 	}
+}
+
+// trimmedWidth is the width of r[a:b] without trailing spaces (at least 1).
+func trimmedWidth(r []rune, a, b int) int {
+	for b > a+1 && unicode.IsSpace(r[b-1]) {
+		b--
+	}
+	return max(1, b-a)
 }
 
 func (s *Statement) checkName(off int, name string) error {

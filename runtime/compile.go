@@ -3,6 +3,8 @@ package runtime
 import (
 	"errors"
 	"fmt"
+	"regexp"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -21,6 +23,8 @@ const (
 	fnArg  = "__arg"
 	fnVec  = "__vec"
 	fnComp = "__comp"
+	fnBool = "__bool"
+	fnCond = "__cond"
 )
 
 var binaryOps = map[string]string{
@@ -54,6 +58,18 @@ var opOptions = []expr.Option{
 	expr.Function("__ge", cmp(">=")),
 	expr.Function(fnVec, func(p ...any) (any, error) { return MakeVector(p) }),
 	expr.Function(fnComp, func(p ...any) (any, error) { return Component(p[0], p[1].(int)) }),
+	expr.Function(fnBool, func(p ...any) (any, error) {
+		if b, ok := p[0].(bool); ok {
+			return b, nil
+		}
+		return nil, dimErr("and, or and not need true/false values (from a comparison), not %s", TypeName(normalize(p[0])))
+	}),
+	expr.Function(fnCond, func(p ...any) (any, error) {
+		if b, ok := p[0].(bool); ok {
+			return b, nil
+		}
+		return nil, dimErr("the condition before \"?\" must be true or false, not %s", TypeName(normalize(p[0])))
+	}),
 	expr.Env(map[string]any{}),
 	expr.AllowUndefinedVariables(),
 	expr.DisableAllBuiltins(),
@@ -101,6 +117,14 @@ func call(name string, args ...ast.Node) *ast.CallNode {
 	return &ast.CallNode{Callee: &ast.IdentifierNode{Value: name}, Arguments: args}
 }
 
+// wrapCall returns name(n) located where n is, so that an error of the call
+// points at n.
+func wrapCall(name string, n ast.Node) ast.Node {
+	c := call(name, n)
+	c.SetLocation(n.Location())
+	return c
+}
+
 func (v *patcher) Visit(node *ast.Node) {
 	switch n := (*node).(type) {
 	case *ast.IdentifierNode:
@@ -125,6 +149,16 @@ func (v *patcher) Visit(node *ast.Node) {
 	case *ast.BinaryNode:
 		if fn, ok := binaryOps[n.Operator]; ok {
 			ast.Patch(node, call(fn, n.Left, n.Right))
+			return
+		}
+		switch n.Operator {
+		case "and", "&&", "or", "||":
+			// keep the engine's short-circuit; make both sides prove they
+			// are true/false values
+			n.Left = wrapCall(fnBool, n.Left)
+			n.Right = wrapCall(fnBool, n.Right)
+		default:
+			v.fail(n, "the operator %q is not part of the Loopwise language", n.Operator)
 		}
 	case *ast.UnaryNode:
 		switch n.Operator {
@@ -132,7 +166,13 @@ func (v *patcher) Visit(node *ast.Node) {
 			ast.Patch(node, call("__neg", n.Node))
 		case "+":
 			ast.Patch(node, n.Node)
+		case "not", "!":
+			n.Node = wrapCall(fnBool, n.Node)
+		default:
+			v.fail(n, "the operator %q is not part of the Loopwise language", n.Operator)
 		}
+	case *ast.ConditionalNode:
+		n.Cond = wrapCall(fnCond, n.Cond)
 	case *ast.ArrayNode:
 		if len(n.Nodes) != 3 {
 			v.fail(n, "a vector needs exactly 3 components, got %d", len(n.Nodes))
@@ -158,7 +198,7 @@ func (v *patcher) Visit(node *ast.Node) {
 			return
 		}
 		ast.Patch(node, call(fnComp, n.Node, &ast.ConstantNode{Value: i}))
-	case *ast.ConstantNode, *ast.BoolNode, *ast.StringNode, *ast.ConditionalNode, *ast.NilNode:
+	case *ast.ConstantNode, *ast.BoolNode, *ast.StringNode:
 	default:
 		v.fail(*node, "this syntax is not part of the Loopwise language")
 	}
@@ -262,19 +302,21 @@ func (p *program) engineError(err error, compile bool) error {
 
 // tidySyntax rewrites the engine's token names into plain words.
 func tidySyntax(msg string) string {
-	r := strings.NewReplacer(
-		"unexpected token EOF", "the expression ends too early",
-		"unexpected token ", "unexpected ",
-		"Operator(", "operator ",
-		"Bracket(", "bracket ",
-		"Identifier(", "name ",
-		"Number(", "number ",
-		"String(", "string ",
-	)
-	msg = r.Replace(msg)
-	msg = strings.ReplaceAll(msg, "\")", "\"")
+	msg = strings.ReplaceAll(msg, "unexpected token EOF", "the expression ends too early")
+	msg = strings.ReplaceAll(msg, "unexpected token ", "unexpected ")
+	msg = tokenName.ReplaceAllStringFunc(msg, func(m string) string {
+		sub := tokenName.FindStringSubmatch(m)
+		kind := map[string]string{"Identifier": "name"}[sub[1]]
+		if kind == "" {
+			kind = strings.ToLower(sub[1])
+		}
+		return kind + " " + strconv.Quote(sub[2])
+	})
 	return strings.ReplaceAll(msg, lang.PlaceholderPrefix, "unit literal ")
 }
+
+// tokenName matches the engine's token notation, such as Bracket(")").
+var tokenName = regexp.MustCompile(`(Operator|Bracket|Identifier|Number|String)\("((?:[^"\\]|\\.)*)"\)`)
 
 // run evaluates a compiled program against the session's names.
 func (s *Session) run(p *program) (Value, error) {
@@ -307,6 +349,7 @@ func (s *Session) callFunc(p ...any) (any, error) {
 	s.depth++
 	defer func() { s.depth-- }()
 	if s.depth > maxDepth {
+		s.tooDeep = true
 		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
 	}
 	return f.Invoke(args)

@@ -48,6 +48,25 @@ func (d Dim) Pow(n int) Dim {
 	return d
 }
 
+// maxExp bounds every base-unit exponent (Dim holds int8).
+const maxExp = 127
+
+// Combine returns d^p · e^q, and false when an exponent leaves the range a
+// Dim can hold.
+func (d Dim) Combine(p int, e Dim, q int) (Dim, bool) {
+	var out Dim
+	for i := range d {
+		x := int(d[i])*p + int(e[i])*q
+		if x > maxExp || x < -maxExp {
+			return d, false
+		}
+		out[i] = int8(x)
+	}
+	return out, true
+}
+
+var errExpRange = "the unit's exponents grow beyond ±127"
+
 // IsZero reports whether d is dimensionless.
 func (d Dim) IsZero() bool { return d == Dimensionless }
 

@@ -40,7 +40,20 @@ var displayNamed = []struct {
 	{"m", -5, 1}, {"s", -5, 0}, {"g", -5, 2}, {"K", -5, 0}, {"mol", -5, 1}, {"cd", -5, 1},
 }
 
-var displayRest = []string{"m", "m^2", "m^3", "s", "s^2", "A", "kg", "K"}
+// notInComposites are named units shown only for their own dimension: the
+// hertz is for periodic phenomena (SI Brochure, 9th ed., Table 4, note), so
+// a speed is m/s, never Hz*m; a power density is W/m^3, not Pa/s.
+var notInComposites = map[string]bool{"Hz": true, "Pa": true}
+
+var displayRest = []string{"m", "m^2", "m^3", "s", "s^2", "A", "K"}
+
+// restCost ranks the simple units: a plain one before a squared or cubed one.
+func restCost(r string) int {
+	if i := strings.IndexByte(r, '^'); i >= 0 {
+		return int(r[i+1] - '0')
+	}
+	return 1
+}
 
 var displayCache sync.Map // Dim -> display
 
@@ -70,26 +83,57 @@ func findDisplay(d Dim) display {
 	for i, n := range displayNamed {
 		ad := atomDim(n.sym)
 		for p := 1; p <= 3; p++ {
+			if p > 1 && notInComposites[n.sym] {
+				break // not Hz^2
+			}
 			if ad.Pow(p) == d {
 				return mk(i, p, "")
 			}
 		}
 	}
-	// 2. a named unit times or over one simple unit
+	// 2. a named unit over a simple unit, or times a power of the metre:
+	// the simplest such unit wins (a plain unit before a squared one), then
+	// the earlier named unit (N/m rather than J/m^2, T/s rather than V/m^2)
+	best, bestScore := display{}, 1<<30
 	for i, n := range displayNamed {
+		if notInComposites[n.sym] {
+			continue
+		}
 		ad := atomDim(n.sym)
 		for _, r := range displayRest {
 			rd := mustUnit(r).Dim
-			if ad.Div(rd) == d {
-				return mk(i, 1, "/"+r)
+			if sharesBase(ad, rd) {
+				continue // "m/m^2" is "1/m"
 			}
-			if n.sym != "m" && n.sym != "s" && n.sym != "g" && ad.Mul(rd) == d {
-				return mk(i, 1, "*"+r)
+			score := 100*restCost(r) + i
+			if ad.Div(rd) == d && score < bestScore {
+				best, bestScore = mk(i, 1, "/"+r), score
+			}
+			if strings.HasPrefix(r, "m") && ad.Mul(rd) == d && score < bestScore {
+				best, bestScore = mk(i, 1, "*"+r), score
 			}
 		}
 	}
+	if bestScore < 1<<30 {
+		if best.atom == "g" {
+			best.kmin, best.kmax = 1, 1 // kg/m^3, never Mg/m^3
+		}
+		return best
+	}
 	// 3. SI base units
 	return display{composite: d.BaseUnits(), scale: 1}
+}
+
+// sharesBase reports whether a base unit (a dimension with one nonzero
+// exponent) also appears in r.
+func sharesBase(a, r Dim) bool {
+	n, idx := 0, 0
+	for i, e := range a {
+		if e != 0 {
+			n, idx = n+1, i
+		}
+	}
+	return n == 1 && r[idx] != 0
 }
 
 func mustUnit(s string) UnitExpr {
@@ -110,8 +154,8 @@ func DisplayUnitOf(d Dim) string {
 	if ds.atom == "" {
 		return ds.composite
 	}
-	if ds.atom == "g" && ds.rest == "" && ds.power == 1 {
-		return "kg"
+	if ds.atom == "g" {
+		return ds.unitText("k") // the coherent unit of mass is the kilogram
 	}
 	return ds.unitText("")
 }
@@ -141,6 +185,9 @@ func roundSig(x float64, digits int) float64 {
 // FormatNumber prints a plain number with digits significant digits.
 func FormatNumber(x float64, digits int) string {
 	r := roundSig(x, digits)
+	if r == 0 {
+		r = 0 // no "-0"
+	}
 	a := math.Abs(r)
 	if a != 0 && (a < 1e-4 || a >= 1e9) {
 		return strconv.FormatFloat(r, 'g', digits, 64)

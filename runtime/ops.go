@@ -62,27 +62,58 @@ func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 			if x.D != y.D {
 				return nil, dimErr("cannot %s vectors of %s and of %s", verb, x.D.Describe(), y.D.Describe())
 			}
-			return Vector{[3]float64{x.V[0] + sign*y.V[0], x.V[1] + sign*y.V[1], x.V[2] + sign*y.V[2]}, x.D}, nil
+			return checkFiniteVec(Vector{[3]float64{x.V[0] + sign*y.V[0], x.V[1] + sign*y.V[1], x.V[2] + sign*y.V[2]}, x.D})
 		}
 	}
 	return nil, dimErr("cannot %s %s and %s", verb, TypeName(a), TypeName(b))
 }
 
+// dimOf returns the dimension of a quantity or vector.
+func dimOf(v Value) (Dim, bool) {
+	switch x := v.(type) {
+	case Quantity:
+		return x.D, true
+	case Vector:
+		return x.D, true
+	}
+	return Dim{}, false
+}
+
+// productDim is the dimension of a*b (q = 1) or a/b (q = -1).
+func productDim(a, b Value, q int) (Dim, error) {
+	da, _ := dimOf(a)
+	db, _ := dimOf(b)
+	d, ok := da.Combine(1, db, q)
+	if !ok {
+		return d, dimErr("%s", errExpRange)
+	}
+	return d, nil
+}
+
 // Mul is a * b: quantities, or a vector scaled by a quantity.
 func Mul(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	_, okA := dimOf(a)
+	_, okB := dimOf(b)
+	if !okA || !okB {
+		return nil, dimErr("cannot multiply %s and %s", TypeName(a), TypeName(b))
+	}
+	d, err := productDim(a, b, 1)
+	if err != nil {
+		return nil, err
+	}
 	switch x := a.(type) {
 	case Quantity:
 		switch y := b.(type) {
 		case Quantity:
-			return checkFinite(Quantity{x.V * y.V, x.D.Mul(y.D)}, "the product")
+			return checkFinite(Quantity{x.V * y.V, d}, "the product")
 		case Vector:
-			return scaleVec(y, x.V, x.D), nil
+			return scaleVec(y, x.V, d)
 		}
 	case Vector:
 		switch y := b.(type) {
 		case Quantity:
-			return scaleVec(x, y.V, y.D), nil
+			return scaleVec(x, y.V, d)
 		case Vector:
 			return nil, dimErr("cannot multiply two vectors with *; use dot(a, b) or cross(a, b)")
 		}
@@ -90,8 +121,18 @@ func Mul(a, b Value) (Value, error) {
 	return nil, dimErr("cannot multiply %s and %s", TypeName(a), TypeName(b))
 }
 
-func scaleVec(v Vector, s float64, d Dim) Vector {
-	return Vector{[3]float64{v.V[0] * s, v.V[1] * s, v.V[2] * s}, v.D.Mul(d)}
+// scaleVec returns v·s with the dimension d of the product.
+func scaleVec(v Vector, s float64, d Dim) (Value, error) {
+	return checkFiniteVec(Vector{[3]float64{v.V[0] * s, v.V[1] * s, v.V[2] * s}, d})
+}
+
+func checkFiniteVec(v Vector) (Value, error) {
+	for _, c := range v.V {
+		if _, err := checkFinite(Quantity{V: c}, "a component of the vector"); err != nil {
+			return nil, err
+		}
+	}
+	return v, nil
 }
 
 // Div is a / b.
@@ -104,11 +145,18 @@ func Div(a, b Value) (Value, error) {
 	if y.V == 0 {
 		return nil, evalErr("division by zero")
 	}
+	if _, ok := dimOf(a); !ok {
+		return nil, dimErr("cannot divide %s by %s", TypeName(a), TypeName(b))
+	}
+	d, err := productDim(a, b, -1)
+	if err != nil {
+		return nil, err
+	}
 	switch x := a.(type) {
 	case Quantity:
-		return checkFinite(Quantity{x.V / y.V, x.D.Div(y.D)}, "the quotient")
+		return checkFinite(Quantity{x.V / y.V, d}, "the quotient")
 	case Vector:
-		return scaleVec(x, 1/y.V, y.D.Pow(-1)), nil
+		return checkFiniteVec(Vector{[3]float64{x.V[0] / y.V, x.V[1] / y.V, x.V[2] / y.V}, d})
 	}
 	return nil, dimErr("cannot divide %s by %s", TypeName(a), TypeName(b))
 }
@@ -148,8 +196,11 @@ func Pow(a, b Value) (Value, error) {
 		for i, e := range x.D {
 			p := float64(e) * y.V
 			r := math.Round(p)
-			if math.Abs(p-r) > 1e-9 || math.Abs(r) > 127 {
+			if math.Abs(p-r) > 1e-9 {
 				return nil, dimErr("cannot raise %s to the power %s: the unit would need a fractional exponent", x.D.Describe(), FormatNumber(y.V, 6))
+			}
+			if math.Abs(r) > maxExp {
+				return nil, dimErr("cannot raise %s to the power %s: %s", x.D.Describe(), FormatNumber(y.V, 6), errExpRange)
 			}
 			d[i] = int8(r)
 		}

@@ -54,6 +54,7 @@ type Session struct {
 	// Transcript lists the statements evaluated without error.
 	Transcript []Entry
 	depth      int
+	tooDeep    bool // the nesting limit was hit in the current statement
 }
 
 // NewSession starts a session with the given library.
@@ -116,7 +117,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			res, err = nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "internal error (please report): %v", r)
 		}
 	}()
-	s.depth = 0
+	s.depth, s.tooDeep = 0, false
 	switch st.Kind {
 	case lang.Empty:
 		return &Result{Stmt: st}, nil
@@ -261,6 +262,9 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 		if err != nil {
 			var le *lang.Error
 			if errors.As(err, &le) {
+				if s.tooDeep && strings.HasPrefix(le.Msg, "in ") {
+					return nil, evalErr("%s", le.Msg) // one "in f(x)" is enough
+				}
 				return nil, evalErr("in %s (defined at %s, column %d): %s", f.Signature(), where, le.Pos.Col, le.Msg)
 			}
 			return nil, err
@@ -370,6 +374,6 @@ func (s *Session) CompileExpr(base lang.Pos, text string) (*Compiled, error) {
 
 // Eval evaluates the compiled expression.
 func (c *Compiled) Eval() (Value, error) {
-	c.s.depth = 0
+	c.s.depth, c.s.tooDeep = 0, false
 	return c.s.run(c.p)
 }

@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode"
 )
 
@@ -70,6 +71,7 @@ var catalogue = []UnitDef{
 	{Sym: "F", Name: "farad", Factor: 1, Dim: dFarad, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "Ω", Name: "ohm", Factor: 1, Dim: dOhm, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "ohm", Name: "ohm", Factor: 1, Dim: dOhm, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "\u2126", Name: "ohm (ohm sign U+2126)", Factor: 1, Dim: dOhm, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "S", Name: "siemens", Factor: 1, Dim: dOhm.Pow(-1), Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "Wb", Name: "weber", Factor: 1, Dim: dWeber, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "T", Name: "tesla", Factor: 1, Dim: dTesla, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
@@ -86,7 +88,11 @@ var catalogue = []UnitDef{
 	{Sym: "inch", Name: "inch", Factor: 254, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 in = 0.0254 m)"},
 	{Sym: "mil", Name: "mil (thou)", Factor: 254, Exp10: -7, Dim: dLength, Exact: true, Defined: nist811 + " (1 mil = 2.54e-5 m)"},
 	{Sym: "ft", Name: "foot", Factor: 3048, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 ft = 0.3048 m)"},
-	{Sym: "rpm", Name: "revolution per minute", Factor: 1.0 / 60, Dim: dFreq, Defined: nist811 + " (1 r/min = 1/60 s^-1)"},
+	// rpm counts revolutions: 3000 rpm is 50 revolutions a second, shown in
+	// Hz. Because the radian is dimensionless, rpm cannot also convert to
+	// rad/s; multiply by 2*pi for an angular speed (NIST SP 811 lists
+	// 1 r/min = 0.1047198 rad/s, which is 2π/60).
+	{Sym: "rpm", Name: "revolution per minute", Factor: 1.0 / 60, Dim: dFreq, Defined: nist811 + " (1 r/min = 1/60 revolution per second; ×2π for rad/s)"},
 	{Sym: "turns", Name: "turns (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
 	{Sym: "turn", Name: "turn (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
 }
@@ -98,7 +104,8 @@ var siPrefixes = []struct {
 	Exp10 int
 }{
 	{"f", -15}, {"p", -12}, {"n", -9}, {"u", -6}, {"µ", -6}, {"μ", -6},
-	{"m", -3}, {"c", -2}, {"k", 3}, {"M", 6}, {"G", 9}, {"T", 12},
+	{"m", -3}, {"c", -2}, {"d", -1}, {"da", 1}, {"h", 2}, {"k", 3}, {"M", 6}, {"G", 9}, {"T", 12},
+	{"P", 15}, {"E", 18},
 }
 
 var unitBySym = func() map[string]*UnitDef {
@@ -125,12 +132,14 @@ func (u UnitExpr) Scale() float64 {
 	return u.Factor * math.Pow10(u.Exp10)
 }
 
-func (u UnitExpr) mul(v UnitExpr) UnitExpr {
-	return UnitExpr{u.Factor * v.Factor, u.Exp10 + v.Exp10, u.Dim.Mul(v.Dim)}
+func (u UnitExpr) mul(v UnitExpr) (UnitExpr, bool) {
+	d, ok := u.Dim.Combine(1, v.Dim, 1)
+	return UnitExpr{u.Factor * v.Factor, u.Exp10 + v.Exp10, d}, ok
 }
 
-func (u UnitExpr) pow(n int) UnitExpr {
-	return UnitExpr{math.Pow(u.Factor, float64(n)), u.Exp10 * n, u.Dim.Pow(n)}
+func (u UnitExpr) pow(n int) (UnitExpr, bool) {
+	d, ok := u.Dim.Combine(n, Dimensionless, 0)
+	return UnitExpr{math.Pow(u.Factor, float64(n)), u.Exp10 * n, d}, ok
 }
 
 // lookupAtom resolves a unit symbol with an optional SI prefix.
@@ -162,12 +171,8 @@ func (UnitTable) SuggestUnit(name string) string {
 	return nearest(name, allUnitSpellings())
 }
 
-var unitSpellings []string
-
-func allUnitSpellings() []string {
-	if unitSpellings != nil {
-		return unitSpellings
-	}
+// allUnitSpellings lists every unit symbol with every prefix it takes.
+var allUnitSpellings = sync.OnceValue(func() []string {
 	var out []string
 	for _, d := range catalogue {
 		out = append(out, d.Sym)
@@ -178,9 +183,8 @@ func allUnitSpellings() []string {
 		}
 	}
 	sort.Strings(out)
-	unitSpellings = out
 	return out
-}
+})
 
 // UnitError is a problem in a unit expression at rune offset Off.
 type UnitError struct {
@@ -216,15 +220,22 @@ func (p *unitParser) product() (UnitExpr, error) {
 	}
 	for p.i < len(p.r) && (p.r[p.i] == '*' || p.r[p.i] == '/') {
 		op := p.r[p.i]
+		start := p.i
 		p.i++
 		v, err := p.factor()
 		if err != nil {
 			return u, err
 		}
+		ok := true
 		if op == '/' {
-			v = v.pow(-1)
+			v, ok = v.pow(-1)
 		}
-		u = u.mul(v)
+		if ok {
+			u, ok = u.mul(v)
+		}
+		if !ok {
+			return u, &UnitError{start, p.i - start, errExpRange}
+		}
 	}
 	return u, nil
 }
@@ -272,14 +283,17 @@ func (p *unitParser) factor() (UnitExpr, error) {
 		if p.i < len(p.r) && p.r[p.i] == '-' {
 			p.i++
 		}
-		for p.i < len(p.r) && unicode.IsDigit(p.r[p.i]) {
+		for p.i < len(p.r) && (unicode.IsDigit(p.r[p.i]) || p.r[p.i] == '.') {
 			p.i++
 		}
 		n, err := strconv.Atoi(string(p.r[s:p.i]))
 		if err != nil || n > 12 || n < -12 {
 			return u, &UnitError{s - 1, p.i - s + 1, "a unit power must be a whole number from -12 to 12"}
 		}
-		u = u.pow(n)
+		var ok bool
+		if u, ok = u.pow(n); !ok {
+			return u, &UnitError{s - 1, p.i - s + 1, errExpRange}
+		}
 	}
 	return u, nil
 }
@@ -324,7 +338,10 @@ func nearest(name string, cands []string) string {
 		}
 	}
 	limit := 1
-	if n := len([]rune(name)); n > 3 {
+	switch n := len([]rune(name)); {
+	case n < 2:
+		return "" // every one-letter name is one edit from every other
+	case n > 3:
 		limit = 2
 	}
 	if bestD <= limit {

@@ -95,6 +95,9 @@ func (f *Func) Signature() string {
 func TypeName(v Value) string {
 	switch x := v.(type) {
 	case Quantity:
+		if x.D.IsZero() {
+			return "a plain number"
+		}
 		return x.D.Describe()
 	case Vector:
 		return "a vector of " + x.D.Describe()

@@ -1,0 +1,74 @@
+package runtime_test
+
+import (
+	"errors"
+	"strings"
+	"testing"
+	"unicode/utf8"
+
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+// validStatements seed the fuzzer with statements that succeed.
+var validStatements = []string{
+	"",
+	"// only a comment",
+	"2 m + 3 m",
+	"5 mT",
+	"5mT * 2",
+	"gap * 3 A/ms",
+	"x = 2 kg*m^2/s^2",
+	"k: W/(m*K) = 1.5 W/(m*K)",
+	"B = [0, 0, 5] mT",
+	"B.z as uT",
+	"(2+3) mm",
+	"2 m * 3 s",
+	"1.2e-3 Wb as uWb",
+	"1_000 A",
+	"5 µT + 3 uT",
+	"I(20 ms) as mA",
+	"f(a, b) = a*b + 1 m^2",
+	"sqrt(2 H * 8 H)",
+	"sin(30 deg) + cos(pi/3)",
+	"gap >= 2 mm",
+	"true ? 1 m : 2 m",
+	":digits 4",
+	"-[1, 2, 3] mm",
+	"(1 m^2)^0.5",
+	"2 ^ 10",
+}
+
+// FuzzEval checks that Eval never panics and that every error it returns is
+// a *lang.Error on the given line with a column inside the line (or just
+// past its end). A recovered panic shows as "internal error"; that must not
+// happen either.
+func FuzzEval(f *testing.F) {
+	for _, tc := range errorCases {
+		f.Add(tc.in)
+	}
+	for _, in := range validStatements {
+		f.Add(in)
+	}
+	f.Fuzz(func(t *testing.T, in string) {
+		s := newTestSession(t, nil)
+		base := lang.Pos{File: "t.lw", Line: 3, Col: 1}
+		_, err := s.Eval(base, in)
+		if err == nil || errors.Is(err, runtime.ErrNotSessionCommand) {
+			return
+		}
+		var le *lang.Error
+		if !errors.As(err, &le) {
+			t.Fatalf("Eval(%q) error %T %q is not a *lang.Error", in, err, err)
+		}
+		if strings.Contains(le.Msg, "internal error") {
+			t.Fatalf("Eval(%q) recovered a panic: %v", in, err)
+		}
+		if le.Pos.Line != base.Line || le.Pos.File != base.File {
+			t.Fatalf("Eval(%q) error at %v, want line %v", in, le.Pos, base)
+		}
+		if n := utf8.RuneCountInString(in); le.Pos.Col < 1 || le.Pos.Col > n+1 {
+			t.Fatalf("Eval(%q) error column %d outside 1..%d: %v", in, le.Pos.Col, n+1, err)
+		}
+	})
+}
