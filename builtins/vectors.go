@@ -26,6 +26,9 @@ func vec2(name string, f func(a, b runtime.Vector) (runtime.Value, error), help 
 			if err != nil {
 				return nil, err
 			}
+			if _, ok := a.D.Combine(1, b.D, 1); !ok {
+				return nil, errorf("%s: the unit of the product has exponents beyond ±127", name)
+			}
 			return f(a, b)
 		},
 		Help: help,
