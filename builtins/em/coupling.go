@@ -1,0 +1,482 @@
+package em
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// DefaultTol is the accuracy of coupling integrals unless the caller asks
+// for another: relative 1e-10.
+var DefaultTol = Tol{Rel: 1e-10}
+
+// lineIntegral integrates f(x)·dl along a path, primitive by primitive,
+// splitting arcs and helices into quarter turns; the absolute floor of the
+// tolerance is scaled by the path's length so that a zero integral
+// terminates.
+func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
+	var sum float64
+	var ferr error
+	for _, p := range path.Prims {
+		p := p
+		g := func(t float64) float64 {
+			if ferr != nil {
+				return 0
+			}
+			v, err := f(p.Point(t))
+			if err != nil {
+				ferr = err
+				return 0
+			}
+			return r3.Dot(v, p.Tangent(t))
+		}
+		pieceTol := tol
+		pieceTol.Abs = math.Max(tol.Abs, tol.Rel*scale*p.Length()/math.Max(path.Length(), 1e-300)*1e-3)
+		br := primBreaks(p)
+		for k := 0; k+1 < len(br); k++ {
+			v, _, err := Integrate(g, br[k], br[k+1], pieceTol)
+			if ferr != nil {
+				return 0, ferr
+			}
+			if err != nil {
+				return 0, err
+			}
+			sum += v
+		}
+	}
+	return sum, nil
+}
+
+// FluxThroughLoop returns the flux of the sources through a closed path,
+// as the circulation of the vector potential: Φ = ∮ A·dl (Stokes). The
+// loop must be closed.
+func FluxThroughLoop(srcs []Source, loop Path, tol Tol) (float64, error) {
+	if len(loop.Prims) == 0 || !loop.Closed() {
+		return 0, ErrOpenPath
+	}
+	c := compile(srcs)
+	// scale: flux of the largest current through a loop of this size
+	var imax float64
+	for _, s := range srcs {
+		imax = math.Max(imax, math.Abs(s.I))
+	}
+	scale := Mu0 * imax * loop.Size()
+	return lineIntegral(loop, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
+}
+
+// ErrOpenPath is returned where a closed path is needed.
+var ErrOpenPath = errors.New("the path is not closed (its end is not its start)")
+
+// Surface is a flat or curved surface parametrised over [0,1]², with its
+// oriented area element.
+type Surface struct {
+	Kind   string // "disk", "rectangle", "spanned"
+	Point  func(u, v float64) Vec
+	Normal func(u, v float64) Vec // ∂r/∂u × ∂r/∂v (not unit: carries the area element)
+	Area   float64
+	Size   float64
+}
+
+// NewDisk makes a disk of radius r around the axis through c; its normal
+// is along axis.
+func NewDisk(c, axis Vec, r float64) (Surface, error) {
+	if !(r > 0) {
+		return Surface{}, errors.New("the radius must be positive")
+	}
+	u, v, n, err := frame(axis, Vec{})
+	if err != nil {
+		return Surface{}, err
+	}
+	return Surface{
+		Kind: "disk",
+		Point: func(s, t float64) Vec {
+			sn, cs := math.Sincos(2 * math.Pi * t)
+			return r3.Add(c, r3.Add(r3.Scale(r*s*cs, u), r3.Scale(r*s*sn, v)))
+		},
+		Normal: func(s, t float64) Vec { return r3.Scale(2*math.Pi*r*r*s, n) },
+		Area:   math.Pi * r * r,
+		Size:   r,
+	}, nil
+}
+
+// NewRectSurface makes the parallelogram corner + u·s1 + v·s2; its normal
+// is s1 × s2.
+func NewRectSurface(corner, s1, s2 Vec) (Surface, error) {
+	n := r3.Cross(s1, s2)
+	if r3.Norm(n) == 0 {
+		return Surface{}, errors.New("the two sides are parallel or zero: the rectangle has no area")
+	}
+	return Surface{
+		Kind:   "rectangle",
+		Point:  func(u, v float64) Vec { return r3.Add(corner, r3.Add(r3.Scale(u, s1), r3.Scale(v, s2))) },
+		Normal: func(u, v float64) Vec { return n },
+		Area:   r3.Norm(n),
+		Size:   math.Max(r3.Norm(s1), r3.Norm(s2)),
+	}, nil
+}
+
+// NewSpanned makes the flat surface spanned by a closed planar path, as a
+// fan from the path's centroid: x(u, s) = c + u(γ(s) − c). The area
+// element is signed, so regions the fan covers twice with opposite
+// orientation cancel and any closed planar curve is handled. The normal
+// follows the path's circulation (right-hand rule).
+func NewSpanned(path Path) (Surface, error) {
+	if len(path.Prims) == 0 || !path.Closed() {
+		return Surface{}, ErrOpenPath
+	}
+	if len(path.Loops()) != 1 {
+		return Surface{}, errors.New("the path is made of several loops; a spanned surface needs a single closed loop")
+	}
+	// parametrise the whole path by s in [0,1] over primitives by length
+	total := path.Length()
+	cum := make([]float64, len(path.Prims)+1)
+	for i, p := range path.Prims {
+		cum[i+1] = cum[i] + p.Length()/total
+	}
+	locate := func(s float64) (Prim, float64, float64) {
+		i := 0
+		for i+1 < len(path.Prims) && s > cum[i+1] {
+			i++
+		}
+		w := cum[i+1] - cum[i]
+		return path.Prims[i], (s - cum[i]) / w, 1 / w
+	}
+	// centroid of sample points and the plane's normal (Newell's method)
+	var c, n Vec
+	const samples = 256
+	pts := make([]Vec, samples)
+	for k := range pts {
+		p, t, _ := locate(float64(k) / samples)
+		pts[k] = p.Point(t)
+		c = r3.Add(c, pts[k])
+	}
+	c = r3.Scale(1.0/samples, c)
+	for k := range pts {
+		a, b := r3.Sub(pts[k], c), r3.Sub(pts[(k+1)%samples], c)
+		n = r3.Add(n, r3.Cross(a, b))
+	}
+	if r3.Norm(n) == 0 {
+		return Surface{}, errors.New("the path encloses no area")
+	}
+	nu := r3.Unit(n)
+	size := path.Size()
+	for k := range pts {
+		if math.Abs(r3.Dot(r3.Sub(pts[k], c), nu)) > 1e-9*size {
+			return Surface{}, errors.New("the path is not planar; a spanned surface needs a flat loop")
+		}
+	}
+	area := r3.Norm(n) / 2
+	return Surface{
+		Kind: "spanned",
+		Point: func(u, s float64) Vec {
+			p, t, _ := locate(s)
+			return r3.Add(c, r3.Scale(u, r3.Sub(p.Point(t), c)))
+		},
+		Normal: func(u, s float64) Vec {
+			p, t, dt := locate(s)
+			g := r3.Sub(p.Point(t), c)
+			dg := r3.Scale(dt, p.Tangent(t))
+			return r3.Scale(u, r3.Cross(g, dg))
+		},
+		Area: area,
+		Size: size,
+	}, nil
+}
+
+// FluxThroughSurface integrates B·dA over the surface by adaptive 2-D
+// quadrature.
+func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
+	c := compile(srcs)
+	var ferr error
+	f := func(u, v float64) float64 {
+		if ferr != nil {
+			return 0
+		}
+		b, err := c.at(FieldB, surf.Point(u, v))
+		if err != nil {
+			ferr = err
+			return 0
+		}
+		return r3.Dot(b, surf.Normal(u, v))
+	}
+	var imax float64
+	for _, s := range srcs {
+		imax = math.Max(imax, math.Abs(s.I))
+	}
+	t := tol
+	t.Abs = math.Max(tol.Abs, tol.Rel*Mu0*imax*surf.Size*1e-3)
+	v, _, err := Integrate2(f, 0, 1, 0, 1, t)
+	if ferr != nil {
+		return 0, ferr
+	}
+	return v, err
+}
+
+// FluxUniform is the flux of a uniform field through a surface.
+func FluxUniform(b Vec, surf Surface, tol Tol) (float64, error) {
+	f := func(u, v float64) float64 { return r3.Dot(b, surf.Normal(u, v)) }
+	v, _, err := Integrate2(f, 0, 1, 0, 1, Tol{Rel: tol.Rel, Abs: tol.Rel * r3.Norm(b) * surf.Area * 1e-3})
+	return v, err
+}
+
+// MaxwellMutual is the mutual inductance of two coaxial circles of radii a
+// and b whose planes are d apart (J. C. Maxwell, A Treatise on Electricity
+// and Magnetism, 1873, §701; F. W. Grover, Inductance Calculations, 1946):
+//
+//	M = μ0 √(ab) [(2/k − k) K(k²) − (2/k) E(k²)],  k² = 4ab / ((a+b)² + d²).
+//
+// The bracket equals k·(D(m) − B(m)) with Fukushima's associate integrals,
+// m = k²; for m < 0.5 it is summed as Σ cₙ² n/(n+1) (π/2) mⁿ, cₙ =
+// (2n)!/(4ⁿ n!²), which keeps full precision for circles far apart.
+func MaxwellMutual(a, b, d float64) float64 {
+	m := 4 * a * b / ((a+b)*(a+b) + d*d)
+	k := math.Sqrt(m)
+	var f float64
+	if m < 0.5 {
+		cn, mn := 1.0, 1.0
+		for n := 1; n < 200; n++ {
+			cn *= float64(2*n-1) / float64(2*n)
+			mn *= m
+			term := cn * cn * float64(n) / float64(n+1) * mn
+			f += term
+			if term < 1e-17*f {
+				break
+			}
+		}
+		f *= math.Pi / 2
+	} else {
+		f = mathext.CompleteD(m) - mathext.CompleteB(m)
+	}
+	return Mu0 * math.Sqrt(a*b) * k * f
+}
+
+// coaxialCircles reports whether p and q are whole circles on one axis,
+// and their radii and plane separation.
+func coaxialCircles(p, q Prim) (a, b, d float64, ok bool) {
+	if !p.IsCircle() || !q.IsCircle() {
+		return 0, 0, 0, false
+	}
+	if r3.Norm(r3.Cross(p.N, q.N)) > 1e-12 {
+		return 0, 0, 0, false
+	}
+	off := r3.Sub(q.C, p.C)
+	along := r3.Dot(off, p.N)
+	if r3.Norm(r3.Sub(off, r3.Scale(along, p.N))) > 1e-12*math.Max(p.R, q.R) {
+		return 0, 0, 0, false
+	}
+	sign := math.Copysign(1, r3.Dot(p.N, q.N))
+	return p.R, q.R * sign, math.Abs(along), true
+}
+
+// MutualOptions tunes Mutual.
+type MutualOptions struct {
+	Tol Tol
+	// NoFastPath forces the general Neumann route even for coaxial circles
+	// (for tests and cross-checks).
+	NoFastPath bool
+}
+
+// Mutual returns the mutual inductance of two closed paths by Neumann's
+// formula M = μ0/4π ∮∮ dl1·dl2/|r1 − r2|, evaluated as the circulation of
+// path 1's closed-form vector potential along path 2, ∮ A1·dl2 per ampere,
+// with adaptive quadrature. Pairs of coaxial circles use Maxwell's formula.
+//
+// Open paths (a coil without its leads) give the partial mutual inductance
+// (Ruehli, "Inductance calculations in a complex integrated circuit
+// environment", IBM J. Res. Dev. 16, 1972): the part of the circuits'
+// mutual inductance owed to these pieces.
+func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
+	if len(p1.Prims) == 0 || len(p2.Prims) == 0 {
+		return 0, errors.New("a path is empty")
+	}
+	tol := opt.Tol
+	if tol.Rel == 0 {
+		tol = DefaultTol
+	}
+	var sum float64
+	var rest []Prim
+	for _, q := range p2.Prims {
+		handled := false
+		if !opt.NoFastPath && len(p1.Prims) == 1 {
+			if a, b, d, ok := coaxialCircles(p1.Prims[0], q); ok {
+				sum += math.Copysign(MaxwellMutual(a, math.Abs(b), d), b)
+				handled = true
+			}
+		}
+		if !handled {
+			rest = append(rest, q)
+		}
+	}
+	if len(rest) == 0 {
+		return sum, nil
+	}
+	c := compile([]Source{{Path: p1, I: 1}})
+	scale := Mu0 * math.Min(p1.Size(), p2.Size())
+	v, err := lineIntegral(Path{Prims: rest}, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
+	if err != nil {
+		if errors.Is(err, ErrOnWire) {
+			return 0, errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
+		}
+		return 0, err
+	}
+	return sum + v, nil
+}
+
+// Force returns the force on path 2 carrying i2 in the field of the
+// sources: F = i2 ∮ dl2 × B (Lorentz force on a current element), by
+// adaptive quadrature along path 2.
+func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
+	c := compile(srcs)
+	var sum Vec
+	var ferr error
+	for _, p := range p2.Prims {
+		p := p
+		f := func(t float64) Vec {
+			if ferr != nil {
+				return Vec{}
+			}
+			b, err := c.at(FieldB, p.Point(t))
+			if err != nil {
+				ferr = err
+				return Vec{}
+			}
+			return r3.Cross(p.Tangent(t), b)
+		}
+		v, _, err := IntegrateVecBreaks(f, primBreaks(p), tol)
+		if ferr != nil {
+			return Vec{}, ferr
+		}
+		if err != nil && !errors.Is(err, ErrNoConvergence) {
+			return Vec{}, err
+		}
+		sum = r3.Add(sum, v)
+	}
+	return r3.Scale(i2, sum), nil
+}
+
+// MotionalEMF returns ∮ (v × B)·dl around a path moving with velocity v
+// through the field bfield (a function of position).
+func MotionalEMF(loop Path, v Vec, bfield func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
+	return lineIntegral(loop, func(x Vec) (Vec, error) {
+		b, err := bfield(x)
+		if err != nil {
+			return Vec{}, err
+		}
+		return r3.Cross(v, b), nil
+	}, tol, scale)
+}
+
+// SelfInductance returns the low-frequency self-inductance of a closed
+// path of round wire of radius a (uniform current in the wire):
+//
+//	L = L_ext + μ0 ℓ / 8π
+//
+// where μ0ℓ/8π is the internal inductance of a round wire of length ℓ
+// (e.g. Grover, Inductance Calculations, 1946) and L_ext is Neumann's
+// double integral with the reduced kernel 1/√(|r − r'|² + a²) (the
+// thin-wire approximation of antenna theory): for one primitive with
+// itself the double integral depends only on the parameter difference and
+// is one adaptive integral; different primitives use the exact kernel
+// through the closed-form vector potential. The method is accurate when
+// the wire is thin compared with the path's radius of curvature and the
+// spacing of its turns (error of order (a/R)²). An open path (a coil
+// without its leads) gives its partial self-inductance.
+func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
+	if !(a > 0) {
+		return 0, errors.New("the wire radius must be positive")
+	}
+	if len(path.Prims) == 0 {
+		return 0, errors.New("the path is empty")
+	}
+	if tol.Rel == 0 {
+		tol = DefaultTol
+	}
+	for _, p := range path.Prims {
+		switch {
+		case p.Kind != Segment && a >= p.R:
+			return 0, fmt.Errorf("the wire radius (%.4g m) is not smaller than the loop radius (%.4g m)", a, p.R)
+		case p.Kind == Segment && a >= p.Length()/2:
+			return 0, fmt.Errorf("the wire radius (%.4g m) is not small compared with a straight piece %.4g m long", a, p.Length())
+		case p.Kind == Helix && 2*math.Pi*math.Abs(p.Pitch) < 2*a:
+			return 0, fmt.Errorf("the turns overlap: the pitch (%.4g m) is less than the wire diameter (%.4g m)", 2*math.Pi*math.Abs(p.Pitch), 2*a)
+		}
+	}
+	var lext float64
+	for i, p := range path.Prims {
+		s, err := selfTerm(p, a, tol)
+		if err != nil {
+			return 0, err
+		}
+		lext += s
+		for j, q := range path.Prims {
+			if j == i {
+				continue
+			}
+			m, err := pairTerm(p, q, tol)
+			if err != nil {
+				return 0, err
+			}
+			lext += m
+		}
+	}
+	return lext + Mu0*path.Length()/(8*math.Pi), nil
+}
+
+// pairTerm is μ0/4π ∫_q ∫_p dl_p·dl_q/|r − r'| for two different
+// primitives.
+func pairTerm(p, q Prim, tol Tol) (float64, error) {
+	if a, b, d, ok := coaxialCircles(p, q); ok && d > 0 {
+		return math.Copysign(MaxwellMutual(a, math.Abs(b), d), b), nil
+	}
+	scale := Mu0 * math.Max(p.Length(), q.Length())
+	v, err := lineIntegral(Path{Prims: []Prim{q}}, func(x Vec) (Vec, error) { return PrimA(p, x) }, tol, scale)
+	if errors.Is(err, ErrOnWire) {
+		return 0, errors.New("two pieces of the path cross or overlap; self-inductance needs a path that does not touch itself")
+	}
+	return v, err
+}
+
+// selfTerm is μ0/4π ∫∫ dl·dl'/√(|r − r'|² + a²) over one primitive with
+// itself.
+func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
+	if p.Kind == Segment {
+		l := p.Length()
+		return k0 * 2 * (l*math.Asinh(l/a) - math.Hypot(l, a) + a), nil
+	}
+	if p.IsCircle() {
+		// |r − r'|² + a² = 4R² sin²(ψ/2) + a²: the kernel of two coaxial
+		// circles of radius R, a apart, so the term is Maxwell's M(R, R, a).
+		return MaxwellMutual(p.R, p.R, a), nil
+	}
+	// arc or helix: with ψ = φ − φ', dl·dl' = (R² cos ψ + c²) dφ dφ' and
+	// |r − r'|² = 4R² sin²(ψ/2) + c²ψ², c the pitch per radian; the double
+	// integral over [0,Φ]² is 2 ∫0^Φ (Φ − ψ) k(ψ) dψ.
+	R, c, phi := p.R, p.Pitch, math.Abs(p.Span)
+	kern := func(psi float64) float64 {
+		s := math.Sin(psi / 2)
+		return 2 * (phi - psi) * (R*R*math.Cos(psi) + c*c) / math.Sqrt(4*R*R*s*s+c*c*psi*psi+a*a)
+	}
+	// break at the peak (ψ = 0, width a/R) and at each full turn, where
+	// neighbouring turns come closest
+	pts := []float64{0, math.Min(phi, 4*a/R)}
+	for t := 2 * math.Pi; t < phi; t += 2 * math.Pi {
+		if t > pts[len(pts)-1] {
+			pts = append(pts, t)
+		}
+	}
+	if pts[len(pts)-1] < phi {
+		pts = append(pts, phi)
+	}
+	var sum float64
+	for i := 0; i+1 < len(pts); i++ {
+		v, _, err := Integrate(kern, pts[i], pts[i+1], Tol{Rel: tol.Rel, Abs: tol.Rel * R * 1e-3})
+		if err != nil {
+			return 0, err
+		}
+		sum += v
+	}
+	return k0 * sum, nil
+}

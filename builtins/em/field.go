@@ -1,0 +1,381 @@
+package em
+
+import (
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// Mu0 is the magnetic constant, CODATA 2018 (N/A^2).
+const Mu0 = 1.25663706212e-6
+
+// k0 is μ0/4π, the Biot–Savart prefactor.
+const k0 = Mu0 / (4 * math.Pi)
+
+// ErrOnWire is returned when a field point lies on a filament, where the
+// field of a thin wire is infinite.
+var ErrOnWire = errors.New("the field point lies on a wire")
+
+// onWireRel is the distance from a filament, relative to the primitive's
+// size, below which a point counts as on the wire.
+const onWireRel = 1e-10
+
+// SegmentB returns B at x of a straight filament from a to b carrying 1 A
+// (closed form; e.g. Hanson & Hirshman, "Compact expressions for the
+// Biot–Savart fields of a filamentary segment", Phys. Plasmas 9, 4410,
+// 2002):
+//
+//	B = μ0/4π · (r1 × r2)(|r1| + |r2|) / (|r1||r2|(|r1||r2| + r1·r2)),  ri = end_i − x.
+//
+// r1 × r2 is computed as r1 × (b − a), and |r1||r2| + r1·r2 as
+// |r1 × r2|² / (|r1||r2| − r1·r2) when r1·r2 < 0, so that points close to
+// the wire keep their digits.
+func SegmentB(a, b, x Vec) (Vec, error) {
+	r1 := r3.Sub(a, x)
+	r2 := r3.Sub(b, x)
+	d := r3.Sub(b, a)
+	n1, n2 := r3.Norm(r1), r3.Norm(r2)
+	l := r3.Norm(d)
+	c := r3.Cross(r1, d)
+	nn := n1 * n2
+	s := sumTerm(nn, r3.Dot(r1, r2), r3.Dot(c, c))
+	if s <= onWireRel*onWireRel*l*l {
+		if onSegment(a, b, x, l) {
+			return Vec{}, ErrOnWire
+		}
+		return Vec{}, nil // on the line beyond the ends: B = 0
+	}
+	return r3.Scale(k0*(n1+n2)/(nn*s), c), nil
+}
+
+// sumTerm returns |r1||r2| + r1·r2 without cancellation: when the dot
+// product is negative it is |r1 × r2|² / (|r1||r2| − r1·r2).
+func sumTerm(nn, dot, cross2 float64) float64 {
+	if dot >= 0 {
+		return nn + dot
+	}
+	return cross2 / (nn - dot)
+}
+
+func onSegment(a, b, x Vec, l float64) bool {
+	d := r3.Sub(b, a)
+	t := r3.Dot(r3.Sub(x, a), d) / (l * l)
+	t = math.Max(0, math.Min(1, t))
+	return r3.Norm(r3.Sub(x, r3.Add(a, r3.Scale(t, d)))) <= onWireRel*l
+}
+
+// SegmentA returns the vector potential A at x of a straight filament from a
+// to b carrying 1 A:
+//
+//	A = μ0/4π · ê · ln((R1 + R2 + L)/(R1 + R2 − L)),
+//
+// with R1 + R2 − L computed as 2(R1R2 + r1·r2)/(R1 + R2 + L) to keep its
+// digits near the wire.
+func SegmentA(a, b, x Vec) (Vec, error) {
+	r1 := r3.Sub(a, x)
+	r2 := r3.Sub(b, x)
+	n1, n2 := r3.Norm(r1), r3.Norm(r2)
+	d := r3.Sub(b, a)
+	l := r3.Norm(d)
+	sum := n1 + n2
+	c := r3.Cross(r1, d)
+	small := 2 * sumTerm(n1*n2, r3.Dot(r1, r2), r3.Dot(c, c)) / (sum + l)
+	if small <= 0 || (small < onWireRel*l && onSegment(a, b, x, l)) {
+		return Vec{}, ErrOnWire
+	}
+	return r3.Scale(k0*math.Log((sum+l)/small)/l, d), nil
+}
+
+// arcLocal holds a field point in the frame of an arc's circle.
+type arcLocal struct {
+	rho, z   float64
+	ex, ey   Vec     // radial and azimuthal unit vectors at the point
+	phi1     float64 // arc start angle relative to the point's azimuth, in (-π, π]
+	p2, m    float64 // P² = (a+ρ)² + z² and m = 4aρ/P²
+	distWire float64 // distance from the circle
+}
+
+func localArc(p Prim, x Vec) arcLocal {
+	d := r3.Sub(x, p.C)
+	z := r3.Dot(d, p.N)
+	w := r3.Sub(d, r3.Scale(z, p.N))
+	rho := r3.Norm(w)
+	var l arcLocal
+	l.rho, l.z = rho, z
+	psi := 0.0
+	if rho > 1e-15*p.R {
+		l.ex = r3.Scale(1/rho, w)
+		psi = math.Atan2(r3.Dot(w, p.V), r3.Dot(w, p.U))
+	} else {
+		l.ex = p.U
+	}
+	l.ey = r3.Cross(p.N, l.ex)
+	l.phi1 = math.Remainder(-psi, 2*math.Pi)
+	a := p.R
+	l.p2 = (a+rho)*(a+rho) + z*z
+	l.m = 4 * a * rho / l.p2
+	l.distWire = math.Hypot(rho-a, z)
+	return l
+}
+
+// ellipticSet holds F, D = ∫ sin²/Δ, H = ∫ sin²/Δ³ and G = ∫ 1/Δ³ from 0
+// to θ, Δ = √(1 − m sin²θ), for any real θ.
+type ellipticSet struct{ F, D, H, G float64 }
+
+// completes holds K(m) and D(m) = ∫0^{π/2} sin²/Δ.
+type completes struct{ K, D float64 }
+
+func completeOf(m float64) completes {
+	return completes{mathext.CompleteK(m), mathext.CompleteD(m)}
+}
+
+// ellipticAt evaluates the set at θ using Carlson's forms (gonum mathext):
+// F = s·RF(c², Δ², 1), D = (s³/3)·RD(c², Δ², 1) for |θ| ≤ π/2, extended by
+// quasi-periodicity; then, from d/dθ(s·c/Δ) = (1−2s²)/Δ + m s² c²/Δ³,
+//
+//	H = (F − D − s c/Δ)/(1 − m),   G = F + m·H,
+//
+// which stay accurate as m → 0 (points near the axis).
+func ellipticAt(theta, m float64, cm completes) ellipticSet {
+	k := math.Round(theta / math.Pi)
+	tr := theta - k*math.Pi
+	s, c := math.Sincos(tr)
+	delta2 := 1 - m*s*s
+	f := s*mathext.EllipticRF(c*c, delta2, 1) + 2*k*cm.K
+	dd := s*s*s/3*mathext.EllipticRD(c*c, delta2, 1) + 2*k*cm.D
+	st, ct := math.Sincos(theta)
+	scd := st * ct / math.Sqrt(1-m*st*st)
+	h := (f - dd - scd) / (1 - m)
+	return ellipticSet{F: f, D: dd, H: h, G: f + m*h}
+}
+
+// closeToCircle is 1 − m below which an arc (not a whole circle) is
+// integrated numerically: the closed form's 1/(1 − m) cancellation would
+// cost more than two digits.
+const closeToCircle = 0.01
+
+// arcIntegrals returns, over the arc, with R² = ρ² + a² + z² − 2aρ cos φ:
+// I3 = ∫dφ/R³, C3 = ∫cos φ/R³, S3 = ∫sin φ/R³, I1 = ∫dφ/R, C1 = ∫cos φ/R,
+// S1 = ∫sin φ/R, by the substitution φ = π − 2θ, R² = P²(1 − m sin²θ).
+func arcIntegrals(p Prim, l arcLocal) (i3, c3, s3, c1, s1 float64) {
+	a := p.R
+	P := math.Sqrt(l.p2)
+	if p.IsCircle() {
+		cm := completeOf(l.m)
+		fF := 2 * cm.K
+		fD := 2 * cm.D
+		fH := (fF - fD) / (1 - l.m)
+		fG := fF + l.m*fH
+		i3 = 2 / (P * P * P) * fG
+		c3 = 2 / (P * P * P) * (2*fH - fG)
+		c1 = 2 / P * (2*fD - fF)
+		return i3, c3, 0, c1, 0
+	}
+	cm := completeOf(l.m)
+	phi1 := l.phi1
+	phi2 := phi1 + p.Span
+	th1 := (math.Pi - phi1) / 2
+	th2 := th1 - p.Span/2
+	e1 := ellipticAt(th1, l.m, cm)
+	e2 := ellipticAt(th2, l.m, cm)
+	dF, dD, dH, dG := e1.F-e2.F, e1.D-e2.D, e1.H-e2.H, e1.G-e2.G
+	i3 = 2 / (P * P * P) * dG
+	c3 = 2 / (P * P * P) * (2*dH - dG)
+	c1 = 2 / P * (2*dD - dF)
+	base := l.rho*l.rho + a*a + l.z*l.z
+	cos1, cos2 := math.Cos(phi1), math.Cos(phi2)
+	r1 := math.Sqrt(math.Max(base-2*a*l.rho*cos1, 0))
+	r2 := math.Sqrt(math.Max(base-2*a*l.rho*cos2, 0))
+	s3 = 2 * (cos1 - cos2) / (r1 * r2 * (r1 + r2))
+	s1 = 2 * (cos1 - cos2) / (r1 + r2)
+	return
+}
+
+// nearArc reports whether x (in local form l) is on the arc itself.
+func nearArc(p Prim, l arcLocal) bool {
+	if l.distWire > onWireRel*p.R {
+		return false
+	}
+	if p.IsCircle() {
+		return true
+	}
+	// the point's azimuth relative to the arc start is -phi1
+	ang := math.Mod(-l.phi1+2*math.Pi, 2*math.Pi)
+	return ang <= p.Span+1e-12
+}
+
+// ArcB returns B at x of an arc (or circle) carrying 1 A:
+//
+//	B = μ0 a/4π · (z·C3, z·S3, a·I3 − ρ·C3)
+//
+// in the point's cylindrical frame (radial, azimuthal, axial). For a whole
+// circle this is the classical complete-elliptic-integral field of a loop.
+func ArcB(p Prim, x Vec) (Vec, error) {
+	l := localArc(p, x)
+	if nearArc(p, l) {
+		return Vec{}, ErrOnWire
+	}
+	if !p.IsCircle() && 1-l.m < closeToCircle {
+		return numericB(p, x)
+	}
+	i3, c3, s3, _, _ := arcIntegrals(p, l)
+	f := k0 * p.R
+	br := f * l.z * c3
+	bphi := f * l.z * s3
+	bz := f * (p.R*i3 - l.rho*c3)
+	return r3.Add(r3.Add(r3.Scale(br, l.ex), r3.Scale(bphi, l.ey)), r3.Scale(bz, p.N)), nil
+}
+
+// ArcA returns the vector potential at x of an arc (or circle) carrying
+// 1 A: A = μ0 a/4π · (−S1, C1, 0) in the point's cylindrical frame.
+func ArcA(p Prim, x Vec) (Vec, error) {
+	l := localArc(p, x)
+	if nearArc(p, l) {
+		return Vec{}, ErrOnWire
+	}
+	if !p.IsCircle() && 1-l.m < closeToCircle {
+		return numericA(p, x)
+	}
+	_, _, _, c1, s1 := arcIntegrals(p, l)
+	f := k0 * p.R
+	return r3.Add(r3.Scale(-f*s1, l.ex), r3.Scale(f*c1, l.ey)), nil
+}
+
+// fieldTol is the accuracy asked of numerical field integrals: relative
+// 1e-12 of the result, or an absolute floor far below any field of interest.
+var fieldTol = Tol{Rel: 1e-12, Abs: 1e-30}
+
+// numericB integrates Biot–Savart along the exact primitive.
+func numericB(p Prim, x Vec) (Vec, error) {
+	var bad bool
+	f := func(t float64) Vec {
+		r := r3.Sub(x, p.Point(t))
+		n := r3.Norm(r)
+		if n == 0 {
+			bad = true
+			return Vec{}
+		}
+		return r3.Scale(k0/(n*n*n), r3.Cross(p.Tangent(t), r))
+	}
+	v, _, err := IntegrateVecBreaks(f, primBreaks(p), fieldTol)
+	if bad {
+		return Vec{}, ErrOnWire
+	}
+	if err != nil && !errors.Is(err, ErrNoConvergence) {
+		return Vec{}, err
+	}
+	return v, nil
+}
+
+// numericA integrates μ0/4π ∫ dl/|x − r'| along the exact primitive.
+func numericA(p Prim, x Vec) (Vec, error) {
+	var bad bool
+	f := func(t float64) Vec {
+		n := r3.Norm(r3.Sub(x, p.Point(t)))
+		if n == 0 {
+			bad = true
+			return Vec{}
+		}
+		return r3.Scale(k0/n, p.Tangent(t))
+	}
+	v, _, err := IntegrateVecBreaks(f, primBreaks(p), fieldTol)
+	if bad {
+		return Vec{}, ErrOnWire
+	}
+	if err != nil && !errors.Is(err, ErrNoConvergence) {
+		return Vec{}, err
+	}
+	return v, nil
+}
+
+// primBreaks splits an arc or helix into quarter turns for quadrature.
+func primBreaks(p Prim) []float64 {
+	n := int(math.Ceil(math.Abs(p.Span) / (math.Pi / 2)))
+	n = max(1, n)
+	pts := make([]float64, n+1)
+	for i := range pts {
+		pts[i] = float64(i) / float64(n)
+	}
+	return pts
+}
+
+// PrimB returns B at x of one primitive carrying 1 A.
+func PrimB(p Prim, x Vec) (Vec, error) {
+	switch p.Kind {
+	case Segment:
+		return SegmentB(p.A, p.B, x)
+	case Arc:
+		return ArcB(p, x)
+	default:
+		if helixOnWire(p, x) {
+			return Vec{}, ErrOnWire
+		}
+		return numericB(p, x)
+	}
+}
+
+// PrimA returns A at x of one primitive carrying 1 A.
+func PrimA(p Prim, x Vec) (Vec, error) {
+	switch p.Kind {
+	case Segment:
+		return SegmentA(p.A, p.B, x)
+	case Arc:
+		return ArcA(p, x)
+	default:
+		if helixOnWire(p, x) {
+			return Vec{}, ErrOnWire
+		}
+		return numericA(p, x)
+	}
+}
+
+// helixOnWire checks whether x lies on the helix: it must be on its
+// cylinder, within its length, at the height the helix has at x's azimuth.
+func helixOnWire(p Prim, x Vec) bool {
+	d := r3.Sub(x, p.C)
+	z := r3.Dot(d, p.N)
+	w := r3.Sub(d, r3.Scale(z, p.N))
+	tol := onWireRel * p.R
+	if math.Abs(r3.Norm(w)-p.R) > tol {
+		return false
+	}
+	psi := math.Atan2(r3.Dot(w, p.V), r3.Dot(w, p.U))
+	if psi < 0 {
+		psi += 2 * math.Pi
+	}
+	turn := 2 * math.Pi * p.Pitch
+	for phi := psi; phi <= p.Span+1e-12; phi += 2 * math.Pi {
+		if math.Abs(z-p.Pitch*phi) <= tol+1e-12*math.Abs(turn) {
+			return true
+		}
+	}
+	return false
+}
+
+// PathB returns B at x of a path carrying 1 A.
+func PathB(path Path, x Vec) (Vec, error) {
+	var sum Vec
+	for _, p := range path.Prims {
+		b, err := PrimB(p, x)
+		if err != nil {
+			return Vec{}, err
+		}
+		sum = r3.Add(sum, b)
+	}
+	return sum, nil
+}
+
+// PathA returns A at x of a path carrying 1 A.
+func PathA(path Path, x Vec) (Vec, error) {
+	var sum Vec
+	for _, p := range path.Prims {
+		a, err := PrimA(p, x)
+		if err != nil {
+			return Vec{}, err
+		}
+		sum = r3.Add(sum, a)
+	}
+	return sum, nil
+}
