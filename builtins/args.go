@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"loopwise/builtins/em"
 	"loopwise/runtime"
 )
 
@@ -57,4 +58,135 @@ func finite(fn string, x float64, d runtime.Dim) (runtime.Value, error) {
 		return nil, errorf("%s: the result is infinite", fn)
 	}
 	return runtime.Quantity{V: x, D: d}, nil
+}
+
+var (
+	dimLength  = mustDim("m")
+	dimArea    = mustDim("m^2")
+	dimTime    = mustDim("s")
+	dimCurrent = mustDim("A")
+	dimTesla   = mustDim("T")
+	dimWeber   = mustDim("Wb")
+	dimVpot    = mustDim("Wb/m")
+	dimVolt    = mustDim("V")
+	dimHenry   = mustDim("H")
+	dimNewton  = mustDim("N")
+	dimSpeed   = mustDim("m/s")
+)
+
+// Limits that keep absurd requests from exhausting memory or time.
+const (
+	maxPrims  = 200_000       // pieces in one path
+	maxPoints = 1_000_000     // field points in one request
+	maxWork   = 200_000000000 // points × pieces in one request
+	maxTurns  = 100_000       // turns of one helix, ring set or toroid
+)
+
+func toVec(v runtime.Vector) em.Vec { return em.Vec{X: v.V[0], Y: v.V[1], Z: v.V[2]} }
+
+func fromVec(v em.Vec, d runtime.Dim) runtime.Vector {
+	return runtime.Vector{V: [3]float64{v.X, v.Y, v.Z}, D: d}
+}
+
+// point returns argument i as a position (a vector of lengths).
+func point(fn string, args []runtime.Value, i int) (em.Vec, error) {
+	v, err := vector(fn, args, i)
+	if err != nil {
+		return em.Vec{}, err
+	}
+	if v.D != dimLength {
+		return em.Vec{}, errorf("%s: the %s argument must be a position in m, not a vector of %s", fn, ordinal(i), v.D.Describe())
+	}
+	return toVec(v), nil
+}
+
+// lengthVec returns argument i as a displacement (a vector of lengths).
+func lengthVec(fn string, args []runtime.Value, i int) (em.Vec, error) { return point(fn, args, i) }
+
+// axis returns argument i as a non-zero direction (any unit).
+func axis(fn string, args []runtime.Value, i int) (em.Vec, error) {
+	v, err := vector(fn, args, i)
+	if err != nil {
+		return em.Vec{}, err
+	}
+	x := toVec(v)
+	if x.X == 0 && x.Y == 0 && x.Z == 0 {
+		return em.Vec{}, errorf("%s: the %s argument is a direction and must not be the zero vector", fn, ordinal(i))
+	}
+	return x, nil
+}
+
+// positiveLength returns argument i as a length > 0.
+func positiveLength(fn string, args []runtime.Value, i int) (float64, error) {
+	q, err := quantity(fn, args, i)
+	if err != nil {
+		return 0, err
+	}
+	if q.D != dimLength {
+		return 0, errorf("%s: the %s argument must be a length, not %s", fn, ordinal(i), q.D.Describe())
+	}
+	if !(q.V > 0) || math.IsInf(q.V, 0) {
+		return 0, errorf("%s: the %s argument must be a positive length, not %s", fn, ordinal(i), runtime.Format(q, 6))
+	}
+	return q.V, nil
+}
+
+// ofDim returns argument i as a quantity of dimension d.
+func ofDim(fn string, args []runtime.Value, i int, d runtime.Dim) (float64, error) {
+	q, err := quantity(fn, args, i)
+	if err != nil {
+		return 0, err
+	}
+	if q.D != d {
+		return 0, errorf("%s: the %s argument must be %s, not %s", fn, ordinal(i), d.Describe(), q.D.Describe())
+	}
+	return q.V, nil
+}
+
+// count returns argument i as a whole number from lo to hi.
+func count(fn string, args []runtime.Value, i, lo, hi int) (int, error) {
+	x, err := number(fn, args, i)
+	if err != nil {
+		return 0, err
+	}
+	if x != math.Trunc(x) || x < float64(lo) || x > float64(hi) {
+		return 0, errorf("%s: the %s argument must be a whole number from %d to %d, not %s", fn, ordinal(i), lo, hi, runtime.FormatNumber(x, 6))
+	}
+	return int(x), nil
+}
+
+func pathArg(fn string, args []runtime.Value, i int) (em.Path, error) {
+	p, ok := args[i].(*Path)
+	if !ok {
+		return em.Path{}, errorf("%s: the %s argument must be a path, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
+	}
+	return p.P, nil
+}
+
+func sourceArg(fn string, args []runtime.Value, i int) (*Source, error) {
+	s, ok := args[i].(*Source)
+	if !ok {
+		hint := ""
+		if _, isPath := args[i].(*Path); isPath {
+			hint = " (give the path a current with source(path, I))"
+		}
+		return nil, errorf("%s: the %s argument must be a source%s, not %s", fn, ordinal(i), hint, runtime.TypeName(args[i]))
+	}
+	return s, nil
+}
+
+// timeArg reads the optional time argument at index i.
+func timeArg(fn string, args []runtime.Value, i int) (float64, bool, error) {
+	if len(args) <= i {
+		return 0, false, nil
+	}
+	t, err := ofDim(fn, args, i, dimTime)
+	return t, true, err
+}
+
+func checkPrims(fn string, n int) error {
+	if n > maxPrims {
+		return errorf("%s: the path would have %d pieces; the limit is %d", fn, n, maxPrims)
+	}
+	return nil
 }

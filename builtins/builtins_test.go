@@ -3,6 +3,7 @@ package builtins_test
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
@@ -32,7 +33,10 @@ func TestHelpComplete(t *testing.T) {
 			t.Errorf("%s: help incomplete: %+v", f.Name, h)
 			continue
 		}
-		eval(t, runtime.NewSession(lib), h.Example)
+		s := runtime.NewSession(lib)
+		for _, stmt := range strings.Split(h.Example, "; ") {
+			eval(t, s, stmt)
+		}
 	}
 	for _, c := range lib.Consts {
 		if c.Help == nil || c.Help.Example == "" || c.Help.Reference == "" {

@@ -49,5 +49,9 @@ func Standard() runtime.Library {
 	var fs []*runtime.Func
 	fs = append(fs, mathFuncs()...)
 	fs = append(fs, vectorFuncs()...)
+	fs = append(fs, geometryFuncs()...)
+	fs = append(fs, sourceFuncs()...)
+	fs = append(fs, fluxFuncs()...)
+	fs = append(fs, inductanceFuncs()...)
 	return runtime.Library{Funcs: fs, Consts: constants()}
 }

@@ -352,5 +352,5 @@ func (s *Session) callFunc(p ...any) (any, error) {
 		s.tooDeep = true
 		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
 	}
-	return f.Invoke(args)
+	return f.Invoke(s, args)
 }

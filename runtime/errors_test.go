@@ -267,12 +267,6 @@ var errorCases = []errorCase{
 	{name: "assign to a constant", in: "pi = 3", col: 1,
 		msg:   `pi is a constant; choose another name`,
 		caret: "^^"},
-	{name: "assign to a builtin", in: "sin = 3", col: 1,
-		msg:   `sin is a builtin function; choose another name`,
-		caret: "^^^"},
-	{name: "define a builtin", in: "sin(x) = x", col: 1,
-		msg:   `sin is a builtin function; choose another name`,
-		caret: "^^^"},
 	{name: "reserved prefix assigned", in: "__x = 2", col: 1,
 		msg:   `names starting with "__" are reserved`,
 		caret: "^^^"},
@@ -451,5 +445,26 @@ func TestFailedStatementLeavesSessionUnchanged(t *testing.T) {
 	res, err := s.Eval(lang.Pos{File: "t.lw", Line: 9, Col: 1}, "gap")
 	if err != nil || res.Text != "4 mm" {
 		t.Errorf("gap after a failed reassignment = %v, %v; want 4 mm", res, err)
+	}
+}
+
+// TestShadowBuiltin: a user name may hide a builtin (flux, emf and force are
+// natural variable names); the result carries a note and the session goes
+// on using the user's value.
+func TestShadowBuiltin(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	res, err := s.Eval(lang.Pos{Line: 1, Col: 1}, "sin = 3 mV")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(res.Note, "builtin sin is hidden") {
+		t.Errorf("note = %q, want a note about hiding the builtin", res.Note)
+	}
+	res, err = s.Eval(lang.Pos{Line: 2, Col: 1}, "sin * 2")
+	if err != nil || res.Text != "6 mV" {
+		t.Errorf("sin * 2 = %v, %v; want 6 mV", res, err)
+	}
+	if _, err := s.Eval(lang.Pos{Line: 3, Col: 1}, "pi = 3"); err == nil {
+		t.Error("pi = 3 succeeded; constants must not be rebound")
 	}
 }

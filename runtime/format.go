@@ -225,6 +225,8 @@ func Format(v Value, digits int) string {
 			return x.Signature() + " = " + x.Body
 		}
 		return "builtin " + x.Name
+	case Shower:
+		return x.Show(digits)
 	case bool:
 		return strconv.FormatBool(x)
 	case string:
@@ -248,7 +250,25 @@ func formatQuantity(q Quantity, digits int) string {
 	return FormatNumber(m, digits) + " " + ds.unitText(engPrefix[k])
 }
 
+// vectorNoise is the relative size below which a vector component is shown
+// as 0: smaller than the accuracy of the numerical methods (1e-10), so it is
+// rounding or quadrature noise, not information.
+const vectorNoise = 1e-10
+
+// CleanComponents returns v with components below vectorNoise of its
+// largest component set to zero.
+func CleanComponents(c [3]float64) [3]float64 {
+	big := math.Max(math.Abs(c[0]), math.Max(math.Abs(c[1]), math.Abs(c[2])))
+	for i := range c {
+		if math.Abs(c[i]) < vectorNoise*big {
+			c[i] = 0
+		}
+	}
+	return c
+}
+
 func formatVector(v Vector, digits int) string {
+	v.V = CleanComponents(v.V)
 	ds := displayOf(v.D)
 	scale, unit := 1.0, ""
 	if !v.D.IsZero() {
@@ -291,11 +311,26 @@ func FormatIn(v Value, unit string, digits int) (string, error) {
 			return "", &DimError{Msg: fmt.Sprintf("cannot show a vector of %s in %s, which measures %s", x.D.Describe(), unit, u.Dim.Describe())}
 		}
 		parts := make([]string, 3)
-		for i, c := range x.V {
+		for i, c := range CleanComponents(x.V) {
 			parts[i] = FormatNumber(c/scale, digits)
 		}
 		return "[" + strings.Join(parts, ", ") + "] " + unit, nil
 	default:
 		return "", &DimError{Msg: fmt.Sprintf("only quantities can be shown in a unit, not %s", TypeName(v))}
 	}
+}
+
+// BestUnit chooses the unit text and its SI size for showing values of
+// dimension d whose largest magnitude is big (for table columns and
+// vectors): the unit Format would use for big.
+func BestUnit(d Dim, big float64, digits int) (string, float64) {
+	if d.IsZero() {
+		return "", 1
+	}
+	ds := displayOf(d)
+	if ds.atom == "" {
+		return ds.composite, 1
+	}
+	k := ds.chooseK(math.Abs(big)/ds.scale, digits)
+	return ds.unitText(engPrefix[k]), ds.scale * math.Pow10(3*k*ds.power)
 }

@@ -49,6 +49,9 @@ func Sub(a, b Value) (Value, error) { return addSub(a, b, -1, "subtract", "-") }
 
 func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if x, ok := a.(Adder); ok && sign > 0 {
+		return x.Plus(b)
+	}
 	switch x := a.(type) {
 	case Quantity:
 		if y, ok := b.(Quantity); ok {

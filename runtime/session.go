@@ -55,6 +55,7 @@ type Session struct {
 	Transcript []Entry
 	depth      int
 	tooDeep    bool // the nesting limit was hit in the current statement
+	progress   ProgressFunc
 }
 
 // NewSession starts a session with the given library.
@@ -92,6 +93,15 @@ type Result struct {
 	Value  Value  // nil for empty lines and commands
 	Text   string // what to show, at the session's digits
 	Record string // what to record in a script ("" when nothing)
+	Note   string // a remark for the prompt (not recorded), or ""
+}
+
+// shadowNote is the note for a name that hides a builtin.
+func (s *Session) shadowNote(name string) string {
+	if s.kinds[name] == kindBuiltin {
+		return fmt.Sprintf("note: %s now names your value; the builtin %s is hidden in this session", name, name)
+	}
+	return ""
 }
 
 // ErrNotSessionCommand is returned by Eval for a command the session does
@@ -135,7 +145,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		return nil, err
 	}
 	unit := st.As
+	note := ""
 	if st.Kind == lang.Assign {
+		note = s.shadowNote(st.Name)
 		if err := s.assign(st, v); err != nil {
 			return nil, err
 		}
@@ -157,8 +169,11 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		return nil, err
 	}
 	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
+	if sh, ok := v.(Shower); ok {
+		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script
+	}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec})
-	return &Result{Stmt: st, Value: v, Text: text, Record: rec}, nil
+	return &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note}, nil
 }
 
 // show formats v, in unit when one is given.
@@ -181,10 +196,10 @@ func (s *Session) show(st *lang.Statement, v Value, unit string, digits int) (st
 	return text, nil
 }
 
+// checkAssignable refuses to rebind constants. Builtins may be shadowed
+// (a variable called flux or emf is natural); the result carries a note.
 func (s *Session) checkAssignable(st *lang.Statement) error {
 	switch s.kinds[st.Name] {
-	case kindBuiltin:
-		return st.Errorf(0, utf8.RuneCountInString(st.Name), "%s is a builtin function; choose another name", st.Name)
 	case kindConst:
 		return st.Errorf(0, utf8.RuneCountInString(st.Name), "%s is a constant; choose another name", st.Name)
 	}
@@ -239,6 +254,7 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 	if err := s.checkAssignable(st); err != nil {
 		return nil, err
 	}
+	note := s.shadowNote(st.Name)
 	frame := &frameStack{}
 	// The function's own name must be known to compile a recursive body.
 	prev, had := s.kinds[st.Name]
@@ -277,7 +293,7 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 	delete(s.declared, st.Name)
 	text := "defined " + f.Signature()
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: text})
-	return &Result{Stmt: st, Value: f, Text: text, Record: text}, nil
+	return &Result{Stmt: st, Value: f, Text: text, Record: text, Note: note}, nil
 }
 
 // command handles the commands that belong to the session itself.
@@ -294,6 +310,19 @@ func (s *Session) command(st *lang.Statement) (*Result, error) {
 		return &Result{Stmt: st, Text: text}, nil
 	}
 	return nil, ErrNotSessionCommand
+}
+
+// ProgressFunc, when set, receives progress reports of long builtins.
+type ProgressFunc func(label string, done, total int)
+
+// SetProgress installs a progress reporter (the prompt's).
+func (s *Session) SetProgress(f ProgressFunc) { s.progress = f }
+
+// Progress implements Env.
+func (s *Session) Progress(label string, done, total int) {
+	if s.progress != nil {
+		s.progress(label, done, total)
+	}
 }
 
 // Lookup returns the value bound to name.

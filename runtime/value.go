@@ -30,6 +30,28 @@ func (v Vector) Norm() Quantity {
 	return Quantity{math.Sqrt(v.V[0]*v.V[0] + v.V[1]*v.V[1] + v.V[2]*v.V[2]), v.D}
 }
 
+// Shower is implemented by values that builtins define (paths, sources,
+// tables): they show themselves, name their kind for messages, and give a
+// one-line text for recorded results.
+type Shower interface {
+	Show(digits int) string
+	Kind() string
+	Summary(digits int) string
+}
+
+// Adder is implemented by builtin values that can be added with + (sources
+// superpose).
+type Adder interface {
+	Plus(other Value) (Value, error)
+}
+
+// Env is what a builtin may ask of the session that calls it.
+type Env interface {
+	// Progress reports work done on a long computation; the prompt shows
+	// it when the work takes more than a second.
+	Progress(label string, done, total int)
+}
+
 // Func is a callable value: a builtin or a user-defined function. Functions
 // are first-class: they can be passed to builtins that integrate or
 // differentiate them.
@@ -41,6 +63,8 @@ type Func struct {
 	MinArgs, MaxArgs int
 	// Call evaluates the function. Arguments are already counted.
 	Call func(args []Value) (Value, error)
+	// CallEnv, when set, is used instead of Call and receives the session.
+	CallEnv func(env Env, args []Value) (Value, error)
 	// Help is set for builtins.
 	Help *Help
 }
@@ -55,9 +79,12 @@ type Help struct {
 }
 
 // Invoke checks the argument count and calls f.
-func (f *Func) Invoke(args []Value) (Value, error) {
+func (f *Func) Invoke(env Env, args []Value) (Value, error) {
 	if len(args) < f.MinArgs || (f.MaxArgs >= 0 && len(args) > f.MaxArgs) {
 		return nil, fmt.Errorf("%s takes %s, got %d", f.Name, argCount(f.MinArgs, f.MaxArgs), len(args))
+	}
+	if f.CallEnv != nil {
+		return f.CallEnv(env, args)
 	}
 	return f.Call(args)
 }
@@ -103,6 +130,8 @@ func TypeName(v Value) string {
 		return "a vector of " + x.D.Describe()
 	case *Func:
 		return "the function " + x.Name
+	case Shower:
+		return x.Kind()
 	case bool:
 		return "a true/false value"
 	case string:

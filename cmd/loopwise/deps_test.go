@@ -12,12 +12,14 @@ import (
 
 // allowedImports is a statement of policy: which Loopwise packages and
 // which outside modules each package may import (non-test files). Imports
-// flow one way: cmd → builtins → runtime → lang; only cmd touches the
-// terminal (liner).
+// flow one way: cmd → builtins → runtime → lang; the numerical core
+// builtins/em knows nothing of the language; only cmd touches the terminal
+// (liner).
 var allowedImports = map[string][]string{
 	"lang":         {},
 	"runtime":      {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
-	"builtins":     {"loopwise/runtime", "loopwise/lang", "gonum.org/v1/gonum"},
+	"builtins":     {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "gonum.org/v1/gonum"},
+	"builtins/em":  {"gonum.org/v1/gonum"},
 	"cmd/loopwise": {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner"},
 }
 

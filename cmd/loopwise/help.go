@@ -87,9 +87,16 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 	if h.Example != "" {
 		// The example runs in a scratch session so the user's names are
 		// untouched; its result is shown beside it.
+		// An example may be several statements separated by "; ".
 		scratch := newSession()
-		res, err := scratch.Eval(lang.Pos{Line: 1, Col: 1}, h.Example)
-		if err != nil {
+		var res *runtime.Result
+		var err error
+		for i, stmt := range strings.Split(h.Example, "; ") {
+			if res, err = scratch.Eval(lang.Pos{Line: i + 1, Col: 1}, stmt); err != nil {
+				break
+			}
+		}
+		if err != nil || strings.Contains(res.Text, "\n") {
 			fmt.Fprintf(c.out, "  example: %s\n", h.Example)
 		} else {
 			fmt.Fprintf(c.out, "  example: %s   %s %s\n", h.Example, runtime.ResultMark, res.Text)

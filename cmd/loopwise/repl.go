@@ -72,6 +72,9 @@ func (c *console) line(text string) (quit bool) {
 		c.fail(err)
 		return false
 	}
+	if res.Note != "" {
+		fmt.Fprintln(c.errOut, res.Note)
+	}
 	switch {
 	case st.Kind == lang.Empty:
 	case st.Kind == lang.Assign:

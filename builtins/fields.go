@@ -1,0 +1,282 @@
+package builtins
+
+import (
+	"errors"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+const refFields = "Biot–Savart law; closed forms for segments (Hanson & Hirshman, Phys. Plasmas 9, 4410, 2002) and circular loops (Simpson et al., NASA TM, 2001); tests in builtins/em"
+
+// fieldErr turns numeric-core errors into user messages.
+func fieldErr(fn string, err error) error {
+	var pe *em.PointError
+	switch {
+	case errors.As(err, &pe) && errors.Is(err, em.ErrOnWire):
+		return errorf("%s: point %d lies on a wire, where a thin wire's field is infinite; move it off the wire (give the wire a radius with inductance() for energy questions)", fn, pe.Index+1)
+	case errors.Is(err, em.ErrOnWire):
+		return errorf("%s: the point lies on a wire, where a thin wire's field is infinite; move it off the wire", fn)
+	case errors.Is(err, em.ErrOpenPath):
+		return errorf("%s: %v", fn, err)
+	}
+	return errorf("%s: %v", fn, err)
+}
+
+func sourceFuncs() []*runtime.Func {
+	return []*runtime.Func{
+		fnc("source", []string{"path", "current"}, 2, 2, &runtime.Help{
+			Signature: "source(path, current: A, or a function of time returning A) -> source",
+			Summary:   "A path carrying a current. Sources add with +: the fields superpose.",
+			Example:   "source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)",
+			Reference: "superposition of Biot–Savart fields",
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			p, err := pathArg("source", args, 0)
+			if err != nil {
+				return nil, err
+			}
+			switch c := args[1].(type) {
+			case runtime.Quantity:
+				if c.D != dimCurrent {
+					return nil, errorf("source: the current must be in A, not %s", c.D.Describe())
+				}
+			case *runtime.Func:
+				if c.MinArgs > 1 || (c.MaxArgs >= 0 && c.MaxArgs < 1) {
+					return nil, errorf("source: a current function must take one argument, the time; %s does not", c.Signature())
+				}
+			default:
+				return nil, errorf("source: the current must be in A or a function of time, not %s", runtime.TypeName(args[1]))
+			}
+			return &Source{terms: []sourceTerm{{path: p, current: args[1]}}}, nil
+		}),
+		fnc("uniform", []string{"B"}, 1, 1, &runtime.Help{
+			Signature: "uniform(B: vector [T]) -> source",
+			Summary:   "A uniform magnetic field everywhere, as a source for quick cases (its vector potential is B × r / 2).",
+			Example:   "uniform([0, 0, 50] uT)",
+			Reference: "uniform field; A = ½ B × r (Coulomb gauge)",
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			v, err := vector("uniform", args, 0)
+			if err != nil {
+				return nil, err
+			}
+			if v.D != dimTesla {
+				return nil, errorf("uniform: the field must be a vector in T, not %s", v.D.Describe())
+			}
+			return &Source{uniform: []em.Vec{toVec(v)}}, nil
+		}),
+		{
+			Name: "bfield", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return pointField(env, "bfield", em.FieldB, args)
+			},
+			Help: &runtime.Help{
+				Signature: "bfield(source, point: position [m][, t: s]) -> vector [T]",
+				Summary:   "Magnetic flux density B of the source at a point (at time t when a current is a function of time).",
+				Method:    "closed forms for segments and arcs (elliptic integrals), adaptive quadrature for helices (relative 1e-12)",
+				Example:   "bfield(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, 0] m)",
+				Reference: refFields,
+			},
+		},
+		{
+			Name: "vpot", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return pointField(env, "vpot", em.FieldA, args)
+			},
+			Help: &runtime.Help{
+				Signature: "vpot(source, point: position [m][, t: s]) -> vector [Wb/m]",
+				Summary:   "Magnetic vector potential A of the source at a point (Coulomb gauge); its circulation around a loop is the flux through it.",
+				Method:    "closed forms for segments (log form) and arcs (incomplete elliptic integrals), adaptive quadrature for helices",
+				Example:   "vpot(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [10, 0, 0] mm)",
+				Reference: refFields,
+			},
+		},
+		{
+			Name: "sample_line", Params: []string{"source", "from", "to", "n", "t"}, MinArgs: 4, MaxArgs: 5,
+			CallEnv: sampleLine,
+			Help: &runtime.Help{
+				Signature: "sample_line(source, from: position [m], to: position [m], n: whole number[, t: s]) -> table",
+				Summary:   "B at n evenly spaced points from one point to another, as a table (s along the line, x, y, z, Bx, By, Bz, |B|).",
+				Method:    "the parallel field kernel; results do not depend on the number of cores",
+				Example:   "sample_line(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, -50] mm, [0, 0, 50] mm, 5)",
+				Reference: refFields,
+			},
+		},
+		{
+			Name: "sample_plane", Params: []string{"source", "origin", "side1", "side2", "n1", "n2", "t"}, MinArgs: 6, MaxArgs: 7,
+			CallEnv: samplePlane,
+			Help: &runtime.Help{
+				Signature: "sample_plane(source, origin: position [m], side1: vector [m], side2: vector [m], n1, n2: whole numbers[, t: s]) -> table",
+				Summary:   "B on an n1 × n2 grid over the parallelogram origin + u·side1 + v·side2, as a table (u, v, x, y, z, Bx, By, Bz, |B|).",
+				Method:    "the parallel field kernel; results do not depend on the number of cores",
+				Example:   "sample_plane(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 3, 3)",
+				Reference: refFields,
+			},
+		},
+	}
+}
+
+// fieldsOf evaluates B or A of a source (paths and uniform fields) at points.
+func fieldsOf(env runtime.Env, fn string, which em.Which, src *Source, pts []em.Vec, t float64, hasT bool) ([]em.Vec, error) {
+	srcs, err := src.sources(env, fn, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	prims := 0
+	for _, s := range srcs {
+		prims += len(s.Path.Prims)
+	}
+	if float64(prims)*float64(len(pts)) > maxWork {
+		return nil, errorf("%s: %d points × %d pieces is more work than the limit of %g field evaluations; sample fewer points or simplify the path", fn, len(pts), prims, float64(maxWork))
+	}
+	out := make([]em.Vec, len(pts))
+	var progress func(int)
+	if len(pts) > 1 && env != nil {
+		progress = func(done int) { env.Progress(fn, done, len(pts)) }
+	}
+	if err := em.Fields(which, srcs, pts, out, 0, progress); err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	ub := src.uniformB()
+	if ub != (em.Vec{}) {
+		for i, x := range pts {
+			if which == em.FieldB {
+				out[i] = r3.Add(out[i], ub)
+			} else {
+				out[i] = r3.Add(out[i], r3.Scale(0.5, r3.Cross(ub, x)))
+			}
+		}
+	}
+	return out, nil
+}
+
+func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value) (runtime.Value, error) {
+	src, err := sourceArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	x, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	t, hasT, err := timeArg(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	out, err := fieldsOf(nil, fn, which, src, []em.Vec{x}, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	d := dimTesla
+	if which == em.FieldA {
+		d = dimVpot
+	}
+	return fromVec(out[0], d), nil
+}
+
+func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "sample_line"
+	src, err := sourceArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	a, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	b, err := point(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	n, err := count(fn, args, 3, 2, maxPoints)
+	if err != nil {
+		return nil, err
+	}
+	t, hasT, err := timeArg(fn, args, 4)
+	if err != nil {
+		return nil, err
+	}
+	pts := make([]em.Vec, n)
+	for i := range pts {
+		pts[i] = r3.Add(a, r3.Scale(float64(i)/float64(n-1), r3.Sub(b, a)))
+	}
+	out, err := fieldsOf(env, fn, em.FieldB, src, pts, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	l := r3.Norm(r3.Sub(b, a))
+	tab := &Table{
+		Cols: []string{"s", "x", "y", "z", "Bx", "By", "Bz", "|B|"},
+		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimTesla, dimTesla, dimTesla, dimTesla},
+	}
+	for i, x := range pts {
+		bv := cleanVec(out[i])
+		tab.Rows = append(tab.Rows, []float64{l * float64(i) / float64(n-1), x.X, x.Y, x.Z, bv.X, bv.Y, bv.Z, r3.Norm(bv)})
+	}
+	return tab, nil
+}
+
+func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "sample_plane"
+	src, err := sourceArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	o, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	s1, err := lengthVec(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	s2, err := lengthVec(fn, args, 3)
+	if err != nil {
+		return nil, err
+	}
+	n1, err := count(fn, args, 4, 2, maxPoints)
+	if err != nil {
+		return nil, err
+	}
+	n2, err := count(fn, args, 5, 2, maxPoints)
+	if err != nil {
+		return nil, err
+	}
+	if n1*n2 > maxPoints {
+		return nil, errorf("%s: %d × %d points is more than the limit of %d", fn, n1, n2, maxPoints)
+	}
+	t, hasT, err := timeArg(fn, args, 6)
+	if err != nil {
+		return nil, err
+	}
+	pts := make([]em.Vec, 0, n1*n2)
+	uv := make([][2]float64, 0, n1*n2)
+	for j := 0; j < n2; j++ {
+		for i := 0; i < n1; i++ {
+			u, v := float64(i)/float64(n1-1), float64(j)/float64(n2-1)
+			pts = append(pts, r3.Add(o, r3.Add(r3.Scale(u, s1), r3.Scale(v, s2))))
+			uv = append(uv, [2]float64{u * r3.Norm(s1), v * r3.Norm(s2)})
+		}
+	}
+	out, err := fieldsOf(env, fn, em.FieldB, src, pts, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	tab := &Table{
+		Cols: []string{"u", "v", "x", "y", "z", "Bx", "By", "Bz", "|B|"},
+		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimLength, dimTesla, dimTesla, dimTesla, dimTesla},
+	}
+	for i, x := range pts {
+		bv := cleanVec(out[i])
+		tab.Rows = append(tab.Rows, []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, bv.X, bv.Y, bv.Z, r3.Norm(bv)})
+	}
+	return tab, nil
+}
+
+// cleanVec zeroes components that are noise beside the largest (see
+// runtime.CleanComponents); tables are for reading and plotting.
+func cleanVec(v em.Vec) em.Vec {
+	c := runtime.CleanComponents([3]float64{v.X, v.Y, v.Z})
+	return em.Vec{X: c[0], Y: c[1], Z: c[2]}
+}

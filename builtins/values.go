@@ -1,0 +1,240 @@
+package builtins
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+// Path is a current path value: pieces (segments, arcs, helices) joined end
+// to end, possibly several closed loops (the turns of a coil).
+type Path struct{ P em.Path }
+
+func (p *Path) Kind() string { return "a path" }
+
+func (p *Path) Show(digits int) string {
+	counts := map[em.Kind]int{}
+	circles := 0
+	for _, q := range p.P.Prims {
+		if q.IsCircle() {
+			circles++
+		} else {
+			counts[q.Kind]++
+		}
+	}
+	var parts []string
+	add := func(n int, one, many string) {
+		switch {
+		case n == 1:
+			parts = append(parts, "1 "+one)
+		case n > 1:
+			parts = append(parts, fmt.Sprintf("%d %s", n, many))
+		}
+	}
+	add(counts[em.Segment], "segment", "segments")
+	add(counts[em.Arc], "arc", "arcs")
+	add(circles, "circle", "circles")
+	add(counts[em.Helix], "helix", "helices")
+	loops := p.P.Loops()
+	state := "open"
+	if p.P.Closed() {
+		state = "closed"
+		if len(loops) > 1 {
+			state = fmt.Sprintf("%d closed loops", len(loops))
+		}
+	}
+	return fmt.Sprintf("path: %s, length %s, %s", strings.Join(parts, ", "),
+		runtime.Format(runtime.Quantity{V: p.P.Length(), D: dimLength}, digits), state)
+}
+
+func (p *Path) Summary(digits int) string { return p.Show(digits) }
+
+// Surface is a surface value for flux integrals.
+type Surface struct{ S em.Surface }
+
+func (s *Surface) Kind() string { return "a surface" }
+
+func (s *Surface) Show(digits int) string {
+	return fmt.Sprintf("surface: %s, area %s", s.S.Kind, runtime.Format(runtime.Quantity{V: s.S.Area, D: dimArea}, digits))
+}
+
+func (s *Surface) Summary(digits int) string { return s.Show(digits) }
+
+// sourceTerm is a path with its current: a quantity in A, or a function of
+// time returning one.
+type sourceTerm struct {
+	path    em.Path
+	current runtime.Value
+}
+
+// Source is a set of currents (and uniform fields) whose fields add.
+type Source struct {
+	terms   []sourceTerm
+	uniform []em.Vec // uniform flux densities, T
+}
+
+func (s *Source) Kind() string { return "a source" }
+
+func (s *Source) Show(digits int) string {
+	var parts []string
+	for _, t := range s.terms {
+		cur := runtime.Format(t.current, digits)
+		if f, ok := t.current.(*runtime.Func); ok {
+			cur = f.Signature()
+		}
+		parts = append(parts, fmt.Sprintf("%s in (%s)", cur, strings.TrimPrefix((&Path{t.path}).Show(digits), "path: ")))
+	}
+	for _, b := range s.uniform {
+		parts = append(parts, "uniform field "+runtime.Format(runtime.Vector{V: [3]float64{b.X, b.Y, b.Z}, D: dimTesla}, digits))
+	}
+	return "source: " + strings.Join(parts, "; ")
+}
+
+func (s *Source) Summary(digits int) string { return s.Show(digits) }
+
+// Plus superposes two sources.
+func (s *Source) Plus(other runtime.Value) (runtime.Value, error) {
+	o, ok := other.(*Source)
+	if !ok {
+		return nil, errorf("a source can only be added to another source, not %s", runtime.TypeName(other))
+	}
+	return &Source{
+		terms:   append(append([]sourceTerm{}, s.terms...), o.terms...),
+		uniform: append(append([]em.Vec{}, s.uniform...), o.uniform...),
+	}, nil
+}
+
+// timeDependent reports whether some current is a function of time.
+func (s *Source) timeDependent() bool {
+	for _, t := range s.terms {
+		if _, ok := t.current.(*runtime.Func); ok {
+			return true
+		}
+	}
+	return false
+}
+
+// currentAt evaluates a term's current at time t (seconds); hasT tells
+// whether a time was given.
+func currentAt(env runtime.Env, fn string, cur runtime.Value, t float64, hasT bool) (float64, error) {
+	switch c := cur.(type) {
+	case runtime.Quantity:
+		return c.V, nil
+	case *runtime.Func:
+		if !hasT {
+			return 0, errorf("%s: the source's current %s depends on time; give the time as the last argument", fn, c.Signature())
+		}
+		v, err := c.Invoke(env, []runtime.Value{runtime.Quantity{V: t, D: dimTime}})
+		if err != nil {
+			return 0, err
+		}
+		q, ok := v.(runtime.Quantity)
+		if !ok || q.D != dimCurrent {
+			return 0, errorf("%s: the current function %s must return a current (A), not %s", fn, c.Signature(), runtime.TypeName(v))
+		}
+		return q.V, nil
+	}
+	return 0, errorf("%s: a current must be a quantity in A or a function of time", fn)
+}
+
+// sources evaluates the currents at time t into em sources.
+func (s *Source) sources(env runtime.Env, fn string, t float64, hasT bool) ([]em.Source, error) {
+	out := make([]em.Source, 0, len(s.terms))
+	for _, term := range s.terms {
+		i, err := currentAt(env, fn, term.current, t, hasT)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, em.Source{Path: term.path, I: i})
+	}
+	return out, nil
+}
+
+func (s *Source) uniformB() em.Vec {
+	var b em.Vec
+	for _, u := range s.uniform {
+		b = r3.Add(b, u)
+	}
+	return b
+}
+
+// Table is a table of sampled values, column by column in SI units.
+type Table struct {
+	Title string
+	Cols  []string
+	Dims  []runtime.Dim
+	Rows  [][]float64
+}
+
+func (t *Table) Kind() string { return "a table" }
+
+// columnUnits picks one display unit per column.
+func (t *Table) columnUnits(digits int) ([]string, []float64) {
+	units := make([]string, len(t.Cols))
+	scales := make([]float64, len(t.Cols))
+	for j := range t.Cols {
+		big := 0.0
+		for _, r := range t.Rows {
+			big = math.Max(big, math.Abs(r[j]))
+		}
+		units[j], scales[j] = runtime.BestUnit(t.Dims[j], big, digits)
+	}
+	return units, scales
+}
+
+func (t *Table) Show(digits int) string {
+	units, scales := t.columnUnits(digits)
+	cells := make([][]string, len(t.Rows)+1)
+	cells[0] = make([]string, len(t.Cols))
+	for j, c := range t.Cols {
+		cells[0][j] = c
+		if units[j] != "" {
+			cells[0][j] = c + " [" + units[j] + "]"
+		}
+	}
+	for i, r := range t.Rows {
+		cells[i+1] = make([]string, len(r))
+		for j, x := range r {
+			cells[i+1][j] = runtime.FormatNumber(x/scales[j], digits)
+		}
+	}
+	width := make([]int, len(t.Cols))
+	for _, row := range cells {
+		for j, c := range row {
+			width[j] = max(width[j], len([]rune(c)))
+		}
+	}
+	var b strings.Builder
+	if t.Title != "" {
+		b.WriteString(t.Title + "\n")
+	}
+	for i, row := range cells {
+		for j, c := range row {
+			if j > 0 {
+				b.WriteString("  ")
+			}
+			b.WriteString(strings.Repeat(" ", width[j]-len([]rune(c))) + c)
+		}
+		if i < len(cells)-1 {
+			b.WriteByte('\n')
+		}
+	}
+	return b.String()
+}
+
+func (t *Table) Summary(digits int) string {
+	units, _ := t.columnUnits(digits)
+	cols := make([]string, len(t.Cols))
+	for j, c := range t.Cols {
+		cols[j] = c
+		if units[j] != "" {
+			cols[j] += " [" + units[j] + "]"
+		}
+	}
+	return fmt.Sprintf("table of %d rows: %s", len(t.Rows), strings.Join(cols, ", "))
+}
