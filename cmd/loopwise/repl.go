@@ -215,7 +215,33 @@ func historyPath() string {
 	return filepath.Join(dir, "loopwise", "history")
 }
 
+// progressPrinter reports a long computation on w once it has run for a
+// second, rewriting one line, and clears it when done.
+func progressPrinter(w io.Writer) runtime.ProgressFunc {
+	var start time.Time
+	var label string
+	shown := false
+	return func(l string, done, total int) {
+		if l != label || done <= 0 || start.IsZero() {
+			label, start, shown = l, time.Now(), false
+		}
+		if time.Since(start) < time.Second {
+			return
+		}
+		if done >= total {
+			if shown {
+				fmt.Fprintf(w, "\r%s\r", strings.Repeat(" ", 60))
+			}
+			start = time.Time{}
+			return
+		}
+		shown = true
+		fmt.Fprintf(w, "\r%s: %d of %d points (%d%%)", label, done, total, 100*done/max(total, 1))
+	}
+}
+
 func terminalLoop(c *console) int {
+	c.s.SetProgress(progressPrinter(os.Stderr))
 	ln := liner.NewLiner()
 	defer ln.Close()
 	ln.SetCtrlCAborts(true)
