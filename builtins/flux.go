@@ -139,41 +139,49 @@ var gl8x, gl8w = func() ([8]float64, [8]float64) {
 
 // derivative estimates dI/dt of a current function at t: central
 // differences D(h) = (f(t+h) − f(t−h))/2h with one Richardson step
-// D1(h) = (4 D(h/2) − D(h))/3, for h = 1 s, 0.1 s, … 1 ps; it returns the
-// D1 whose neighbours agree best (the plateau between truncation and
-// rounding error), with that disagreement as its error estimate.
+// D1(h) = (4 D(h/2) − D(h))/3, for h = 1 ps, 10 ps, … 1 s. Going up from
+// the smallest step, it returns the first D1 that agrees with both
+// neighbours to 1e-6 relative: the plateau between rounding error (small h)
+// and truncation error (large h). Starting small matters: a periodic
+// current sampled with a step that is a whole number of periods looks
+// constant, and that false agreement only happens at large steps. If no
+// step agrees that well, the best-agreeing one is used.
 func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, error) {
 	eval := func(x float64) (float64, error) {
 		return currentAt(env, fn, f, x, true)
 	}
 	var d1 []float64
-	for e := 0; e >= -12; e-- {
+	for e := -12; e <= 0; e++ {
 		h := math.Pow10(e)
-		fp, err := eval(t + h)
+		var v [4]float64
+		var err error
+		for k, x := range [4]float64{t + h, t - h, t + h/2, t - h/2} {
+			if v[k], err = eval(x); err != nil {
+				break
+			}
+		}
 		if err != nil {
+			// the function fails far from t (an exponential overflowing,
+			// say): keep the steps gathered so far
+			if len(d1) >= 3 {
+				break
+			}
 			return 0, err
 		}
-		fm, err := eval(t - h)
-		if err != nil {
-			return 0, err
-		}
-		hp, err := eval(t + h/2)
-		if err != nil {
-			return 0, err
-		}
-		hm, err := eval(t - h/2)
-		if err != nil {
-			return 0, err
-		}
-		d := (fp - fm) / (2 * h)
-		dh := (hp - hm) / h
+		d := (v[0] - v[1]) / (2 * h)
+		dh := (v[2] - v[3]) / h
 		d1 = append(d1, (4*dh-d)/3)
 	}
-	best, bestDiff := d1[1], math.Inf(1)
+	const agree = 1e-6
+	best, bestRel := d1[1], math.Inf(1)
 	for i := 1; i+1 < len(d1); i++ {
 		diff := math.Abs(d1[i+1]-d1[i]) + math.Abs(d1[i]-d1[i-1])
-		if diff < bestDiff {
-			best, bestDiff = d1[i], diff
+		if diff <= agree*math.Abs(d1[i]) {
+			best = d1[i]
+			break
+		}
+		if rel := diff / math.Max(math.Abs(d1[i]), 1e-300); rel < bestRel {
+			best, bestRel = d1[i], rel
 		}
 	}
 	if math.IsNaN(best) || math.IsInf(best, 0) {
