@@ -47,11 +47,21 @@ func constants() []runtime.Constant {
 // Standard returns the library every session starts with.
 func Standard() runtime.Library {
 	var fs []*runtime.Func
-	fs = append(fs, mathFuncs()...)
-	fs = append(fs, vectorFuncs()...)
-	fs = append(fs, geometryFuncs()...)
-	fs = append(fs, sourceFuncs()...)
-	fs = append(fs, fluxFuncs()...)
-	fs = append(fs, inductanceFuncs()...)
+	for _, fam := range []struct {
+		name  string
+		funcs []*runtime.Func
+	}{
+		{"math", mathFuncs()},
+		{"vectors", vectorFuncs()},
+		{"geometry", geometryFuncs()},
+		{"fields", sourceFuncs()},
+		{"flux and EMF", fluxFuncs()},
+		{"inductance and force", inductanceFuncs()},
+	} {
+		for _, f := range fam.funcs {
+			f.Help.Family = fam.name
+		}
+		fs = append(fs, fam.funcs...)
+	}
 	return runtime.Library{Funcs: fs, Consts: constants()}
 }

@@ -71,6 +71,7 @@ type Func struct {
 
 // Help documents a builtin for the REPL's help command and the README.
 type Help struct {
+	Family    string // the group it is listed under, e.g. "geometry"
 	Signature string // with units, e.g. "sqrt(x: any unit with even powers) -> unit^(1/2)"
 	Summary   string
 	Method    string // method and accuracy, when numerical

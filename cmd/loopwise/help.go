@@ -109,15 +109,25 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 
 func (c *console) listBuiltins() {
 	lib := c.s.Library()
-	var fs, cs []string
+	var order []string
+	byFamily := map[string][]string{}
 	for _, f := range lib.Funcs {
-		fs = append(fs, f.Name)
+		fam := f.Help.Family
+		if _, seen := byFamily[fam]; !seen {
+			order = append(order, fam)
+		}
+		byFamily[fam] = append(byFamily[fam], f.Name)
 	}
+	var cs []string
 	for _, k := range lib.Consts {
 		cs = append(cs, k.Name)
 	}
-	sort.Strings(fs)
-	fmt.Fprintf(c.out, "\nBuiltins (:help NAME for one): %s\n", strings.Join(fs, " "))
+	fmt.Fprintln(c.out, "\nBuiltins (:help NAME for one):")
+	for _, fam := range order {
+		names := byFamily[fam]
+		sort.Strings(names)
+		fmt.Fprintf(c.out, "  %-21s %s\n", fam+":", strings.Join(names, " "))
+	}
 	fmt.Fprintf(c.out, "Constants: %s\n", strings.Join(cs, " "))
 }
 
