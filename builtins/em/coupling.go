@@ -377,10 +377,13 @@ func MotionalEMF(loop Path, v Vec, bfield func(x Vec) (Vec, error), tol Tol, sca
 // where μ0ℓ/8π is the internal inductance of a round wire of length ℓ
 // (e.g. Grover, Inductance Calculations, 1946) and L_ext is Neumann's
 // double integral with the reduced kernel 1/√(|r − r'|² + a²) (the
-// thin-wire approximation of antenna theory): for one primitive with
-// itself the double integral depends only on the parameter difference and
-// is one adaptive integral; different primitives use the exact kernel
-// through the closed-form vector potential. The method is accurate when
+// thin-wire approximation of antenna theory) wherever the two points may
+// lie on the same stretch of wire: for one primitive with itself (within
+// half a turn; the double integral depends only on the parameter
+// difference and is one adaptive integral) and for pieces that meet at a
+// joint (adaptive 2-D quadrature). Other pairs of pieces, and other turns
+// of a helix, use the exact kernel through the closed-form vector
+// potential. The method is accurate when
 // the wire is thin compared with the path's radius of curvature and the
 // spacing of its turns (error of order (a/R)²). An open path (a coil
 // without its leads) gives its partial self-inductance.
@@ -415,6 +418,16 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 			if j == i {
 				continue
 			}
+			if touching(p, q, path.scale()) {
+				// pieces that meet share the wire's cross-section near the
+				// joint: the reduced kernel there too
+				m, err := reducedPair(p, q, a, tol)
+				if err != nil {
+					return 0, err
+				}
+				lext += m
+				continue
+			}
 			m, err := pairTerm(p, q, tol)
 			if err != nil {
 				return 0, err
@@ -423,6 +436,41 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 		}
 	}
 	return lext + Mu0*path.Length()/(8*math.Pi), nil
+}
+
+// touching reports whether two primitives share an end point.
+func touching(p, q Prim, scale float64) bool {
+	for _, x := range []Vec{p.Start(), p.End()} {
+		for _, y := range []Vec{q.Start(), q.End()} {
+			if near(x, y, scale) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// reducedPair is μ0/4π ∫_q ∫_p dl_p·dl_q/√(|r − r'|² + a²) for two pieces
+// that meet, by adaptive 2-D quadrature (each piece split into quarter
+// turns so the peak at the joint sits at a corner of the domain).
+func reducedPair(p, q Prim, a float64, tol Tol) (float64, error) {
+	bp, bq := primBreaks(p), primBreaks(q)
+	var sum float64
+	for i := 0; i+1 < len(bp); i++ {
+		for j := 0; j+1 < len(bq); j++ {
+			f := func(u, v float64) float64 {
+				d := r3.Sub(p.Point(u), q.Point(v))
+				return r3.Dot(p.Tangent(u), q.Tangent(v)) / math.Sqrt(r3.Dot(d, d)+a*a)
+			}
+			scale := p.Length() * q.Length() / math.Max(p.Length()+q.Length(), 1e-300)
+			v, _, err := Integrate2(f, bp[i], bp[i+1], bq[j], bq[j+1], Tol{Rel: tol.Rel, Abs: tol.Rel * scale * 1e-3})
+			if err != nil && !errors.Is(err, ErrNoConvergence) {
+				return 0, err
+			}
+			sum += v
+		}
+	}
+	return k0 * sum, nil
 }
 
 // pairTerm is μ0/4π ∫_q ∫_p dl_p·dl_q/|r − r'| for two different
@@ -454,14 +502,26 @@ func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
 	// arc or helix: with ψ = φ − φ', dl·dl' = (R² cos ψ + c²) dφ dφ' and
 	// |r − r'|² = 4R² sin²(ψ/2) + c²ψ², c the pitch per radian; the double
 	// integral over [0,Φ]² is 2 ∫0^Φ (Φ − ψ) k(ψ) dψ.
+	// The reduced kernel stands for the wire's own cross-section, so it is
+	// used within half a turn (|ψ| < π); farther along, the points lie on
+	// other turns, whose coupling is the exact filament kernel 1/|r − r'|
+	// (with the reduced kernel, close-wound turns would lose a few tenths
+	// of a percent). At ψ = π the two kernels differ by O(a²/8R²).
 	R, c, phi := p.R, p.Pitch, math.Abs(p.Span)
 	kern := func(psi float64) float64 {
 		s := math.Sin(psi / 2)
-		return 2 * (phi - psi) * (R*R*math.Cos(psi) + c*c) / math.Sqrt(4*R*R*s*s+c*c*psi*psi+a*a)
+		d2 := 4*R*R*s*s + c*c*psi*psi
+		if psi < math.Pi {
+			d2 += a * a
+		}
+		return 2 * (phi - psi) * (R*R*math.Cos(psi) + c*c) / math.Sqrt(d2)
 	}
 	// break at the peak (ψ = 0, width a/R) and at each full turn, where
 	// neighbouring turns come closest
 	pts := []float64{0, math.Min(phi, 4*a/R)}
+	if phi > math.Pi && pts[1] < math.Pi {
+		pts = append(pts, math.Pi) // where the kernel changes
+	}
 	for t := 2 * math.Pi; t < phi; t += 2 * math.Pi {
 		if t > pts[len(pts)-1] {
 			pts = append(pts, t)
