@@ -349,7 +349,7 @@ func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 		if ferr != nil {
 			return Vec{}, ferr
 		}
-		if err != nil && !errors.Is(err, ErrNoConvergence) {
+		if err = acceptLoose(err); err != nil {
 			return Vec{}, err
 		}
 		sum = r3.Add(sum, v)
@@ -482,7 +482,7 @@ const looseRel = 1e-7
 // within looseRel of its value, and reports any other.
 func acceptLoose(err error) error {
 	var qe *QuadError
-	if errors.As(err, &qe) && qe.Estimate <= looseRel*math.Abs(qe.Value) {
+	if errors.As(err, &qe) && qe.Estimate <= looseRel*math.Max(math.Abs(qe.Value), r3.Norm(qe.Vec)) {
 		return nil
 	}
 	if err != nil {

@@ -263,7 +263,7 @@ func numericB(p Prim, x Vec) (Vec, error) {
 	if bad {
 		return Vec{}, ErrOnWire
 	}
-	if err != nil && !errors.Is(err, ErrNoConvergence) {
+	if err = acceptLoose(err); err != nil {
 		return Vec{}, err
 	}
 	return v, nil
@@ -284,7 +284,7 @@ func numericA(p Prim, x Vec) (Vec, error) {
 	if bad {
 		return Vec{}, ErrOnWire
 	}
-	if err != nil && !errors.Is(err, ErrNoConvergence) {
+	if err = acceptLoose(err); err != nil {
 		return Vec{}, err
 	}
 	return v, nil
