@@ -1,0 +1,110 @@
+package builtins_test
+
+import (
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+
+	"loopwise/builtins"
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+// run evaluates setup lines then returns the value of the last line.
+func run(t *testing.T, lines ...string) runtime.Value {
+	t.Helper()
+	s := runtime.NewSession(builtins.Standard())
+	var v runtime.Value
+	for i, l := range lines {
+		res, err := s.Eval(lang.Pos{Line: i + 1, Col: 1}, l)
+		if err != nil {
+			t.Fatalf("%s: %v", l, err)
+		}
+		v = res.Value
+	}
+	return v
+}
+
+func q(t *testing.T, v runtime.Value, unit string) float64 {
+	t.Helper()
+	x, ok := v.(runtime.Quantity)
+	u, err := runtime.ParseUnit(unit)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !ok || x.D != u.Dim {
+		t.Fatalf("got %v, want a quantity in %s", runtime.Format(v, 6), unit)
+	}
+	return x.V / u.Scale()
+}
+
+// TestLanguageInduction checks the induction builtins end to end through
+// the language against published closed forms; the numeric core has its
+// own, tighter tests in builtins/em. Tolerances are those of the methods
+// (relative 1e-10 for flux and mutual inductance) unless stated.
+func TestLanguageInduction(t *testing.T) {
+	// Loop on axis: B = μ0 I a²/(2(a²+z²)^{3/2}) (Griffiths, Introduction to
+	// Electrodynamics, 4th ed., 2017, Ex. 5.6).
+	b := run(t, "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), 3 A), [0,0,30] mm)").(runtime.Vector)
+	want := 1.25663706212e-6 * 3 * 0.04 * 0.04 / (2 * math.Pow(0.04*0.04+0.03*0.03, 1.5))
+	if !scalar.EqualWithinAbsOrRel(b.V[2], want, 0, 1e-13) {
+		t.Errorf("loop on axis: %g T, want %g T", b.V[2], want)
+	}
+
+	// Flux of one loop through a coaxial one = M·I with Maxwell's formula
+	// (Maxwell, Treatise, 1873, §701): the language's flux() and
+	// maxwell_mutual() must agree.
+	phi := q(t, run(t, "flux(source(circle([0,0,0] m, [0,0,1], 40 mm), 3 A), circle([0,0,25] mm, [0,0,1], 30 mm))"), "Wb")
+	m := q(t, run(t, "maxwell_mutual(40 mm, 30 mm, 25 mm)"), "H")
+	if !scalar.EqualWithinAbsOrRel(phi, 3*m, 0, 1e-9) {
+		t.Errorf("flux %g Wb, want M·I = %g Wb", phi, 3*m)
+	}
+
+	// Uniform field through a tilted disk: Φ = B·n πr² (definition of flux).
+	phi = q(t, run(t, "flux(uniform([0, 0, 2] mT), disk([0,0,0] m, [1, 0, 1], 50 mm))"), "Wb")
+	if want := 2e-3 * math.Cos(math.Pi/4) * math.Pi * 0.05 * 0.05; !scalar.EqualWithinAbsOrRel(phi, want, 0, 1e-9) {
+		t.Errorf("uniform flux through tilted disk %g, want %g", phi, want)
+	}
+	// ... and around the disk's rim (∮A·dl with A = ½B×r): the same.
+	phi = q(t, run(t, "flux(uniform([0, 0, 2] mT), circle([0,0,0] m, [1, 0, 1], 50 mm))"), "Wb")
+	if want := 2e-3 * math.Cos(math.Pi/4) * math.Pi * 0.05 * 0.05; !scalar.EqualWithinAbsOrRel(phi, want, 0, 1e-12) {
+		t.Errorf("uniform flux around tilted circle %g, want %g", phi, want)
+	}
+
+	// Sliding bar: EMF = B·L·v (Griffiths 4th ed. §7.1.3, motional EMF),
+	// sign by ∮(v×B)·dl along the bar's direction.
+	e := q(t, run(t, "motional_emf(segment([0,0,0] m, [0,0.25,0] m), [3,0,0] m/s, uniform([0,0,0.4] T))"), "V")
+	if !scalar.EqualWithinAbsOrRel(e, -0.4*0.25*3, 0, 1e-12) {
+		t.Errorf("sliding bar EMF %g V, want %g V", e, -0.3)
+	}
+
+	// EMF of a sinusoidal current at its zero crossing: −M·I0·ω.
+	e = q(t, run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)",
+		"emf(source(circle([0,0,0] m, [0,0,1], 40 mm), I), circle([0,0,25] mm, [0,0,1], 30 mm), 0 s)"), "V")
+	if want := -m * 5 * 2 * math.Pi * 60; !scalar.EqualWithinAbsOrRel(e, want, 0, 1e-7) {
+		t.Errorf("emf %g V, want %g V (tolerance 1e-7: the numerical dI/dt)", e, want)
+	}
+
+	// Loop self-inductance L = μ0R(ln(8R/a) − 7/4) (Grover, Inductance
+	// Calculations, 1946, from memory), neglected terms O((a/R)²): a/R =
+	// 1e-3 gives agreement well inside 1e-5.
+	l := q(t, run(t, "inductance(circle([0,0,0] m, [0,0,1], 100 mm), 0.1 mm)"), "H")
+	if want := 1.25663706212e-6 * 0.1 * (math.Log(8*0.1/1e-4) - 1.75); !scalar.EqualWithinAbsOrRel(l, want, 0, 1e-5) {
+		t.Errorf("loop inductance %g H, want %g H", l, want)
+	}
+
+	// Sources superpose: two opposite currents in the same loop cancel.
+	b = run(t, "loop = circle([0,0,0] m, [0,0,1], 40 mm)", "bfield(source(loop, 3 A) + source(reverse(loop), 3 A), [0, 10, 5] mm)").(runtime.Vector)
+	if math.Abs(b.V[0])+math.Abs(b.V[1])+math.Abs(b.V[2]) > 1e-20 {
+		t.Errorf("opposite currents: B = %v, want 0", b.V)
+	}
+
+	// Time-dependent source: B follows the current (here I(2.5 ms) =
+	// 5 A·sin(π/4·... )), i.e. B(t) = B(1 A)·I(t).
+	b1 := run(t, "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A), [0,0,0] m)").(runtime.Vector)
+	bt := run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)", "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), I), [0,0,0] m, 1 ms)").(runtime.Vector)
+	if want := b1.V[2] * 5 * math.Sin(2*math.Pi*60*1e-3); !scalar.EqualWithinAbsOrRel(bt.V[2], want, 0, 1e-13) {
+		t.Errorf("B(t) = %g, want %g", bt.V[2], want)
+	}
+}
