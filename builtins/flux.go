@@ -74,7 +74,7 @@ func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float
 	switch x := target.(type) {
 	case *Path:
 		if !x.P.Closed() {
-			return 0, errorf("%s: the loop is not closed (its end is not its start); flux needs a closed loop or a surface", fn)
+			return 0, errorf("%s: the loop is not closed (its end is not its start); flux needs a closed loop or a surface (for a coil, model it with rings(), or join the helix to its leads)", fn)
 		}
 		phi, err := em.FluxThroughLoop(srcs, x.P, em.DefaultTol)
 		if err != nil {
@@ -201,7 +201,7 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		return nil, err
 	}
 	if !loop.Closed() {
-		return nil, errorf("%s: the loop is not closed (its end is not its start); for an open wire moving in a field use motional_emf", fn)
+		return nil, errorf("%s: the loop is not closed (its end is not its start); for a coil model it with rings() or join the helix to its leads; for an open wire moving in a field use motional_emf", fn)
 	}
 	t, err := ofDim(fn, args, 2, dimTime)
 	if err != nil {
