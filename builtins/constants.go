@@ -44,6 +44,36 @@ func constants() []runtime.Constant {
 	}
 }
 
+// guardFinite makes a builtin refuse to return an infinite or NaN number:
+// extreme sizes overflow double precision, and the user should hear so
+// rather than see "+Inf".
+func guardFinite(f *runtime.Func) {
+	check := func(v runtime.Value, err error) (runtime.Value, error) {
+		if err != nil {
+			return v, err
+		}
+		ok := true
+		switch x := v.(type) {
+		case runtime.Quantity:
+			ok = !math.IsNaN(x.V) && !math.IsInf(x.V, 0)
+		case runtime.Vector:
+			for _, c := range x.V {
+				ok = ok && !math.IsNaN(c) && !math.IsInf(c, 0)
+			}
+		}
+		if !ok {
+			return nil, errorf("%s: the result is not a finite number; the sizes or values are beyond what double precision can hold", f.Name)
+		}
+		return v, nil
+	}
+	if call := f.Call; call != nil {
+		f.Call = func(args []runtime.Value) (runtime.Value, error) { return check(call(args)) }
+	}
+	if call := f.CallEnv; call != nil {
+		f.CallEnv = func(env runtime.Env, args []runtime.Value) (runtime.Value, error) { return check(call(env, args)) }
+	}
+}
+
 // Standard returns the library every session starts with.
 func Standard() runtime.Library {
 	var fs []*runtime.Func
@@ -60,6 +90,7 @@ func Standard() runtime.Library {
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name
+			guardFinite(f)
 		}
 		fs = append(fs, fam.funcs...)
 	}

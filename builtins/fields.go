@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"errors"
+	"math"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -14,7 +15,10 @@ const refFields = "Biot–Savart law; closed forms for segments (Hanson & Hirshm
 // fieldErr turns numeric-core errors into user messages.
 func fieldErr(fn string, err error) error {
 	var pe *em.PointError
+	var qe *em.QuadError
 	switch {
+	case errors.As(err, &qe):
+		return errorf("%s: the numerical integral stopped short of its accuracy target (error estimate %.2g, target %.2g) after %d evaluations; the geometry may be extreme (very thin wire, very many turns, pieces nearly touching)", fn, qe.Estimate, qe.Target, qe.Evals)
 	case errors.As(err, &pe) && errors.Is(err, em.ErrOnWire):
 		return errorf("%s: point %d lies on a wire, where a thin wire's field is infinite; move it off the wire (give the wire a radius with inductance() for energy questions)", fn, pe.Index+1)
 	case errors.Is(err, em.ErrOnWire):
@@ -123,12 +127,12 @@ func fieldsOf(env runtime.Env, fn string, which em.Which, src *Source, pts []em.
 	if err != nil {
 		return nil, err
 	}
-	prims := 0
+	work := 0.0
 	for _, s := range srcs {
-		prims += len(s.Path.Prims)
+		work += pathWeight(s.Path)
 	}
-	if float64(prims)*float64(len(pts)) > maxWork {
-		return nil, errorf("%s: %d points × %d pieces is more work than the limit of %g field evaluations; sample fewer points or simplify the path", fn, len(pts), prims, float64(maxWork))
+	if work*float64(len(pts)) > maxWork {
+		return nil, errorf("%s: %d points on this source is more work than the limit (%g elementary field evaluations); sample fewer points or simplify the path", fn, len(pts), float64(maxWork))
 	}
 	out := make([]em.Vec, len(pts))
 	var progress func(int)
@@ -272,6 +276,25 @@ func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		tab.Rows = append(tab.Rows, []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, bv.X, bv.Y, bv.Z, r3.Norm(bv)})
 	}
 	return tab, nil
+}
+
+// pathWeight estimates the cost of a path's field at one point, in units of
+// one straight segment: an arc's elliptic integrals cost a few, a helix is
+// integrated numerically over each quarter turn (15 or more evaluations
+// each).
+func pathWeight(p em.Path) float64 {
+	w := 0.0
+	for _, q := range p.Prims {
+		switch q.Kind {
+		case em.Segment:
+			w++
+		case em.Arc:
+			w += 4
+		default:
+			w += 60 * math.Abs(q.Span) / (2 * math.Pi)
+		}
+	}
+	return w
 }
 
 // cleanVec zeroes components that are noise beside the largest (see

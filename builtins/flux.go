@@ -78,7 +78,7 @@ func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float
 		}
 		phi, err := em.FluxThroughLoop(srcs, x.P, em.DefaultTol)
 		if err != nil {
-			return 0, fieldErr(fn, err)
+			return 0, touchErr(fn, err)
 		}
 		if ub != (em.Vec{}) {
 			// A of a uniform field is ½ B × r; its circulation is B·(½∮r × dl)
@@ -100,6 +100,14 @@ func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float
 		return phi, nil
 	}
 	return 0, errorf("%s: the target must be a closed path or a surface, not %s", fn, runtime.TypeName(target))
+}
+
+// touchErr explains a loop that runs along a source wire.
+func touchErr(fn string, err error) error {
+	if errors.Is(err, em.ErrOnWire) {
+		return errorf("%s: the loop touches a wire of the source; the flux of a thin wire through a loop on it is infinite (for a coil's own flux use inductance() with a wire radius)", fn)
+	}
+	return fieldErr(fn, err)
 }
 
 // areaVector returns ½∮ r × dl of a closed path (its vector area), by
@@ -172,20 +180,22 @@ func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64
 		dh := (v[2] - v[3]) / h
 		d1 = append(d1, (4*dh-d)/3)
 	}
-	const agree = 1e-6
+	// agree is the plateau test; roughAgree the worst agreement accepted
+	// at all (a smooth function always does far better).
+	const agree, roughAgree = 1e-6, 1e-3
 	best, bestRel := d1[1], math.Inf(1)
 	for i := 1; i+1 < len(d1); i++ {
 		diff := math.Abs(d1[i+1]-d1[i]) + math.Abs(d1[i]-d1[i-1])
 		if diff <= agree*math.Abs(d1[i]) {
-			best = d1[i]
+			best, bestRel = d1[i], 0
 			break
 		}
 		if rel := diff / math.Max(math.Abs(d1[i]), 1e-300); rel < bestRel {
 			best, bestRel = d1[i], rel
 		}
 	}
-	if math.IsNaN(best) || math.IsInf(best, 0) {
-		return 0, errorf("%s: the current function %s has no finite derivative at t = %g s", fn, f.Signature(), t)
+	if math.IsNaN(best) || math.IsInf(best, 0) || bestRel > roughAgree {
+		return 0, errorf("%s: the current function %s has no reliable derivative at t = %g s (a jump or a kink there?); take t a little before or after", fn, f.Signature(), t)
 	}
 	return best, nil
 }
@@ -222,7 +232,7 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		}
 		phi1, err := em.FluxThroughLoop([]em.Source{{Path: term.path, I: 1}}, loop, em.DefaultTol)
 		if err != nil {
-			return nil, fieldErr(fn, err)
+			return nil, touchErr(fn, err)
 		}
 		e -= phi1 * didt
 	}

@@ -108,11 +108,11 @@ func inductanceFuncs() []*runtime.Func {
 			}
 			l1, err := em.SelfInductance(p1, a1, em.DefaultTol)
 			if err != nil {
-				return nil, fieldErr("coupling", err)
+				return nil, fieldErr("coupling (path 1)", err)
 			}
 			l2, err := em.SelfInductance(p2, a2, em.DefaultTol)
 			if err != nil {
-				return nil, fieldErr("coupling", err)
+				return nil, fieldErr("coupling (path 2)", err)
 			}
 			return runtime.Num(m / math.Sqrt(l1*l2)), nil
 		}),
@@ -143,6 +143,9 @@ func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	t, hasT, err := timeArg(fn, args, 3)
 	if err != nil {
 		return nil, err
+	}
+	if f, ok := args[2].(*runtime.Func); ok && !hasT {
+		return nil, errorf("%s: the path's current %s depends on time; give the time as the last argument", fn, f.Signature())
 	}
 	i2, err := currentAt(env, fn, args[2], t, hasT)
 	if err != nil {

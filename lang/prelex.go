@@ -44,6 +44,10 @@ func (w *Rewritten) Orig(i int) int {
 	return w.orig[i]
 }
 
+// badChars are characters the expression engine would give a meaning
+// Loopwise does not have (variables like $env, predicates #).
+const badChars = "$#@;~\\"
+
 // PlaceholderPrefix starts every identifier the pre-lexer invents; users may
 // not write names that start with "__".
 const PlaceholderPrefix = "__L"
@@ -74,6 +78,9 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 	}
 	newLit := func(num, unit string, off, uoff int) string {
 		ph := fmt.Sprintf("%s%d", PlaceholderPrefix, len(w.Lits))
+		if n := len(out); n > 0 && isIdentPart(out[n-1]) {
+			ph = " " + ph // never glue the placeholder to a name
+		}
 		w.Lits = append(w.Lits, Literal{Placeholder: ph, Number: num, Unit: unit, Off: off, UnitOff: uoff})
 		return ph
 	}
@@ -128,7 +135,9 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			copyRange(i, j)
 			i = j
-		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || r[i-1] != '.')):
+		case strings.ContainsRune(badChars, c):
+			return nil, errAt(i, 1, "unexpected character %q", c)
+		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
 			j := scanNumber(r, i)
 			num := strings.ReplaceAll(string(r[i:j]), "_", "")
 			us, ue, err := unitAfter(j)

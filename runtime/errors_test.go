@@ -300,7 +300,7 @@ var errorCases = []errorCase{
 		msg:   `this syntax is not part of the Loopwise language`,
 		caret: "^"},
 	{name: "predicate", in: "map([1,2,3], # * 2)", col: 14,
-		msg:   `this syntax is not part of the Loopwise language`,
+		msg:   `unexpected character '#'`,
 		caret: "             ^"},
 	{name: "in operator", in: "1 in [1, 2, 3]", col: 3,
 		msg:   `the operator "in" is not part of the Loopwise language`,

@@ -41,7 +41,7 @@ func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64)
 			if ferr != nil {
 				return 0, ferr
 			}
-			if err != nil {
+			if err = acceptLoose(err); err != nil {
 				return 0, err
 			}
 			sum += v
@@ -232,10 +232,22 @@ func FluxUniform(b Vec, surf Surface, tol Tol) (float64, error) {
 // m = k²; for m < 0.5 it is summed as Σ cₙ² n/(n+1) (π/2) mⁿ, cₙ =
 // (2n)!/(4ⁿ n!²), which keeps full precision for circles far apart.
 func MaxwellMutual(a, b, d float64) float64 {
-	m := 4 * a * b / ((a+b)*(a+b) + d*d)
+	den := (a+b)*(a+b) + d*d
+	m := 4 * a * b / den
+	mc := ((a-b)*(a-b) + d*d) / den // 1 − m without cancellation
 	k := math.Sqrt(m)
 	var f float64
-	if m < 0.5 {
+	if mc < 1e-8 {
+		// circles almost touching: K and E from their expansions in
+		// k'² = mc (Abramowitz & Stegun, Handbook of Mathematical Functions,
+		// 1964, 17.3.26 and 17.3.36, leading terms; the next terms are
+		// O(mc² ln mc), below 1e-15 here), since gonum's K(m) and E(m)
+		// would see only 1 − m rounded
+		l := math.Log(4 / math.Sqrt(mc))
+		kk := l + mc/4*(l-1)
+		ee := 1 + mc/2*(l-0.5)
+		f = 2*(kk-ee)/m - kk
+	} else if m < 0.5 {
 		cn, mn := 1.0, 1.0
 		for n := 1; n < 200; n++ {
 			cn *= float64(2*n-1) / float64(2*n)
@@ -302,6 +314,9 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 		handled := false
 		if !opt.NoFastPath && len(p1.Prims) == 1 {
 			if a, b, d, ok := coaxialCircles(p1.Prims[0], q); ok {
+				if d == 0 && a == math.Abs(b) {
+					return 0, errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
+				}
 				sum += math.Copysign(MaxwellMutual(a, math.Abs(b), d), b)
 				handled = true
 			}
@@ -485,10 +500,7 @@ func acceptLoose(err error) error {
 	if errors.As(err, &qe) && qe.Estimate <= looseRel*math.Max(math.Abs(qe.Value), r3.Norm(qe.Vec)) {
 		return nil
 	}
-	if err != nil {
-		return fmt.Errorf("the integral did not converge: %w", err)
-	}
-	return nil
+	return err
 }
 
 // pairTerm is μ0/4π ∫_q ∫_p dl_p·dl_q/|r − r'| for two different
@@ -551,7 +563,7 @@ func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
 	var sum float64
 	for i := 0; i+1 < len(pts); i++ {
 		v, _, err := Integrate(kern, pts[i], pts[i+1], Tol{Rel: tol.Rel, Abs: tol.Rel * R * 1e-3})
-		if err != nil {
+		if err = acceptLoose(err); err != nil {
 			return 0, err
 		}
 		sum += v

@@ -133,8 +133,9 @@ func (p Path) Closed() bool {
 func (p Path) Loops() [][2]int {
 	var out [][2]int
 	start := 0
+	scale := p.scale()
 	for i := 1; i <= len(p.Prims); i++ {
-		if i == len(p.Prims) || !near(p.Prims[i-1].End(), p.Prims[i].Start(), p.scale()) {
+		if i == len(p.Prims) || !near(p.Prims[i-1].End(), p.Prims[i].Start(), scale) {
 			out = append(out, [2]int{start, i})
 			start = i
 		}
@@ -145,8 +146,9 @@ func (p Path) Loops() [][2]int {
 // openGap returns the number of runs that do not close on themselves.
 func (p Path) openGap() int {
 	n := 0
+	scale := p.scale()
 	for _, r := range p.Loops() {
-		if !near(p.Prims[r[1]-1].End(), p.Prims[r[0]].Start(), p.scale()) {
+		if !near(p.Prims[r[1]-1].End(), p.Prims[r[0]].Start(), scale) {
 			n++
 		}
 	}
