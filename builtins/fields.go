@@ -3,6 +3,7 @@ package builtins
 import (
 	"errors"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -26,7 +27,7 @@ func fieldErr(fn string, err error) error {
 	case errors.Is(err, em.ErrOpenPath):
 		return errorf("%s: %v", fn, err)
 	}
-	return errorf("%s: %v", fn, err)
+	return errorf("%s: %s", fn, strings.TrimPrefix(err.Error(), "em: "))
 }
 
 func sourceFuncs() []*runtime.Func {

@@ -87,6 +87,9 @@ func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float
 		return phi, nil
 	case *Surface:
 		phi, err := em.FluxThroughSurface(srcs, x.S, em.DefaultTol)
+		if errors.Is(err, em.ErrOnWire) {
+			return 0, errorf("%s: a wire of the source touches or lies in the surface, where a thin wire's field is infinite; move the surface off the wire", fn)
+		}
 		if err != nil {
 			return 0, fieldErr(fn, err)
 		}

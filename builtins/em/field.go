@@ -47,7 +47,7 @@ func SegmentB(a, b, x Vec) (Vec, error) {
 		}
 		return Vec{}, nil // on the line beyond the ends: B = 0
 	}
-	return r3.Scale(k0*(n1+n2)/(nn*s), c), nil
+	return finiteOrOnWire(r3.Scale(k0*(n1+n2)/(nn*s), c))
 }
 
 // sumTerm returns |r1||r2| + r1·r2 without cancellation: when the dot
@@ -85,7 +85,7 @@ func SegmentA(a, b, x Vec) (Vec, error) {
 	if small <= 0 || (small < onWireRel*l && onSegment(a, b, x, l)) {
 		return Vec{}, ErrOnWire
 	}
-	return r3.Scale(k0*math.Log((sum+l)/small)/l, d), nil
+	return finiteOrOnWire(r3.Scale(k0*math.Log((sum+l)/small)/l, d))
 }
 
 // arcLocal holds a field point in the frame of an arc's circle.
@@ -94,6 +94,7 @@ type arcLocal struct {
 	ex, ey   Vec     // radial and azimuthal unit vectors at the point
 	phi1     float64 // arc start angle relative to the point's azimuth, in (-π, π]
 	p2, m    float64 // P² = (a+ρ)² + z² and m = 4aρ/P²
+	mc       float64 // 1 − m = ((a−ρ)² + z²)/P², computed without cancellation
 	distWire float64 // distance from the circle
 }
 
@@ -116,6 +117,7 @@ func localArc(p Prim, x Vec) arcLocal {
 	a := p.R
 	l.p2 = (a+rho)*(a+rho) + z*z
 	l.m = 4 * a * rho / l.p2
+	l.mc = ((a-rho)*(a-rho) + z*z) / l.p2
 	l.distWire = math.Hypot(rho-a, z)
 	return l
 }
@@ -127,7 +129,17 @@ type ellipticSet struct{ F, D, H, G float64 }
 // completes holds K(m) and D(m) = ∫0^{π/2} sin²/Δ.
 type completes struct{ K, D float64 }
 
-func completeOf(m float64) completes {
+// completeOf returns K(m) and D(m) = (K − E)/m. Near m = 1 (points close
+// to the circle) it uses the expansions in mc = 1 − m (Abramowitz &
+// Stegun, Handbook of Mathematical Functions, 1964, 17.3.26 and 17.3.36),
+// since gonum's functions see only the rounded 1 − m.
+func completeOf(m, mc float64) completes {
+	if mc < 1e-8 {
+		l := math.Log(4 / math.Sqrt(mc))
+		k := l + mc/4*(l-1)
+		e := 1 + mc/2*(l-0.5)
+		return completes{k, (k - e) / m}
+	}
 	return completes{mathext.CompleteK(m), mathext.CompleteD(m)}
 }
 
@@ -163,17 +175,17 @@ func arcIntegrals(p Prim, l arcLocal) (i3, c3, s3, c1, s1 float64) {
 	a := p.R
 	P := math.Sqrt(l.p2)
 	if p.IsCircle() {
-		cm := completeOf(l.m)
+		cm := completeOf(l.m, l.mc)
 		fF := 2 * cm.K
 		fD := 2 * cm.D
-		fH := (fF - fD) / (1 - l.m)
+		fH := (fF - fD) / l.mc
 		fG := fF + l.m*fH
 		i3 = 2 / (P * P * P) * fG
 		c3 = 2 / (P * P * P) * (2*fH - fG)
 		c1 = 2 / P * (2*fD - fF)
 		return i3, c3, 0, c1, 0
 	}
-	cm := completeOf(l.m)
+	cm := completeOf(l.m, l.mc)
 	phi1 := l.phi1
 	phi2 := phi1 + p.Span
 	th1 := (math.Pi - phi1) / 2
@@ -217,7 +229,7 @@ func ArcB(p Prim, x Vec) (Vec, error) {
 	if nearArc(p, l) {
 		return Vec{}, ErrOnWire
 	}
-	if !p.IsCircle() && 1-l.m < closeToCircle {
+	if !p.IsCircle() && l.mc < closeToCircle {
 		return numericB(p, x)
 	}
 	i3, c3, s3, _, _ := arcIntegrals(p, l)
@@ -225,7 +237,18 @@ func ArcB(p Prim, x Vec) (Vec, error) {
 	br := f * l.z * c3
 	bphi := f * l.z * s3
 	bz := f * (p.R*i3 - l.rho*c3)
-	return r3.Add(r3.Add(r3.Scale(br, l.ex), r3.Scale(bphi, l.ey)), r3.Scale(bz, p.N)), nil
+	return finiteOrOnWire(r3.Add(r3.Add(r3.Scale(br, l.ex), r3.Scale(bphi, l.ey)), r3.Scale(bz, p.N)))
+}
+
+// finiteOrOnWire passes a finite field; a point so close to a filament that
+// the closed form overflows counts as on the wire.
+func finiteOrOnWire(v Vec) (Vec, error) {
+	for _, c := range []float64{v.X, v.Y, v.Z} {
+		if math.IsNaN(c) || math.IsInf(c, 0) {
+			return Vec{}, ErrOnWire
+		}
+	}
+	return v, nil
 }
 
 // ArcA returns the vector potential at x of an arc (or circle) carrying
@@ -235,12 +258,12 @@ func ArcA(p Prim, x Vec) (Vec, error) {
 	if nearArc(p, l) {
 		return Vec{}, ErrOnWire
 	}
-	if !p.IsCircle() && 1-l.m < closeToCircle {
+	if !p.IsCircle() && l.mc < closeToCircle {
 		return numericA(p, x)
 	}
 	_, _, _, c1, s1 := arcIntegrals(p, l)
 	f := k0 * p.R
-	return r3.Add(r3.Scale(-f*s1, l.ex), r3.Scale(f*c1, l.ey)), nil
+	return finiteOrOnWire(r3.Add(r3.Scale(-f*s1, l.ex), r3.Scale(f*c1, l.ey)))
 }
 
 // fieldTol is the accuracy asked of numerical field integrals: relative

@@ -95,6 +95,9 @@ func (c *compiledSources) at(which Which, x Vec) (Vec, error) {
 				continue
 			}
 			f := c.segI[i] * k0 * (n1 + n2) / (nn * s)
+			if math.IsInf(f, 0) || math.IsNaN(f) {
+				return Vec{}, ErrOnWire
+			}
 			sx += f * cx
 			sy += f * cy
 			sz += f * cz
