@@ -272,6 +272,22 @@ var fieldTol = Tol{Rel: 1e-12, Abs: 1e-30}
 
 // numericB integrates Biot–Savart along the exact primitive.
 func numericB(p Prim, x Vec) (Vec, error) {
+	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
+		return r3.Scale(k0/(n*n*n), r3.Cross(p.Tangent(t), r))
+	})
+}
+
+// numericA integrates μ0/4π ∫ dl/|x − r'| along the exact primitive.
+func numericA(p Prim, x Vec) (Vec, error) {
+	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
+		return r3.Scale(k0/n, p.Tangent(t))
+	})
+}
+
+// numericAlong integrates kernel(x − r(t), |x − r(t)|, t) over the
+// primitive by adaptive quadrature per quarter turn; a sample on the wire
+// itself means the point is on the wire.
+func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec) (Vec, error) {
 	var bad bool
 	f := func(t float64) Vec {
 		r := r3.Sub(x, p.Point(t))
@@ -280,28 +296,7 @@ func numericB(p Prim, x Vec) (Vec, error) {
 			bad = true
 			return Vec{}
 		}
-		return r3.Scale(k0/(n*n*n), r3.Cross(p.Tangent(t), r))
-	}
-	v, _, err := IntegrateVecBreaks(f, primBreaks(p), fieldTol)
-	if bad {
-		return Vec{}, ErrOnWire
-	}
-	if err = acceptLoose(err); err != nil {
-		return Vec{}, err
-	}
-	return v, nil
-}
-
-// numericA integrates μ0/4π ∫ dl/|x − r'| along the exact primitive.
-func numericA(p Prim, x Vec) (Vec, error) {
-	var bad bool
-	f := func(t float64) Vec {
-		n := r3.Norm(r3.Sub(x, p.Point(t)))
-		if n == 0 {
-			bad = true
-			return Vec{}
-		}
-		return r3.Scale(k0/n, p.Tangent(t))
+		return kernel(r, n, t)
 	}
 	v, _, err := IntegrateVecBreaks(f, primBreaks(p), fieldTol)
 	if bad {
