@@ -87,6 +87,8 @@ func Standard() runtime.Library {
 		{"fields", sourceFuncs()},
 		{"flux and EMF", fluxFuncs()},
 		{"inductance and force", inductanceFuncs()},
+		{"field calculus", calculusFuncs()},
+		{"solving", solveFuncs()},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name

@@ -50,6 +50,41 @@ func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64)
 	return sum, nil
 }
 
+// LineIntegral integrates f(x)·dl along a path (open or closed) by
+// adaptive Gauss–Kronrod quadrature per piece (arcs and helices per quarter
+// turn). scale is the expected size of the result, used for an absolute
+// floor of the tolerance so that a zero integral terminates.
+func LineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
+	return lineIntegral(path, f, tol, scale)
+}
+
+// SurfaceIntegral integrates f(x)·dA over a surface by adaptive 2-D
+// quadrature; scale is the expected size of the result.
+func SurfaceIntegral(surf Surface, f func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
+	var ferr error
+	g := func(u, v float64) float64 {
+		if ferr != nil {
+			return 0
+		}
+		b, err := f(surf.Point(u, v))
+		if err != nil {
+			ferr = err
+			return 0
+		}
+		return r3.Dot(b, surf.Normal(u, v))
+	}
+	t := tol
+	t.Abs = math.Max(tol.Abs, tol.Rel*scale*1e-3)
+	v, _, err := Integrate2(g, 0, 1, 0, 1, t)
+	if ferr != nil {
+		return 0, ferr
+	}
+	if err = acceptLoose(err); err != nil {
+		return 0, err
+	}
+	return v, nil
+}
+
 // FluxThroughLoop returns the flux of the sources through a closed path,
 // as the circulation of the vector potential: Φ = ∮ A·dl (Stokes). The
 // loop must be closed.

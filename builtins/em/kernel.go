@@ -193,3 +193,18 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 func FieldAt(which Which, srcs []Source, x Vec) (Vec, error) {
 	return compile(srcs).at(which, x)
 }
+
+// Evaluator computes one field of fixed sources at points, with the
+// sources flattened once.
+type Evaluator struct {
+	which Which
+	c     *compiledSources
+}
+
+// NewEvaluator prepares sources for repeated single-point evaluation.
+func NewEvaluator(which Which, srcs []Source) *Evaluator {
+	return &Evaluator{which: which, c: compile(srcs)}
+}
+
+// At returns the field at x.
+func (e *Evaluator) At(x Vec) (Vec, error) { return e.c.at(e.which, x) }

@@ -1,0 +1,526 @@
+package builtins
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+const refCalculus = "vector calculus: line and surface integrals by adaptive Gauss–Kronrod; derivatives by Richardson-extrapolated central differences"
+
+// Field is a vector field value: a function of position, and maybe of time.
+type Field struct {
+	desc    string
+	dim     runtime.Dim // zero and user == true: found on first evaluation
+	user    bool
+	timeDep bool
+	// prepare returns an evaluator for time t (hasT says whether t was
+	// given).
+	prepare func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error)
+}
+
+func (f *Field) Kind() string { return "a vector field" }
+
+func (f *Field) Show(digits int) string {
+	if f.user {
+		return "field: " + f.desc
+	}
+	return fmt.Sprintf("field: %s, in %s", f.desc, runtime.DisplayUnitOf(f.dim))
+}
+
+func (f *Field) Summary(digits int) string { return f.Show(digits) }
+
+// userField wraps a function of position (and optionally time) returning a
+// vector.
+func userField(fn string, uf *runtime.Func) (*Field, error) {
+	if uf.MinArgs > 2 || (uf.MaxArgs >= 0 && uf.MaxArgs < 1) {
+		return nil, errorf("%s: a field function takes a position (and optionally a time); %s does not", fn, uf.Signature())
+	}
+	withT := uf.MaxArgs < 0 || uf.MaxArgs >= 2
+	if uf.MinArgs == 1 && uf.MaxArgs == 1 {
+		withT = false
+	}
+	f := &Field{desc: uf.Signature(), user: true, timeDep: withT}
+	f.prepare = func(env runtime.Env, name string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
+		if withT && !hasT {
+			return nil, errorf("%s: the field %s depends on time; give the time as the last argument", name, uf.Signature())
+		}
+		var dim runtime.Dim
+		seen := false
+		return func(x em.Vec) (em.Vec, error) {
+			args := []runtime.Value{fromVec(x, dimLength)}
+			if withT {
+				args = append(args, runtime.Quantity{V: t, D: dimTime})
+			}
+			v, err := uf.Invoke(env, args)
+			if err != nil {
+				return em.Vec{}, err
+			}
+			vv, ok := v.(runtime.Vector)
+			if !ok {
+				return em.Vec{}, errorf("%s: the field function %s must return a vector, not %s", name, uf.Signature(), runtime.TypeName(v))
+			}
+			if !seen {
+				dim, seen = vv.D, true
+				f.dim = dim
+			} else if vv.D != dim {
+				return em.Vec{}, errorf("%s: the field function %s returned %s at one point and %s at another", name, uf.Signature(), dim.Describe(), vv.D.Describe())
+			}
+			return toVec(vv), nil
+		}, nil
+	}
+	return f, nil
+}
+
+// fieldArg reads argument i as a vector field: a field value or a function
+// of position.
+func fieldArg(fn string, args []runtime.Value, i int) (*Field, error) {
+	switch f := args[i].(type) {
+	case *Field:
+		return f, nil
+	case *runtime.Func:
+		return userField(fn, f)
+	case *Source:
+		return nil, errorf("%s: the %s argument must be a vector field; make one from the source with field_b(...), field_a(...) or field_e(...)", fn, ordinal(i))
+	}
+	return nil, errorf("%s: the %s argument must be a vector field or a function of position, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
+}
+
+// sourceField makes B or A of a source as a field.
+func sourceField(which em.Which, src *Source) *Field {
+	d, name := dimTesla, "B"
+	if which == em.FieldA {
+		d, name = dimVpot, "A"
+	}
+	return &Field{
+		desc:    name + " of " + src.Show(6),
+		dim:     d,
+		timeDep: src.timeDependent(),
+		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
+			srcs, err := src.sources(env, fn, t, hasT)
+			if err != nil {
+				return nil, err
+			}
+			ev := em.NewEvaluator(which, srcs)
+			ub := src.uniformB()
+			return func(x em.Vec) (em.Vec, error) {
+				v, err := ev.At(x)
+				if err != nil {
+					return em.Vec{}, err
+				}
+				if which == em.FieldB {
+					return r3.Add(v, ub), nil
+				}
+				return r3.Add(v, r3.Scale(0.5, r3.Cross(ub, x))), nil
+			}, nil
+		},
+	}
+}
+
+// inducedField makes E = −∂A/∂t = −Σ Aₖ(per ampere)·dIₖ/dt of a source.
+func inducedField(src *Source) *Field {
+	return &Field{
+		desc:    "E of " + src.Show(6),
+		dim:     mustDim("V/m"),
+		timeDep: src.timeDependent(),
+		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
+			var rates []em.Source
+			for _, term := range src.terms {
+				f, ok := term.current.(*runtime.Func)
+				if !ok {
+					continue
+				}
+				if !hasT {
+					return nil, errorf("%s: the source's current %s depends on time; give the time as the last argument", fn, f.Signature())
+				}
+				didt, err := derivative(env, fn, f, t)
+				if err != nil {
+					return nil, err
+				}
+				rates = append(rates, em.Source{Path: term.path, I: -didt})
+			}
+			ev := em.NewEvaluator(em.FieldA, rates)
+			return ev.At, nil
+		},
+	}
+}
+
+// scaleOf samples a field along points to find the size of its values.
+func scaleOf(eval func(em.Vec) (em.Vec, error), pts []em.Vec) float64 {
+	s := 0.0
+	for _, p := range pts {
+		if v, err := eval(p); err == nil {
+			s = math.Max(s, r3.Norm(v))
+		}
+	}
+	return s
+}
+
+// pathSamples returns a few points along a path.
+func pathSamples(p em.Path) []em.Vec {
+	var pts []em.Vec
+	for _, q := range p.Prims {
+		for _, t := range []float64{0.1, 0.5, 0.9} {
+			pts = append(pts, q.Point(t))
+		}
+		if len(pts) > 60 {
+			break
+		}
+	}
+	return pts
+}
+
+// lineIntegralOf integrates a field along a path at time t.
+func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, hasT bool) (runtime.Quantity, error) {
+	eval, err := f.prepare(env, fn, t, hasT)
+	if err != nil {
+		return runtime.Quantity{}, err
+	}
+	pts := pathSamples(p)
+	if _, err := eval(pts[0]); err != nil {
+		return runtime.Quantity{}, fieldErr(fn, err)
+	}
+	scale := scaleOf(eval, pts) * math.Max(p.Length(), p.Size())
+	v, err := em.LineIntegral(p, eval, em.DefaultTol, scale)
+	if err != nil {
+		return runtime.Quantity{}, fieldErr(fn, err)
+	}
+	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, nil
+}
+
+// plateauDerivative estimates dg/ds at s: central differences with one
+// Richardson step, D1(h) = (4·D(h/2) − D(h))/3, over steps base·10^e for e
+// from lowest to 0. In time (firstAgree) it takes the first step, going up
+// from the smallest, whose estimate agrees with both neighbours to 1e-6
+// relative, so that a periodic signal sampled at whole periods cannot
+// fool it; in space it takes the step whose estimate agrees best with its
+// neighbours (the balance of truncation and the field's own rounding). It
+// works on three components at once, judging agreement on their norm, and
+// returns the relative disagreement as its error estimate.
+func plateauDerivative(g func(s float64) (em.Vec, error), s, base float64, lowest int, firstAgree bool) (em.Vec, float64, error) {
+	var ests []em.Vec
+	for e := lowest; e <= 0; e++ {
+		h := base * math.Pow10(e)
+		var v [4]em.Vec
+		var err error
+		for k, x := range [4]float64{s + h, s - h, s + h/2, s - h/2} {
+			if v[k], err = g(x); err != nil {
+				break
+			}
+		}
+		if err != nil {
+			if len(ests) >= 3 {
+				break
+			}
+			return em.Vec{}, 0, err
+		}
+		d := r3.Scale(1/(2*h), r3.Sub(v[0], v[1]))
+		dh := r3.Scale(1/h, r3.Sub(v[2], v[3]))
+		ests = append(ests, r3.Scale(1.0/3, r3.Sub(r3.Scale(4, dh), d)))
+	}
+	if len(ests) < 3 {
+		return em.Vec{}, 0, errorf("too few evaluations for a derivative")
+	}
+	best, bestRel := ests[1], math.Inf(1)
+	for i := 1; i+1 < len(ests); i++ {
+		diff := r3.Norm(r3.Sub(ests[i+1], ests[i])) + r3.Norm(r3.Sub(ests[i], ests[i-1]))
+		n := r3.Norm(ests[i])
+		if firstAgree && diff <= 1e-6*n {
+			return ests[i], diff / math.Max(n, 1e-300), nil
+		}
+		if rel := diff / math.Max(n, 1e-300); rel < bestRel {
+			best, bestRel = ests[i], rel
+		}
+	}
+	return best, bestRel, nil
+}
+
+// jacobian returns J[i][j] = ∂F_i/∂x_j at x.
+func jacobian(eval func(em.Vec) (em.Vec, error), x em.Vec) ([3]em.Vec, error) {
+	var cols [3]em.Vec
+	for j := 0; j < 3; j++ {
+		dir := [3]em.Vec{{X: 1}, {Y: 1}, {Z: 1}}[j]
+		col, rel, err := plateauDerivative(func(s float64) (em.Vec, error) {
+			return eval(r3.Add(x, r3.Scale(s, dir)))
+		}, 0, 1, -9, false)
+		if err != nil {
+			return cols, err
+		}
+		if rel > 1e-3 {
+			return cols, errorf("the field is not smooth enough near this point for a derivative (is it on or very near a wire or a region boundary?)")
+		}
+		cols[j] = col
+	}
+	return cols, nil
+}
+
+func calculusFuncs() []*runtime.Func {
+	return []*runtime.Func{
+		fnc("field_b", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "field_b(source) -> field [T]",
+			Summary:   "The magnetic flux density of a source as a vector field, for line integrals, flux, curl and divergence.",
+			Example:   "field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
+			Reference: refFields,
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			src, err := sourceArg("field_b", args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return sourceField(em.FieldB, src), nil
+		}),
+		fnc("field_e", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "field_e(source) -> field [V/m]",
+			Summary:   "The induced electric field E = −∂A/∂t of a source whose currents change in time (give t when using it).",
+			Method:    "E = −Σ Aₖ·dIₖ/dt with each path's closed-form vector potential per ampere and dI/dt as in emf()",
+			Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); efield = field_e(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)); circulation(efield, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
+			Reference: "E = −∂A/∂t (Coulomb gauge, no charges); Faraday's law",
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			src, err := sourceArg("field_e", args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return inducedField(src), nil
+		}),
+		fnc("field_a", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "field_a(source) -> field [Wb/m]",
+			Summary:   "The vector potential of a source as a vector field.",
+			Example:   "field_a(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
+			Reference: refFields,
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			src, err := sourceArg("field_a", args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return sourceField(em.FieldA, src), nil
+		}),
+		{
+			Name: "line_integral", Params: []string{"field", "path", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return lineIntegralBuiltin(env, "line_integral", args, false)
+			},
+			Help: &runtime.Help{
+				Signature: "line_integral(field, path[, t: s]) -> field unit·m",
+				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
+				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), relative 1e-10",
+				Example:   "line_integral(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
+				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
+			},
+		},
+		{
+			Name: "circulation", Params: []string{"field", "loop", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return lineIntegralBuiltin(env, "circulation", args, true)
+			},
+			Help: &runtime.Help{
+				Signature: "circulation(field, loop: closed path[, t: s]) -> field unit·m",
+				Summary:   "∮ F·dl around a closed loop (for an electric field, the EMF around the loop).",
+				Method:    "as line_integral; the loop must be closed",
+				Example:   "circulation(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
+				Reference: refCalculus,
+			},
+		},
+		{
+			Name: "surface_flux", Params: []string{"field", "surface", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: surfaceFluxBuiltin,
+			Help: &runtime.Help{
+				Signature: "surface_flux(field, surface[, t: s]) -> field unit·m^2",
+				Summary:   "∬ F·dA over a surface, oriented by its normal.",
+				Method:    "adaptive 2-D Gauss–Kronrod, relative 1e-10",
+				Example:   "surface_flux(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
+				Reference: refCalculus,
+			},
+		},
+		{
+			Name: "curl", Params: []string{"field", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return diffBuiltin(env, "curl", args)
+			},
+			Help: &runtime.Help{
+				Signature: "curl(field, point: position [m][, t: s]) -> vector [field unit/m]",
+				Summary:   "∇ × F at a point.",
+				Method:    "each partial derivative by central differences with one Richardson step; of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used (typically 1e-9 relative to the field's gradient); refuses near wires and region boundaries where the field is not smooth",
+				Example:   "curl(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), [20, 0, 0] mm)",
+				Reference: refCalculus,
+			},
+		},
+		{
+			Name: "div", Params: []string{"field", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				return diffBuiltin(env, "div", args)
+			},
+			Help: &runtime.Help{
+				Signature: "div(field, point: position [m][, t: s]) -> field unit/m",
+				Summary:   "∇ · F at a point (for B it is zero: a check of a field's consistency).",
+				Method:    "as curl",
+				Example:   "div(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [10, 5, 3] mm)",
+				Reference: refCalculus,
+			},
+		},
+		{
+			Name: "ddt", Params: []string{"field", "point", "t"}, MinArgs: 3, MaxArgs: 3,
+			CallEnv: ddtBuiltin,
+			Help: &runtime.Help{
+				Signature: "ddt(field, point: position [m], t: s) -> vector [field unit/s]",
+				Summary:   "∂F/∂t at a point and time, for fields of time-varying sources or functions of time.",
+				Method:    "central differences in time with one Richardson step, step searched from 1 ps up to 1 s (as emf)",
+				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); ddt(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 0] m, 0 s)",
+				Reference: refCalculus,
+			},
+		},
+		{
+			Name: "work_per_turn", Params: []string{"charge", "efield", "loop", "t"}, MinArgs: 3, MaxArgs: 4,
+			CallEnv: workBuiltin,
+			Help: &runtime.Help{
+				Signature: "work_per_turn(charge: C, efield: field [V/m], loop: closed path[, t: s]) -> J",
+				Summary:   "Work W = q∮E·dl the induced electric field does on a charge carried once around the loop; not zero, because an induced E is not conservative.",
+				Method:    "circulation of the field",
+				Example:   "work_per_turn(e, field_e(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s)), circle([0, 0, 0] m, [0, 0, 1], 30 mm)) as eV",
+				Reference: refCalculus + "; Faraday: ∮E·dl = −dΦ/dt",
+			},
+		},
+	}
+}
+
+func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, closed bool) (runtime.Value, error) {
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	p, err := pathArg(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	if closed && !p.Closed() {
+		return nil, errorf("%s: the loop is not closed (its end is not its start); use line_integral for an open path", fn)
+	}
+	t, hasT, err := timeArg(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	return lineIntegralOf(env, fn, f, p, t, hasT)
+}
+
+func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "surface_flux"
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	s, ok := args[1].(*Surface)
+	if !ok {
+		return nil, errorf("%s: the second argument must be a surface, not %s", fn, runtime.TypeName(args[1]))
+	}
+	t, hasT, err := timeArg(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	eval, err := f.prepare(env, fn, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	var pts []em.Vec
+	for _, u := range []float64{0.2, 0.5, 0.8} {
+		for _, v := range []float64{0.2, 0.5, 0.8} {
+			pts = append(pts, s.S.Point(u, v))
+		}
+	}
+	if _, err := eval(pts[0]); err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	scale := scaleOf(eval, pts) * s.S.Area
+	v, err := em.SurfaceIntegral(s.S, eval, em.DefaultTol, scale)
+	if err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	return runtime.Quantity{V: v, D: f.dim.Mul(dimArea)}, nil
+}
+
+func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Value, error) {
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	x, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	t, hasT, err := timeArg(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	eval, err := f.prepare(env, fn, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := eval(x); err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	j, err := jacobian(eval, x)
+	if err != nil {
+		if le, ok := err.(*argError); ok {
+			return nil, errorf("%s: %s", fn, le.msg)
+		}
+		return nil, fieldErr(fn, err)
+	}
+	d := f.dim.Div(dimLength)
+	if fn == "div" {
+		return runtime.Quantity{V: j[0].X + j[1].Y + j[2].Z, D: d}, nil
+	}
+	// (∇×F)_x = ∂Fz/∂y − ∂Fy/∂z, ...; column j holds ∂F/∂x_j
+	return fromVec(em.Vec{X: j[1].Z - j[2].Y, Y: j[2].X - j[0].Z, Z: j[0].Y - j[1].X}, d), nil
+}
+
+func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "ddt"
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	x, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	t, err := ofDim(fn, args, 2, dimTime)
+	if err != nil {
+		return nil, err
+	}
+	g := func(s float64) (em.Vec, error) {
+		eval, err := f.prepare(env, fn, s, true)
+		if err != nil {
+			return em.Vec{}, err
+		}
+		return eval(x)
+	}
+	if _, err := g(t); err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	v, rel, err := plateauDerivative(g, t, 1, -12, true)
+	if err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	if rel > 1e-3 {
+		return nil, errorf("%s: the field has no reliable time derivative at t = %g s (a jump or a kink there?)", fn, t)
+	}
+	return fromVec(v, f.dim.Div(dimTime)), nil
+}
+
+func workBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "work_per_turn"
+	q, err := ofDim(fn, args, 0, mustDim("C"))
+	if err != nil {
+		return nil, err
+	}
+	circ, err := lineIntegralBuiltin(env, fn, args[1:], true)
+	if err != nil {
+		return nil, err
+	}
+	c := circ.(runtime.Quantity)
+	if c.D != dimVolt {
+		return nil, errorf("%s: the field must be an electric field (V/m); its circulation is %s", fn, c.D.Describe())
+	}
+	return runtime.Quantity{V: q * c.V, D: mustDim("J")}, nil
+}

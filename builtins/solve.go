@@ -1,0 +1,252 @@
+package builtins
+
+import (
+	"math"
+
+	"loopwise/runtime"
+)
+
+const refSolve = "Brent's method: R. P. Brent, Algorithms for Minimization without Derivatives (Prentice-Hall, 1973), ch. 4"
+
+// funcArg reads argument i as a function of one argument.
+func funcArg(fn string, args []runtime.Value, i int) (*runtime.Func, error) {
+	f, ok := args[i].(*runtime.Func)
+	if !ok {
+		return nil, errorf("%s: the %s argument must be a function of one quantity, such as V(N) = ..., not %s", fn, ordinal(i), runtime.TypeName(args[i]))
+	}
+	if f.MinArgs > 1 || (f.MaxArgs >= 0 && f.MaxArgs < 1) {
+		return nil, errorf("%s: the function %s must take exactly one argument", fn, f.Signature())
+	}
+	return f, nil
+}
+
+// scalarCall evaluates f at x (in SI units of dimension d) and returns a
+// quantity.
+func scalarCall(env runtime.Env, fn string, f *runtime.Func, x float64, d runtime.Dim) (runtime.Quantity, error) {
+	v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: x, D: d}})
+	if err != nil {
+		return runtime.Quantity{}, err
+	}
+	q, ok := v.(runtime.Quantity)
+	if !ok {
+		return runtime.Quantity{}, errorf("%s: %s must return a quantity, not %s", fn, f.Signature(), runtime.TypeName(v))
+	}
+	return q, nil
+}
+
+func solveFuncs() []*runtime.Func {
+	return []*runtime.Func{
+		{
+			Name: "solve", Params: []string{"f", "target", "lo", "hi"}, MinArgs: 4, MaxArgs: 4,
+			CallEnv: solveBuiltin,
+			Help: &runtime.Help{
+				Signature: "solve(f: function of one quantity, target: unit of f, lo, hi: unit of f's argument) -> unit of lo",
+				Summary:   "The x between lo and hi where f(x) = target. f(lo) − target and f(hi) − target must have opposite signs (the root is bracketed).",
+				Method:    "Brent's method (bisection, secant and inverse quadratic steps), to 1e-12 relative in x or an exact zero",
+				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT; solve(V, 0.1 V, 1, 10000)",
+				Reference: refSolve,
+			},
+		},
+		{
+			Name: "sweep", Params: []string{"f", "from", "to", "n"}, MinArgs: 4, MaxArgs: 4,
+			CallEnv: sweepBuiltin,
+			Help: &runtime.Help{
+				Signature: "sweep(f: function of one quantity, from, to: unit of f's argument, n: whole number) -> table",
+				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result or four for a vector: x, y, z, norm).",
+				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH); sweep(k, 0 mm, 20 mm, 5)",
+				Reference: "evaluation at evenly spaced points",
+			},
+		},
+	}
+}
+
+func solveBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "solve"
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	target, err := quantity(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	lo, err := quantity(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	hi, err := quantity(fn, args, 3)
+	if err != nil {
+		return nil, err
+	}
+	if lo.D != hi.D {
+		return nil, errorf("%s: lo and hi must have one unit; got %s and %s", fn, lo.D.Describe(), hi.D.Describe())
+	}
+	if lo.V == hi.V {
+		return nil, errorf("%s: lo and hi are equal; give an interval that brackets the solution", fn)
+	}
+	g := func(x float64) (float64, error) {
+		q, err := scalarCall(env, fn, f, x, lo.D)
+		if err != nil {
+			return 0, err
+		}
+		if q.D != target.D {
+			return 0, errorf("%s: %s returns %s but the target is %s", fn, f.Signature(), q.D.Describe(), target.D.Describe())
+		}
+		return q.V - target.V, nil
+	}
+	fa, err := g(lo.V)
+	if err != nil {
+		return nil, err
+	}
+	fb, err := g(hi.V)
+	if err != nil {
+		return nil, err
+	}
+	if fa == 0 {
+		return lo, nil
+	}
+	if fb == 0 {
+		return hi, nil
+	}
+	if (fa > 0) == (fb > 0) {
+		return nil, errorf("%s: no solution is bracketed: f(lo) − target = %s and f(hi) − target = %s have the same sign; widen or move [lo, hi]", fn,
+			runtime.Format(runtime.Quantity{V: fa, D: target.D}, 4), runtime.Format(runtime.Quantity{V: fb, D: target.D}, 4))
+	}
+	x, err := brent(g, lo.V, hi.V, fa, fb)
+	if err != nil {
+		return nil, err
+	}
+	return runtime.Quantity{V: x, D: lo.D}, nil
+}
+
+// brent finds a zero of g in [a, b] given g(a) and g(b) of opposite signs
+// (Brent 1973, ch. 4, the algorithm "zero"): it keeps a bracket, takes
+// inverse quadratic or secant steps when they stay inside and shrink fast
+// enough, and bisects otherwise, so it converges at least as surely as
+// bisection.
+func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, error) {
+	const eps = 2.220446049250313e-16
+	tol := 1e-12 * math.Max(math.Abs(a), math.Abs(b))
+	c, fc := a, fa
+	d := b - a
+	e := d
+	for iter := 0; iter < 300; iter++ {
+		if (fb > 0) == (fc > 0) {
+			c, fc = a, fa
+			d = b - a
+			e = d
+		}
+		if math.Abs(fc) < math.Abs(fb) {
+			a, b, c = b, c, b
+			fa, fb, fc = fb, fc, fb
+		}
+		tol1 := 2*eps*math.Abs(b) + 0.5*tol
+		m := 0.5 * (c - b)
+		if math.Abs(m) <= tol1 || fb == 0 {
+			return b, nil
+		}
+		if math.Abs(e) >= tol1 && math.Abs(fa) > math.Abs(fb) {
+			s := fb / fa
+			var p, q float64
+			if a == c {
+				p = 2 * m * s // secant
+				q = 1 - s
+			} else { // inverse quadratic interpolation
+				qq := fa / fc
+				r := fb / fc
+				p = s * (2*m*qq*(qq-r) - (b-a)*(r-1))
+				q = (qq - 1) * (r - 1) * (s - 1)
+			}
+			if p > 0 {
+				q = -q
+			} else {
+				p = -p
+			}
+			if 2*p < math.Min(3*m*q-math.Abs(tol1*q), math.Abs(e*q)) {
+				e = d
+				d = p / q
+			} else {
+				d, e = m, m
+			}
+		} else {
+			d, e = m, m
+		}
+		a, fa = b, fb
+		if math.Abs(d) > tol1 {
+			b += d
+		} else {
+			b += math.Copysign(tol1, m)
+		}
+		var err error
+		if fb, err = g(b); err != nil {
+			return 0, err
+		}
+	}
+	return 0, errorf("solve: no convergence in 300 steps (is the function continuous on the interval?)")
+}
+
+func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "sweep"
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	from, err := quantity(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	to, err := quantity(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	if from.D != to.D {
+		return nil, errorf("%s: from and to must have one unit; got %s and %s", fn, from.D.Describe(), to.D.Describe())
+	}
+	n, err := count(fn, args, 3, 2, 100000)
+	if err != nil {
+		return nil, err
+	}
+	param := "x"
+	if len(f.Params) == 1 {
+		param = f.Params[0]
+	}
+	tab := &Table{}
+	for i := 0; i < n; i++ {
+		x := from.V + (to.V-from.V)*float64(i)/float64(n-1)
+		v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: x, D: from.D}})
+		if err != nil {
+			return nil, err
+		}
+		if i == 0 {
+			switch r := v.(type) {
+			case runtime.Quantity:
+				tab.Cols = []string{param, f.Name}
+				tab.Dims = []runtime.Dim{from.D, r.D}
+			case runtime.Vector:
+				tab.Cols = []string{param, f.Name + ".x", f.Name + ".y", f.Name + ".z", "|" + f.Name + "|"}
+				tab.Dims = []runtime.Dim{from.D, r.D, r.D, r.D, r.D}
+			default:
+				return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
+			}
+		}
+		switch r := v.(type) {
+		case runtime.Quantity:
+			if r.D != tab.Dims[1] || len(tab.Cols) != 2 {
+				return nil, errorf("%s: %s changed its unit during the sweep", fn, f.Signature())
+			}
+			tab.Rows = append(tab.Rows, []float64{x, r.V})
+		case runtime.Vector:
+			if r.D != tab.Dims[1] || len(tab.Cols) != 5 {
+				return nil, errorf("%s: %s changed its unit during the sweep", fn, f.Signature())
+			}
+			c := runtime.CleanComponents(r.V)
+			tab.Rows = append(tab.Rows, []float64{x, c[0], c[1], c[2], r.Norm().V})
+		default:
+			return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
+		}
+		if env != nil {
+			env.Progress(fn, i+1, n)
+		}
+	}
+	return tab, nil
+}
