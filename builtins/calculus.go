@@ -378,7 +378,7 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "work_per_turn(charge: C, efield: field [V/m], loop: closed path[, t: s]) -> J",
 				Summary:   "Work W = q∮E·dl the induced electric field does on a charge carried once around the loop; not zero, because an induced E is not conservative.",
 				Method:    "circulation of the field",
-				Example:   "work_per_turn(e, field_e(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s)), circle([0, 0, 0] m, [0, 0, 1], 30 mm)) as eV",
+				Example:   "I(t) = 200 A * sin(2*pi*50 Hz*t); work_per_turn(e, field_e(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s) as eV",
 				Reference: refCalculus + "; Faraday: ∮E·dl = −dΦ/dt",
 			},
 		},
