@@ -89,6 +89,7 @@ func Standard() runtime.Library {
 		{"inductance and force", inductanceFuncs()},
 		{"field calculus", calculusFuncs()},
 		{"solving", solveFuncs()},
+		{"safety", cautionFuncs()},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name
@@ -96,5 +97,5 @@ func Standard() runtime.Library {
 		}
 		fs = append(fs, fam.funcs...)
 	}
-	return runtime.Library{Funcs: fs, Consts: constants()}
+	return runtime.Library{Funcs: fs, Consts: constants(), Caution: Caution}
 }

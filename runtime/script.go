@@ -32,6 +32,8 @@ const (
 	ResultMark = "↳"
 	// ScriptExt is the file extension of scripts found in directories.
 	ScriptExt = ".lw"
+	// CautionMark flags a safety caution in a script's printed output.
+	CautionMark = "⚠"
 )
 
 // DefaultTolerance is the relative tolerance of a replay check.
@@ -185,6 +187,11 @@ func (sc *Script) Run(s *Session, w io.Writer) error {
 			fmt.Fprintf(w, "    %s\n", strings.TrimLeft(line, " \t"))
 			if res.Text != "" && res.Stmt.Kind != lang.Empty {
 				fmt.Fprintf(w, "    %s %s\n", ResultMark, res.Text)
+			}
+			for _, n := range strings.Split(res.Note, "\n") {
+				if strings.HasPrefix(n, "caution:") {
+					fmt.Fprintf(w, "    %s %s\n", CautionMark, n)
+				}
 			}
 			continue
 		}

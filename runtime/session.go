@@ -24,6 +24,9 @@ type Constant struct {
 type Library struct {
 	Funcs  []*Func
 	Consts []Constant
+	// Caution, when set, returns a safety caution for a result that can
+	// hurt someone (a high voltage, say), shown beside it; "" for none.
+	Caution func(v Value) string
 }
 
 type nameKind int
@@ -173,6 +176,11 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script
 	}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec})
+	if s.lib.Caution != nil {
+		if c := s.lib.Caution(v); c != "" {
+			note = strings.TrimSpace(note + "\n" + c)
+		}
+	}
 	return &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note}, nil
 }
 
