@@ -1,0 +1,141 @@
+package builtins_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+
+	"loopwise/builtins"
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+func vecOf(t *testing.T, v runtime.Value) [3]float64 {
+	t.Helper()
+	x, ok := v.(runtime.Vector)
+	if !ok {
+		t.Fatalf("got %s, want a vector", runtime.Format(v, 6))
+	}
+	return x.V
+}
+
+func vclose(a, b [3]float64, rel, abs float64) bool {
+	d := math.Sqrt((a[0]-b[0])*(a[0]-b[0]) + (a[1]-b[1])*(a[1]-b[1]) + (a[2]-b[2])*(a[2]-b[2]))
+	n := math.Max(math.Sqrt(a[0]*a[0]+a[1]*a[1]+a[2]*a[2]), math.Sqrt(b[0]*b[0]+b[1]*b[1]+b[2]*b[2]))
+	return d <= abs || d <= rel*n
+}
+
+// TestStokesAndFaraday demonstrates Stokes' theorem and Faraday's law
+// numerically for the induced field of a loop whose current is sinusoidal
+// (Faraday's law in differential and integral form, e.g. Griffiths,
+// Introduction to Electrodynamics, 4th ed., 2017, eqs. 7.14–7.15):
+// ∮E·dl = −dΦ/dt around loops, curl E = −∂B/∂t at points, div B = 0.
+// Tolerances: ∮E·dl and emf() are two quadratures of the same integral
+// (relative 1e-10 each) sharing one dI/dt, so 1e-9; curl and ∂B/∂t are
+// numerical derivatives good to ~1e-8 relative (the step search), so 1e-6;
+// div B is compared with |∇B| ~ |B|/distance, and must be below 1e-6 of it.
+func TestStokesAndFaraday(t *testing.T) {
+	setup := []string{
+		"I(t) = 3 A * sin(2*pi*60 Hz*t) + 1 A * t / (1 s)",
+		"src = source(circle([0,0,0] m, [0,0,1], 40 mm), I)",
+		"E = field_e(src)",
+		"Bf = field_b(src)",
+	}
+	s := runtime.NewSession(builtins.Standard())
+	for i, l := range setup {
+		if _, err := s.Eval(lang.Pos{Line: i + 1, Col: 1}, l); err != nil {
+			t.Fatal(err)
+		}
+	}
+	ev := func(in string) runtime.Value {
+		res, err := s.Eval(lang.Pos{Line: 9, Col: 1}, in)
+		if err != nil {
+			t.Fatalf("%s: %v", in, err)
+		}
+		return res.Value
+	}
+	for _, loop := range []string{
+		"circle([0,0,25] mm, [0,0,1], 30 mm)",
+		"rectangle([10,-20,5] mm, [0,40,0] mm, [0,0,30] mm)",
+		"polygon([0,0,15] mm, [60,0,15] mm, [0,60,40] mm)",
+	} {
+		for _, tm := range []string{"0 s", "3.7 ms"} {
+			circ := q(t, ev("circulation(E, "+loop+", "+tm+")"), "V")
+			emf := q(t, ev("emf(src, "+loop+", "+tm+")"), "V")
+			if !scalar.EqualWithinAbsOrRel(circ, emf, 1e-18, 1e-9) {
+				t.Errorf("%s at %s: ∮E·dl = %g V, −dΦ/dt = %g V", loop, tm, circ, emf)
+			}
+		}
+	}
+	for _, p := range []string{"[3, 4, 5] mm", "[70, -20, 10] mm", "[0, 0, 90] mm"} {
+		curlE := vecOf(t, ev("curl(E, "+p+", 2 ms)"))
+		dBdt := vecOf(t, ev("-ddt(Bf, "+p+", 2 ms)"))
+		if !vclose(curlE, dBdt, 1e-6, 0) {
+			t.Errorf("at %s: curl E = %v, −∂B/∂t = %v", p, curlE, dBdt)
+		}
+		div := q(t, ev("div(Bf, "+p+", 2 ms)"), "T/m")
+		grad := vecOf(t, ev("curl(field_b(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A)), "+p+")"))
+		bmag := vecOf(t, ev("bfield(src, "+p+", 2 ms)"))
+		scale := math.Sqrt(bmag[0]*bmag[0]+bmag[1]*bmag[1]+bmag[2]*bmag[2]) / 0.01
+		if math.Abs(div) > 1e-6*scale {
+			t.Errorf("at %s: div B = %g T/m, want 0 (scale %g; curl of the static field %v)", p, div, scale, grad)
+		}
+	}
+}
+
+// TestWorkPerTurn: the induced field is not conservative; the work on a
+// charge carried once around a loop is q∮E·dl = −q dΦ/dt (Faraday).
+func TestWorkPerTurn(t *testing.T) {
+	w := q(t, run(t, "I(t) = 200 A * sin(2*pi*50 Hz*t)",
+		"src = source(circle([0,0,0] m, [0,0,1], 25 mm), I)",
+		"work_per_turn(e, field_e(src), circle([0,0,10] mm, [0,0,1], 20 mm), 0 s)"), "J")
+	emf := q(t, run(t, "I(t) = 200 A * sin(2*pi*50 Hz*t)",
+		"emf(source(circle([0,0,0] m, [0,0,1], 25 mm), I), circle([0,0,10] mm, [0,0,1], 20 mm), 0 s)"), "V")
+	if !scalar.EqualWithinAbsOrRel(w, 1.602176634e-19*emf, 0, 1e-9) || w == 0 {
+		t.Errorf("work per turn %g J, want e·EMF = %g J", w, 1.602176634e-19*emf)
+	}
+}
+
+// TestSolveAndSweep: solve finds roots known in closed form; sweep tabulates.
+func TestSolveAndSweep(t *testing.T) {
+	// x² = 2 → √2 (OEIS A002193), Brent to 1e-12 relative.
+	x := q(t, run(t, "f(x) = x^2", "solve(f, 2 m^2, 0 m, 3 m)"), "m")
+	if !scalar.EqualWithinAbsOrRel(x, math.Sqrt2, 0, 1e-11) {
+		t.Errorf("solve x² = 2: %v", x)
+	}
+	// Turns for a 1 V rms pick-up: N = V/(4.44288 f A B) (transformer
+	// EMF rule, common practice; exact factor 2π/√2).
+	n := q(t, run(t, "V(N) = 2*pi/sqrt(2) * 50 Hz * N * 2 cm^2 * 0.8 mT", "solve(V, 1 V, 1, 100000)"), "1")
+	if want := 1 / (2 * math.Pi / math.Sqrt2 * 50 * 2e-4 * 0.8e-3); !scalar.EqualWithinAbsOrRel(n, want, 0, 1e-10) {
+		t.Errorf("turns: %v, want %v", n, want)
+	}
+	// The gap where two coaxial rings couple with k = 0.3 (Maxwell's
+	// formula): evaluating k at the solution gives 0.3.
+	g := q(t, run(t, "L1 = inductance(circle([0,0,0] m, [0,0,1], 20 mm), 0.3 mm)",
+		"k(d) = maxwell_mutual(20 mm, 20 mm, d) / L1",
+		"solve(k, 0.3, 0.1 mm, 50 mm)"), "m")
+	k := q(t, run(t, "L1 = inductance(circle([0,0,0] m, [0,0,1], 20 mm), 0.3 mm)",
+		"maxwell_mutual(20 mm, 20 mm, "+runtime.FormatNumber(g, 17)+" m) / L1"), "1")
+	if !scalar.EqualWithinAbsOrRel(k, 0.3, 0, 1e-9) {
+		t.Errorf("k at the solved gap %g m = %v, want 0.3", g, k)
+	}
+	// No root bracketed: a clear error.
+	s := runtime.NewSession(builtins.Standard())
+	s.Eval(lang.Pos{Line: 1, Col: 1}, "f(x) = x^2 + 1 m^2")
+	if _, err := s.Eval(lang.Pos{Line: 2, Col: 1}, "solve(f, 0 m^2, -1 m, 1 m)"); err == nil || !strings.Contains(err.Error(), "no solution is bracketed") {
+		t.Errorf("unbracketed: %v", err)
+	}
+	// sweep: n rows from from to to, f evaluated at each (x² at 0..2 m).
+	tab, ok := run(t, "f(x) = x^2", "sweep(f, 0 m, 2 m, 5)").(*builtins.Table)
+	if !ok || len(tab.Rows) != 5 {
+		t.Fatalf("sweep: %v", tab)
+	}
+	for i, r := range tab.Rows {
+		xi := 0.5 * float64(i)
+		if r[0] != xi || r[1] != xi*xi {
+			t.Errorf("row %d = %v, want [%g %g]", i, r, xi, xi*xi)
+		}
+	}
+}
