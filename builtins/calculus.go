@@ -273,15 +273,18 @@ func calculusFuncs() []*runtime.Func {
 			return sourceField(em.FieldB, src), nil
 		}),
 		fnc("field_e", []string{"source"}, 1, 1, &runtime.Help{
-			Signature: "field_e(source) -> field [V/m]",
-			Summary:   "The induced electric field E = −∂A/∂t of a source whose currents change in time (give t when using it).",
+			Signature: "field_e(source or region) -> field [V/m]",
+			Summary:   "The induced electric field: E = −∂A/∂t of a source whose currents change in time (give t when using it), or of a region where B changes (see efield).",
 			Method:    "E = −Σ Aₖ·dIₖ/dt with each path's closed-form vector potential per ampere and dI/dt as in emf()",
 			Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); efield = field_e(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)); circulation(efield, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
 			Reference: "E = −∂A/∂t (Coulomb gauge, no charges); Faraday's law",
 		}, func(args []runtime.Value) (runtime.Value, error) {
+			if r, ok := args[0].(*Region); ok {
+				return regionField(r), nil
+			}
 			src, err := sourceArg("field_e", args, 0)
 			if err != nil {
-				return nil, err
+				return nil, errorf("field_e: the argument must be a source or a region, not %s", runtime.TypeName(args[0]))
 			}
 			return inducedField(src), nil
 		}),

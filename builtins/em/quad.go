@@ -641,3 +641,238 @@ func Integrate2(f func(u, v float64) float64, a0, b0, a1, b1 float64, tol Tol) (
 	}
 	return v.X, e, err
 }
+
+// quadCell is a box of a three-dimensional integral.
+type quadCell struct {
+	lo, hi [3]float64
+	val    r3.Vec
+	err    float64
+	dir    int  // direction (0, 1, 2 for u, v, w) to bisect
+	sat    bool // an estimate is saturated (see quadScaleErr)
+}
+
+func (c quadCell) estimate() float64 { return c.err }
+func (c quadCell) saturated() bool   { return c.sat }
+func (c quadCell) value() r3.Vec     { return c.val }
+
+// quadCellPoints is the number of integrand calls of one 3-D rule.
+const quadCellPoints = 15 * 15 * 15
+
+// gkRule3 applies the tensor product of the 15-point Kronrod rule in each of
+// the three directions on the box [lo, hi]. For each direction d the rule with
+// the embedded 7-point Gauss rule in direction d only (Kronrod in the other
+// two) is formed from the same 3375 values; the Kronrod–Gauss difference is
+// scaled per component as in QUADPACK's QK15 (with resabs and resasc of the
+// product rule), the components are combined in the Euclidean norm, and the
+// box's estimate is the sum over the three directions. The box is marked to be
+// bisected along the direction with the largest estimate (ties: the longest
+// side). buf is scratch space for the values (needed for resasc).
+func gkRule3(f func(u, v, w float64) r3.Vec, lo, hi [3]float64, buf *[quadCellPoints]r3.Vec) (quadCell, error) {
+	var x [3][15]float64
+	var h [3]float64
+	for d := 0; d < 3; d++ {
+		c := 0.5*lo[d] + 0.5*hi[d]
+		h[d] = 0.5*hi[d] - 0.5*lo[d]
+		for i := range x[d] {
+			x[d][i] = c + h[d]*gkNodes[i]
+		}
+	}
+	var kkk, gkk, kgk, kkg, abs r3.Vec
+	n := 0
+	for i := 0; i < 15; i++ {
+		var jK, jGv, jGw, jA r3.Vec
+		for j := 0; j < 15; j++ {
+			var sK, sG, sA r3.Vec
+			for k := 0; k < 15; k++ {
+				y := f(x[0][i], x[1][j], x[2][k])
+				buf[n] = y
+				n++
+				sK = r3.Add(sK, r3.Scale(gkKW[k], y))
+				sG = r3.Add(sG, r3.Scale(gkGW[k], y))
+				sA = r3.Add(sA, r3.Scale(gkKW[k], quadAbsVec(y)))
+			}
+			jK = r3.Add(jK, r3.Scale(gkKW[j], sK))
+			jGv = r3.Add(jGv, r3.Scale(gkGW[j], sK))
+			jGw = r3.Add(jGw, r3.Scale(gkKW[j], sG))
+			jA = r3.Add(jA, r3.Scale(gkKW[j], sA))
+		}
+		kkk = r3.Add(kkk, r3.Scale(gkKW[i], jK))
+		gkk = r3.Add(gkk, r3.Scale(gkGW[i], jK))
+		kgk = r3.Add(kgk, r3.Scale(gkKW[i], jGv))
+		kkg = r3.Add(kkg, r3.Scale(gkKW[i], jGw))
+		abs = r3.Add(abs, r3.Scale(gkKW[i], jA))
+	}
+	if !quadFiniteVec(abs) || !quadFiniteVec(kkk) {
+		n = 0
+		for i := 0; i < 15; i++ {
+			for j := 0; j < 15; j++ {
+				for k := 0; k < 15; k++ {
+					if y := buf[n]; !quadFiniteVec(y) {
+						return quadCell{}, fmt.Errorf("em: integrand is not finite at (u, v, w)=(%g, %g, %g): %v",
+							x[0][i], x[1][j], x[2][k], y)
+					}
+					n++
+				}
+			}
+		}
+		return quadCell{}, fmt.Errorf("em: integral overflows on [%g, %g]x[%g, %g]x[%g, %g]",
+			lo[0], hi[0], lo[1], hi[1], lo[2], hi[2])
+	}
+	mean := r3.Scale(0.125, kkk) // the reference cube [-1,1]³ has volume 8
+	var asc r3.Vec
+	n = 0
+	for i := 0; i < 15; i++ {
+		var ja r3.Vec
+		for j := 0; j < 15; j++ {
+			var sa r3.Vec
+			for k := 0; k < 15; k++ {
+				sa = r3.Add(sa, r3.Scale(gkKW[k], quadAbsVec(r3.Sub(buf[n], mean))))
+				n++
+			}
+			ja = r3.Add(ja, r3.Scale(gkKW[j], sa))
+		}
+		asc = r3.Add(asc, r3.Scale(gkKW[i], ja))
+	}
+	s := h[0] * h[1] * h[2]
+	abs, asc = r3.Scale(s, abs), r3.Scale(s, asc)
+	var e [3]float64
+	sat := false
+	for d, alt := range [3]r3.Vec{gkk, kgk, kkg} {
+		raw := quadAbsVec(r3.Scale(s, r3.Sub(kkk, alt)))
+		var c r3.Vec
+		var sx, sy, sz bool
+		c.X, sx = quadScaleErr(raw.X, abs.X, asc.X)
+		c.Y, sy = quadScaleErr(raw.Y, abs.Y, asc.Y)
+		c.Z, sz = quadScaleErr(raw.Z, abs.Z, asc.Z)
+		e[d] = r3.Norm(c)
+		sat = sat || sx || sy || sz
+	}
+	dir := 0
+	for d := 1; d < 3; d++ {
+		if e[d] > e[dir] || (e[d] == e[dir] && hi[d]-lo[d] > hi[dir]-lo[dir]) {
+			dir = d
+		}
+	}
+	return quadCell{lo: lo, hi: hi, val: r3.Scale(s, kkk), err: e[0] + e[1] + e[2], dir: dir, sat: sat}, nil
+}
+
+// quadIntegrate3 integrates f over the union of the given boxes (each with
+// lo < hi in every direction) in one global adaptive heap.
+func quadIntegrate3(f func(u, v, w float64) r3.Vec, boxes [][2][3]float64, tol Tol) (r3.Vec, float64, int, float64, error) {
+	maxEval, err := quadCheckTol(tol)
+	if err != nil {
+		return r3.Vec{}, 0, 0, 0, err
+	}
+	buf := new([quadCellPoints]r3.Vec)
+	h := make(quadHeap[quadCell], 0, 64)
+	evals := 0
+	for _, b := range boxes {
+		c, err := gkRule3(f, b[0], b[1], buf)
+		if err != nil {
+			return r3.Vec{}, 0, evals, 0, err
+		}
+		evals += quadCellPoints
+		h = append(h, c)
+	}
+	if len(h) == 0 {
+		return r3.Vec{}, 0, 0, 0, nil
+	}
+	split := func(c quadCell) (quadCell, quadCell, bool, error) {
+		d := c.dir
+		if !quadSplittable(c.lo[d], c.hi[d]) {
+			return c, c, false, nil
+		}
+		m := 0.5*c.lo[d] + 0.5*c.hi[d]
+		hiL, loR := c.hi, c.lo
+		hiL[d], loR[d] = m, m
+		l, err := gkRule3(f, c.lo, hiL, buf)
+		if err != nil {
+			return l, l, false, err
+		}
+		r, err := gkRule3(f, loR, c.hi, buf)
+		return l, r, true, err
+	}
+	less := func(x, y quadCell) int {
+		for d := 0; d < 3; d++ {
+			switch {
+			case x.lo[d] < y.lo[d]:
+				return -1
+			case x.lo[d] > y.lo[d]:
+				return 1
+			}
+		}
+		return 0
+	}
+	return quadAdapt(h, evals, maxEval, 2*quadCellPoints, tol, split, less)
+}
+
+// Integrate3 returns ∫_{a0}^{b0} ∫_{a1}^{b1} ∫_{a2}^{b2} f(u, v, w) dw dv du
+// over a box and an error estimate.
+//
+// Method: the three-dimensional tensor product of the G7–K15 rule (3375
+// integrand calls per box) with global subdivision, as Integrate2 does in two
+// dimensions: each box's estimate is the sum over the three directions of the
+// scaled difference made by substituting the 7-point Gauss rule for the
+// Kronrod rule in that direction, and the box with the largest estimate is
+// bisected along the direction whose substitution changes the result most,
+// until the summed estimate is <= max(tol.Abs, tol.Rel*|val|) or tol.MaxEval
+// is exhausted. Each bisection costs 6750 calls, so the default budget of
+// 200000 allows only about 28 bisections; integrands with singular corners or
+// edges usually need a larger tol.MaxEval (a corner 1/r² singularity at
+// relative 1e-6 takes a few hundred thousand to a few million calls). It suits
+// smooth integrands and integrable singularities on the boundary, best at a
+// corner; singular points inside the box should be put at a corner by
+// splitting the domain. The rule integrates products of polynomials of degree
+// <= 22 in each variable exactly (error estimates are then at the rounding
+// level wherever the degree is also <= 13). Results are deterministic.
+//
+// A reversed range in any variable flips the sign; a range of zero width gives
+// 0. Validation and errors are as in Integrate: the initial rule (3375 calls)
+// is always applied, and if the tolerance is not met the best value is
+// returned with a *QuadError wrapping ErrNoConvergence.
+func Integrate3(f func(u, v, w float64) float64, a0, b0, a1, b1, a2, b2 float64, tol Tol) (val, errEst float64, err error) {
+	if f == nil {
+		return 0, 0, errors.New("em: nil integrand")
+	}
+	g := func(u, v, w float64) r3.Vec { return r3.Vec{X: f(u, v, w)} }
+	v, e, err := IntegrateVec3(g, a0, b0, a1, b1, a2, b2, tol)
+	if qe, ok := err.(*QuadError); ok {
+		qe.Value, qe.Vec = qe.Vec.X, r3.Vec{}
+	}
+	return v.X, e, err
+}
+
+// IntegrateVec3 returns the integral of a vector-valued f over a box and an
+// estimate of the Euclidean norm of its error. The three components share the
+// sampling points; method, limits and error handling are those of Integrate3,
+// with each direction's estimate the Euclidean norm of the per-component
+// QUADPACK estimates.
+func IntegrateVec3(f func(u, v, w float64) r3.Vec, a0, b0, a1, b1, a2, b2 float64, tol Tol) (val r3.Vec, errEst float64, err error) {
+	if f == nil {
+		return r3.Vec{}, 0, errors.New("em: nil integrand")
+	}
+	lo, hi := [3]float64{a0, a1, a2}, [3]float64{b0, b1, b2}
+	for d := 0; d < 3; d++ {
+		if err := quadCheckBounds(lo[d], hi[d]); err != nil {
+			return r3.Vec{}, 0, err
+		}
+	}
+	if _, err := quadCheckTol(tol); err != nil {
+		return r3.Vec{}, 0, err
+	}
+	sign := 1.0
+	for d := 0; d < 3; d++ {
+		if lo[d] == hi[d] {
+			return r3.Vec{}, 0, nil
+		}
+		if lo[d] > hi[d] {
+			lo[d], hi[d], sign = hi[d], lo[d], -sign
+		}
+	}
+	v, e, evals, target, err := quadIntegrate3(f, [][2][3]float64{{lo, hi}}, tol)
+	v = r3.Scale(sign, v)
+	if errors.Is(err, ErrNoConvergence) {
+		return v, e, &QuadError{Vec: v, Estimate: e, Target: target, Evals: evals}
+	}
+	return v, e, err
+}

@@ -1,0 +1,232 @@
+package builtins
+
+import (
+	"fmt"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+const refRegions = "E(r) = −(1/4π) ∫ (∂B/∂t)(r') × (r − r')/|r − r'|³ dV' (the Biot–Savart analogy of Faraday's law); checked against the long-solenoid and thin-toroid closed forms and against E = −∂A/∂t of a matching winding (builtins/em/induced_test.go)"
+
+// regionTol is the accuracy of the induced-field volume integral: 1e-6
+// relative (each point costs up to ~10⁷ integrand calls, 0.5 s, inside a
+// region; far less outside).
+var regionTol = em.Tol{Rel: 1e-6}
+
+// Region is a volume where ∂B/∂t is given directly.
+type Region struct{ R em.Region }
+
+func (r *Region) Kind() string { return "a changing-field region" }
+
+func (r *Region) Show(digits int) string {
+	s := fmt.Sprintf("region: %s, volume %s", r.R.Kind, runtime.Format(runtime.Quantity{V: r.R.Volume, D: mustDim("m^3")}, digits))
+	if r.R.FluxRate != 0 {
+		s += ", dΦ/dt " + runtime.Format(runtime.Quantity{V: r.R.FluxRate, D: dimVolt}, digits)
+	}
+	return s
+}
+
+func (r *Region) Summary(digits int) string { return r.Show(digits) }
+
+// regionField makes E of a region as a field.
+func regionField(r *Region) *Field {
+	return &Field{
+		desc: "E of " + r.Show(6),
+		dim:  mustDim("V/m"),
+		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
+			return func(x em.Vec) (em.Vec, error) { return em.RegionE(r.R, x, regionTol) }, nil
+		},
+	}
+}
+
+// dbdtArg reads a rate of change of B: a vector in T/s (uniform) or a
+// function of position returning one.
+func dbdtArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em.Vec) (em.Vec, error), error) {
+	dimRate := mustDim("T/s")
+	switch v := args[i].(type) {
+	case runtime.Vector:
+		if v.D != dimRate {
+			return nil, errorf("%s: ∂B/∂t must be a vector in T/s, not %s", fn, v.D.Describe())
+		}
+		c := toVec(v)
+		return func(em.Vec) (em.Vec, error) { return c, nil }, nil
+	case *runtime.Func:
+		if v.MinArgs > 1 || (v.MaxArgs >= 0 && v.MaxArgs < 1) {
+			return nil, errorf("%s: a ∂B/∂t function takes one argument, the position; %s does not", fn, v.Signature())
+		}
+		return func(x em.Vec) (em.Vec, error) {
+			out, err := v.Invoke(env, []runtime.Value{fromVec(x, dimLength)})
+			if err != nil {
+				return em.Vec{}, err
+			}
+			vv, ok := out.(runtime.Vector)
+			if !ok || vv.D != dimRate {
+				return em.Vec{}, errorf("%s: %s must return a vector in T/s, not %s", fn, v.Signature(), runtime.TypeName(out))
+			}
+			return toVec(vv), nil
+		}, nil
+	}
+	return nil, errorf("%s: ∂B/∂t must be a vector in T/s or a function of position, not %s", fn, runtime.TypeName(args[i]))
+}
+
+func regionFuncs() []*runtime.Func {
+	dimRate := mustDim("T/s")
+	return []*runtime.Func{
+		fnc("dbdt_solenoid", []string{"base", "axis", "radius", "length", "dBdt"}, 5, 5, &runtime.Help{
+			Signature: "dbdt_solenoid(base: position [m], axis: vector, radius: length, length: length, dBdt: T/s) -> region",
+			Summary:   "A cylinder (a long solenoid's interior) where B along axis changes uniformly at dBdt.",
+			Example:   "dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s)",
+			Reference: refRegions,
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			const fn = "dbdt_solenoid"
+			base, ax, r, l, _, err := coilArgs(fn, append(args[:4:4], runtime.Num(1)))
+			if err != nil {
+				return nil, err
+			}
+			rate, err := ofDim(fn, args, 4, dimRate)
+			if err != nil {
+				return nil, err
+			}
+			reg, err := em.NewSolenoidRegion(base, ax, r, l, rate)
+			if err != nil {
+				return nil, geomErr(fn, err)
+			}
+			return &Region{reg}, nil
+		}),
+		fnc("dbdt_toroid", []string{"center", "axis", "r_in", "r_out", "height", "dPhi_dt"}, 6, 6, &runtime.Help{
+			Signature: "dbdt_toroid(center: position [m], axis: vector, r_in: length, r_out: length, height: length, dPhi_dt: Wb/s) -> region",
+			Summary:   "A toroidal core of rectangular section whose flux changes at dPhi_dt (B ∝ 1/r across the section, along +φ right-handed about axis).",
+			Example:   "dbdt_toroid([0, 0, 0] m, [0, 0, 1], 20 mm, 30 mm, 10 mm, 5 V)",
+			Reference: refRegions,
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			const fn = "dbdt_toroid"
+			c, err := point(fn, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			ax, err := axis(fn, args, 1)
+			if err != nil {
+				return nil, err
+			}
+			rin, err := positiveLength(fn, args, 2)
+			if err != nil {
+				return nil, err
+			}
+			rout, err := positiveLength(fn, args, 3)
+			if err != nil {
+				return nil, err
+			}
+			h, err := positiveLength(fn, args, 4)
+			if err != nil {
+				return nil, err
+			}
+			rate, err := ofDim(fn, args, 5, dimVolt)
+			if err != nil {
+				return nil, err
+			}
+			reg, err := em.NewToroidRegion(c, ax, rin, rout, h, rate)
+			if err != nil {
+				return nil, geomErr(fn, err)
+			}
+			return &Region{reg}, nil
+		}),
+		{
+			Name: "dbdt_cylinder", Params: []string{"base", "axis", "radius", "length", "dBdt"}, MinArgs: 5, MaxArgs: 5,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				const fn = "dbdt_cylinder"
+				base, ax, r, l, _, err := coilArgs(fn, append(args[:4:4], runtime.Num(1)))
+				if err != nil {
+					return nil, err
+				}
+				f, err := dbdtArg(env, fn, args, 4)
+				if err != nil {
+					return nil, err
+				}
+				reg, err := em.NewCylinderRegion(base, ax, r, l, f)
+				if err != nil {
+					return nil, geomErr(fn, err)
+				}
+				return &Region{reg}, nil
+			},
+			Help: &runtime.Help{
+				Signature: "dbdt_cylinder(base: position [m], axis: vector, radius: length, length: length, dBdt: vector [T/s] or function of position) -> region",
+				Summary:   "A cylinder in which ∂B/∂t is given: a constant vector or your function of position.",
+				Example:   "dbdt_cylinder([0, 0, 0] m, [0, 0, 1], 10 mm, 20 mm, [0, 0, 50] T/s)",
+				Reference: refRegions,
+			},
+		},
+		{
+			Name: "dbdt_box", Params: []string{"corner", "side1", "side2", "side3", "dBdt"}, MinArgs: 5, MaxArgs: 5,
+			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+				const fn = "dbdt_box"
+				c, err := point(fn, args, 0)
+				if err != nil {
+					return nil, err
+				}
+				var s [3]em.Vec
+				for k := 0; k < 3; k++ {
+					if s[k], err = lengthVec(fn, args, k+1); err != nil {
+						return nil, err
+					}
+				}
+				f, err := dbdtArg(env, fn, args, 4)
+				if err != nil {
+					return nil, err
+				}
+				reg, err := em.NewBoxRegion(c, s[0], s[1], s[2], f)
+				if err != nil {
+					return nil, geomErr(fn, err)
+				}
+				return &Region{reg}, nil
+			},
+			Help: &runtime.Help{
+				Signature: "dbdt_box(corner: position [m], side1, side2, side3: vectors [m], dBdt: vector [T/s] or function of position) -> region",
+				Summary:   "A box (parallelepiped) in which ∂B/∂t is given.",
+				Example:   "dbdt_box([0, 0, 0] m, [10, 0, 0] mm, [0, 10, 0] mm, [0, 0, 10] mm, [0, 0, 50] T/s)",
+				Reference: refRegions,
+			},
+		},
+		{
+			Name: "efield", Params: []string{"source_or_region", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: efieldBuiltin,
+			Help: &runtime.Help{
+				Signature: "efield(source or region, point: position [m][, t: s]) -> vector [V/m]",
+				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes.",
+				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6 (up to ~0.5 s for a point inside a region)",
+				Example:   "efield(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
+				Reference: refRegions,
+			},
+		},
+	}
+}
+
+func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "efield"
+	var f *Field
+	switch v := args[0].(type) {
+	case *Source:
+		f = inducedField(v)
+	case *Region:
+		f = regionField(v)
+	default:
+		return nil, errorf("%s: the first argument must be a source or a region, not %s", fn, runtime.TypeName(args[0]))
+	}
+	x, err := point(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	t, hasT, err := timeArg(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	eval, err := f.prepare(env, fn, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	e, err := eval(x)
+	if err != nil {
+		return nil, fieldErr(fn, err)
+	}
+	return fromVec(e, f.dim), nil
+}
