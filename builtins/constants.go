@@ -89,7 +89,9 @@ func Standard() runtime.Library {
 		{"inductance and force", inductanceFuncs()},
 		{"field calculus", calculusFuncs()},
 		{"solving", solveFuncs()},
+		{"induced E", regionFuncs()},
 		{"safety", cautionFuncs()},
+		{"formulas", formulaFuncs()},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name
