@@ -4,6 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
+	"sort"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -457,35 +461,124 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 			return 0, fmt.Errorf("the turns overlap: the pitch (%.4g m) is less than the wire diameter (%.4g m)", 2*math.Pi*math.Abs(p.Pitch), 2*a)
 		}
 	}
+	n := len(path.Prims)
+	scale := path.scale()
+	nb := touchingPairs(path.Prims, scale)
+	all := compile([]Source{{Path: path, I: 1}})
+	terms := make([]float64, n)
+	errs := make([]error, n)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < min(runtime.GOMAXPROCS(0), n); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			skip := make([]bool, n)
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= n {
+					return
+				}
+				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, tol, all, skip)
+			}
+		}()
+	}
+	wg.Wait()
 	var lext float64
-	for i, p := range path.Prims {
-		s, err := selfTerm(p, a, tol)
+	for i := range terms { // fixed order: the sum does not depend on scheduling
+		if errs[i] != nil {
+			return 0, errs[i]
+		}
+		lext += terms[i]
+	}
+	return lext + Mu0*path.Length()/(8*math.Pi), nil
+}
+
+// selfInductanceTerm is piece i's share of the external inductance: its
+// reduced-kernel self term, the reduced-kernel terms with the pieces it
+// touches, Maxwell's formula with the circles coaxial with it, and the
+// circulation along it of the vector potential of all other pieces.
+func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, tol Tol, all *compiledSources, skip []bool) (float64, error) {
+	p := prims[i]
+	sum, err := selfTerm(p, a, tol)
+	if err != nil {
+		return 0, err
+	}
+	for j := range skip {
+		skip[j] = false
+	}
+	skip[i] = true
+	for _, j := range touch {
+		m, err := reducedPair(p, prims[j], a, tol)
 		if err != nil {
 			return 0, err
 		}
-		lext += s
-		for j, q := range path.Prims {
-			if j == i {
-				continue
+		sum += m
+		skip[j] = true
+	}
+	rest := 0
+	for j, q := range prims {
+		if skip[j] {
+			continue
+		}
+		if ca, cb, d, ok := coaxialCircles(p, q); ok && d > 0 {
+			sum += math.Copysign(MaxwellMutual(ca, math.Abs(cb), d), cb)
+			skip[j] = true
+			continue
+		}
+		rest++
+	}
+	if rest == 0 {
+		return sum, nil
+	}
+	fieldScale := Mu0 * p.Length()
+	v, err := lineIntegral(Path{Prims: []Prim{p}}, func(x Vec) (Vec, error) { return all.atMasked(FieldA, x, skip) }, tol, fieldScale)
+	if errors.Is(err, ErrOnWire) {
+		return 0, errors.New("two pieces of the path cross or overlap; self-inductance needs a path that does not touch itself")
+	}
+	if err != nil {
+		return 0, err
+	}
+	return sum + v, nil
+}
+
+// touchingPairs lists, for each primitive, the others it shares an end
+// point with, using a grid of end points (linear in the number of pieces).
+func touchingPairs(prims []Prim, scale float64) [][]int {
+	cell := 10 * joinTol * scale
+	key := func(x Vec) [3]int64 {
+		return [3]int64{int64(math.Floor(x.X / cell)), int64(math.Floor(x.Y / cell)), int64(math.Floor(x.Z / cell))}
+	}
+	grid := map[[3]int64][]int{}
+	for i, p := range prims {
+		for _, x := range []Vec{p.Start(), p.End()} {
+			k := key(x)
+			if l := grid[k]; len(l) == 0 || l[len(l)-1] != i {
+				grid[k] = append(grid[k], i)
 			}
-			if touching(p, q, path.scale()) {
-				// pieces that meet share the wire's cross-section near the
-				// joint: the reduced kernel there too
-				m, err := reducedPair(p, q, a, tol)
-				if err != nil {
-					return 0, err
-				}
-				lext += m
-				continue
-			}
-			m, err := pairTerm(p, q, tol)
-			if err != nil {
-				return 0, err
-			}
-			lext += m
 		}
 	}
-	return lext + Mu0*path.Length()/(8*math.Pi), nil
+	out := make([][]int, len(prims))
+	for i, p := range prims {
+		seen := map[int]bool{i: true}
+		for _, x := range []Vec{p.Start(), p.End()} {
+			k := key(x)
+			for dx := int64(-1); dx <= 1; dx++ {
+				for dy := int64(-1); dy <= 1; dy++ {
+					for dz := int64(-1); dz <= 1; dz++ {
+						for _, j := range grid[[3]int64{k[0] + dx, k[1] + dy, k[2] + dz}] {
+							if !seen[j] && touching(p, prims[j], scale) {
+								seen[j] = true
+								out[i] = append(out[i], j)
+							}
+						}
+					}
+				}
+			}
+		}
+		sort.Ints(out[i])
+	}
+	return out
 }
 
 // touching reports whether two primitives share an end point.
@@ -538,19 +631,6 @@ func acceptLoose(err error) error {
 	return err
 }
 
-// pairTerm is μ0/4π ∫_q ∫_p dl_p·dl_q/|r − r'| for two different
-// primitives.
-func pairTerm(p, q Prim, tol Tol) (float64, error) {
-	if a, b, d, ok := coaxialCircles(p, q); ok && d > 0 {
-		return math.Copysign(MaxwellMutual(a, math.Abs(b), d), b), nil
-	}
-	scale := Mu0 * math.Max(p.Length(), q.Length())
-	v, err := lineIntegral(Path{Prims: []Prim{q}}, func(x Vec) (Vec, error) { return PrimA(p, x) }, tol, scale)
-	if errors.Is(err, ErrOnWire) {
-		return 0, errors.New("two pieces of the path cross or overlap; self-inductance needs a path that does not touch itself")
-	}
-	return v, err
-}
 
 // selfTerm is μ0/4π ∫∫ dl·dl'/√(|r − r'|² + a²) over one primitive with
 // itself.

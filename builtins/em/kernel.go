@@ -47,23 +47,30 @@ type compiledSources struct {
 	segI    []float64 // segment currents
 	others  []Prim
 	othersI []float64
+	// segIdx and othIdx number each entry by its place among all the
+	// primitives of all the sources, for masking (see atMasked).
+	segIdx, othIdx []int
 }
 
 func compile(srcs []Source) *compiledSources {
 	c := &compiledSources{}
+	k := 0
 	for _, s := range srcs {
-		if s.I == 0 {
-			continue
-		}
 		for _, p := range s.Path.Prims {
+			k++
+			if s.I == 0 {
+				continue
+			}
 			if p.Kind == Segment {
 				c.a = append(c.a, p.A)
 				c.b = append(c.b, p.B)
 				c.l = append(c.l, r3.Norm(r3.Sub(p.B, p.A)))
 				c.segI = append(c.segI, s.I)
+				c.segIdx = append(c.segIdx, k-1)
 			} else {
 				c.others = append(c.others, p)
 				c.othersI = append(c.othersI, s.I)
+				c.othIdx = append(c.othIdx, k-1)
 			}
 		}
 	}
@@ -74,9 +81,18 @@ func compile(srcs []Source) *compiledSources {
 // the other primitives in theirs; always the same order, so the result is
 // bit-identical however the points are shared among workers.
 func (c *compiledSources) at(which Which, x Vec) (Vec, error) {
+	return c.atMasked(which, x, nil)
+}
+
+// atMasked is at without the primitives whose number is set in skip (nil
+// skips none).
+func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error) {
 	var sx, sy, sz float64
 	if which == FieldB {
 		for i := range c.a {
+			if skip != nil && skip[c.segIdx[i]] {
+				continue
+			}
 			r1x, r1y, r1z := c.a[i].X-x.X, c.a[i].Y-x.Y, c.a[i].Z-x.Z
 			r2x, r2y, r2z := c.b[i].X-x.X, c.b[i].Y-x.Y, c.b[i].Z-x.Z
 			n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
@@ -104,6 +120,9 @@ func (c *compiledSources) at(which Which, x Vec) (Vec, error) {
 		}
 	} else {
 		for i := range c.a {
+			if skip != nil && skip[c.segIdx[i]] {
+				continue
+			}
 			v, err := SegmentA(c.a[i], c.b[i], x)
 			if err != nil {
 				return Vec{}, err
@@ -112,6 +131,9 @@ func (c *compiledSources) at(which Which, x Vec) (Vec, error) {
 		}
 	}
 	for i, p := range c.others {
+		if skip != nil && skip[c.othIdx[i]] {
+			continue
+		}
 		var v Vec
 		var err error
 		if which == FieldB {
