@@ -631,7 +631,6 @@ func acceptLoose(err error) error {
 	return err
 }
 
-
 // selfTerm is μ0/4π ∫∫ dl·dl'/√(|r − r'|² + a²) over one primitive with
 // itself.
 func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
