@@ -41,7 +41,16 @@ Scripts
   ` + "```lw" + ` and a line ` + "```" + `, each followed by its recorded result on a
   line starting with ↳. loopwise run/check/record FILE replay them.
 
+Induction
+  Build paths (circle, rings, helix, polygon, …), give them currents with
+  source(path, I), then ask for bfield, flux, emf, mutual, inductance, force,
+  efield, and more; :help NAME explains each with its method and accuracy.
+  Functions are values: I(t) = … makes a current that changes in time,
+  F(p) = … a vector field of position for line_integral, curl and div.
+
 Safety
+  Results above extra-low voltage, high induction-heating power densities
+  and exposure_check results above ICNIRP 2010 levels carry a caution.
   Induced voltages, induction heating and strong magnetic fields can injure.
   Loopwise computes numbers; it does not replace local electrical codes,
   exposure limits or the judgement of a licensed professional.
