@@ -428,6 +428,22 @@ func FuzzInduction(f *testing.F) {
 	for _, in := range inductionFuzzFound {
 		f.Add(in)
 	}
+	for _, in := range []string{ // field calculus, induced E, solving, formulas, safety
+		"curl(field_b(src), [0.1, 0.2, 0.3] m)",
+		"div(field_b(src), [0.1, 0.2, 0.3] m)",
+		"circulation(field_e(wire), small, 1 ms)",
+		"line_integral(field_a(src), open)",
+		"surface_flux(field_b(src), disk([0,0,1] cm, [0,0,1], 2 cm))",
+		"efield(dbdt_box([0,0,0] m, [1,0,0] cm, [0,1,0] cm, [0,0,1] cm, [0,0,1] T/s), [2,2,2] cm)",
+		"ddt(field_b(wire), [0.1,0,0] m, 2 ms)",
+		"solve(I, 1 A, 0 s, 4 ms)",
+		"sweep(I, 0 s, 10 ms, 4)",
+		"wheeler(1 cm, 3 cm, 40)",
+		"exposure_check(300 uT, 50 Hz)",
+		"voltage_check(60 V, \"ac\")",
+	} {
+		f.Add(in)
+	}
 	f.Fuzz(func(t *testing.T, in string) {
 		s := newInductionSession(t)
 		_, err := s.Eval(inductionPos, in)

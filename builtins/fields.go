@@ -17,7 +17,10 @@ const refFields = "Biot–Savart law; closed forms for segments (Hanson & Hirshm
 func fieldErr(fn string, err error) error {
 	var pe *em.PointError
 	var qe *em.QuadError
+	var ae *argError
 	switch {
+	case errors.As(err, &ae):
+		return err // already names the builtin
 	case errors.As(err, &qe):
 		return errorf("%s: the numerical integral stopped short of its accuracy target (error estimate %.2g, target %.2g) after %d evaluations; the geometry may be extreme (very thin wire, very many turns, pieces nearly touching)", fn, qe.Estimate, qe.Target, qe.Evals)
 	case errors.As(err, &pe) && errors.Is(err, em.ErrOnWire):
