@@ -61,17 +61,24 @@ func finite(fn string, x float64, d runtime.Dim) (runtime.Value, error) {
 }
 
 var (
-	dimLength  = mustDim("m")
-	dimArea    = mustDim("m^2")
-	dimTime    = mustDim("s")
-	dimCurrent = mustDim("A")
-	dimTesla   = mustDim("T")
-	dimWeber   = mustDim("Wb")
-	dimVpot    = mustDim("Wb/m")
-	dimVolt    = mustDim("V")
-	dimHenry   = mustDim("H")
-	dimNewton  = mustDim("N")
-	dimSpeed   = mustDim("m/s")
+	dimLength       = mustDim("m")
+	dimArea         = mustDim("m^2")
+	dimTime         = mustDim("s")
+	dimCurrent      = mustDim("A")
+	dimTesla        = mustDim("T")
+	dimWeber        = mustDim("Wb")
+	dimVpot         = mustDim("Wb/m")
+	dimVolt         = mustDim("V")
+	dimHenry        = mustDim("H")
+	dimNewton       = mustDim("N")
+	dimSpeed        = mustDim("m/s")
+	dimHertz        = mustDim("Hz")
+	dimVolume       = mustDim("m^3")
+	dimEfield       = mustDim("V/m")
+	dimRate         = mustDim("T/s")
+	dimCharge       = mustDim("C")
+	dimJoule        = mustDim("J")
+	dimPowerDensity = mustDim("W/m^3")
 )
 
 // Limits that keep absurd requests from exhausting memory or time.
@@ -99,9 +106,6 @@ func point(fn string, args []runtime.Value, i int) (em.Vec, error) {
 	}
 	return toVec(v), nil
 }
-
-// lengthVec returns argument i as a displacement (a vector of lengths).
-func lengthVec(fn string, args []runtime.Value, i int) (em.Vec, error) { return point(fn, args, i) }
 
 // axis returns argument i as a non-zero direction (any unit).
 func axis(fn string, args []runtime.Value, i int) (em.Vec, error) {
@@ -189,4 +193,109 @@ func checkPrims(fn string, n int) error {
 		return errorf("%s: the path would have %d pieces; the limit is %d", fn, n, maxPrims)
 	}
 	return nil
+}
+
+// argReader reads a builtin's arguments in order and keeps the first
+// error, so that a builtin's body reads like its signature:
+//
+//	r := readArgs("circle", args)
+//	c, ax, rad := r.point(0), r.axis(1), r.positiveLength(2)
+//	if r.err != nil {
+//		return nil, r.err
+//	}
+type argReader struct {
+	fn   string
+	args []runtime.Value
+	err  error
+}
+
+func readArgs(fn string, args []runtime.Value) *argReader { return &argReader{fn: fn, args: args} }
+
+func (r *argReader) point(i int) em.Vec {
+	if r.err != nil {
+		return em.Vec{}
+	}
+	v, err := point(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+func (r *argReader) axis(i int) em.Vec {
+	if r.err != nil {
+		return em.Vec{}
+	}
+	v, err := axis(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+func (r *argReader) positiveLength(i int) float64 {
+	if r.err != nil {
+		return 0
+	}
+	v, err := positiveLength(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+func (r *argReader) ofDim(i int, d runtime.Dim) float64 {
+	if r.err != nil {
+		return 0
+	}
+	v, err := ofDim(r.fn, r.args, i, d)
+	r.err = err
+	return v
+}
+
+func (r *argReader) number(i int) float64 {
+	if r.err != nil {
+		return 0
+	}
+	v, err := number(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+func (r *argReader) count(i, lo, hi int) int {
+	if r.err != nil {
+		return 0
+	}
+	v, err := count(r.fn, r.args, i, lo, hi)
+	r.err = err
+	return v
+}
+
+func (r *argReader) path(i int) em.Path {
+	if r.err != nil {
+		return em.Path{}
+	}
+	v, err := pathArg(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+func (r *argReader) source(i int) *Source {
+	if r.err != nil {
+		return nil
+	}
+	v, err := sourceArg(r.fn, r.args, i)
+	r.err = err
+	return v
+}
+
+// time reads the optional time argument at index i.
+func (r *argReader) time(i int) (float64, bool) {
+	if r.err != nil {
+		return 0, false
+	}
+	t, hasT, err := timeArg(r.fn, r.args, i)
+	r.err = err
+	return t, hasT
+}
+
+// fail records an error unless one is already recorded.
+func (r *argReader) fail(err error) {
+	if r.err == nil {
+		r.err = err
+	}
 }

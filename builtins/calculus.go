@@ -125,7 +125,7 @@ func sourceField(which em.Which, src *Source) *Field {
 func inducedField(src *Source) *Field {
 	return &Field{
 		desc:    "E of " + src.Show(6),
-		dim:     mustDim("V/m"),
+		dim:     dimEfield,
 		timeDep: src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			var rates []em.Source
@@ -393,16 +393,14 @@ func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, close
 	if err != nil {
 		return nil, err
 	}
-	p, err := pathArg(fn, args, 1)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	p := r.path(1)
+	t, hasT := r.time(2)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if closed && !p.Closed() {
 		return nil, errorf("%s: the loop is not closed (its end is not its start); use line_integral for an open path", fn)
-	}
-	t, hasT, err := timeArg(fn, args, 2)
-	if err != nil {
-		return nil, err
 	}
 	return lineIntegralOf(env, fn, f, p, t, hasT)
 }
@@ -447,13 +445,11 @@ func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Valu
 	if err != nil {
 		return nil, err
 	}
-	x, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 2)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	x := r.point(1)
+	t, hasT := r.time(2)
+	if r.err != nil {
+		return nil, r.err
 	}
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
@@ -483,13 +479,10 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	if err != nil {
 		return nil, err
 	}
-	x, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	t, err := ofDim(fn, args, 2, dimTime)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	x, t := r.point(1), r.ofDim(2, dimTime)
+	if r.err != nil {
+		return nil, r.err
 	}
 	g := func(s float64) (em.Vec, error) {
 		eval, err := f.prepare(env, fn, s, true)
@@ -513,7 +506,7 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 
 func workBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "work_per_turn"
-	q, err := ofDim(fn, args, 0, mustDim("C"))
+	q, err := ofDim(fn, args, 0, dimCharge)
 	if err != nil {
 		return nil, err
 	}
@@ -525,5 +518,5 @@ func workBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	if c.D != dimVolt {
 		return nil, errorf("%s: the field must be an electric field (V/m); its circulation is %s", fn, c.D.Describe())
 	}
-	return runtime.Quantity{V: q * c.V, D: mustDim("J")}, nil
+	return runtime.Quantity{V: q * c.V, D: dimJoule}, nil
 }

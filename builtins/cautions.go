@@ -25,7 +25,6 @@ const (
 const deferText = "Treat it as hazardous: follow local electrical codes, exposure rules and licensed practice."
 
 var (
-	dimPowerDensity  = mustDim("W/m^3")
 	dimSurfacePower  = mustDim("W/m^2")
 	dimDimensionless runtime.Dim
 )
@@ -82,7 +81,7 @@ func (a *Assessment) Summary(digits int) string {
 // those tables are (from memory).
 func icnirpLimit(f float64, occupational bool) (float64, error) {
 	if !(f >= 1 && f <= 10e6) {
-		return 0, fmt.Errorf("the ICNIRP 2010 reference levels cover 1 Hz to 10 MHz; %s is outside", runtime.Format(runtime.Quantity{V: f, D: mustDim("Hz")}, 4))
+		return 0, fmt.Errorf("the ICNIRP 2010 reference levels cover 1 Hz to 10 MHz; %s is outside", runtime.Format(runtime.Quantity{V: f, D: dimHertz}, 4))
 	}
 	if occupational {
 		switch {
@@ -130,7 +129,6 @@ func groupArg(fn string, args []runtime.Value, i int) (bool, string, error) {
 }
 
 func cautionFuncs() []*runtime.Func {
-	dimHz := mustDim("Hz")
 	return []*runtime.Func{
 		fnc("exposure_limit", []string{"frequency", "group"}, 1, 2, &runtime.Help{
 			Signature: `exposure_limit(frequency: Hz[, group: "public" or "occupational"]) -> T`,
@@ -138,7 +136,7 @@ func cautionFuncs() []*runtime.Func {
 			Example:   "exposure_limit(50 Hz)",
 			Reference: "ICNIRP 2010 guidelines, Health Physics 99(6):818–836, Tables 3 and 4 (from memory); local rules may differ and prevail",
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			f, err := ofDim("exposure_limit", args, 0, dimHz)
+			f, err := ofDim("exposure_limit", args, 0, dimHertz)
 			if err != nil {
 				return nil, err
 			}
@@ -162,7 +160,7 @@ func cautionFuncs() []*runtime.Func {
 			if err != nil {
 				return nil, err
 			}
-			f, err := ofDim("exposure_check", args, 1, dimHz)
+			f, err := ofDim("exposure_check", args, 1, dimHertz)
 			if err != nil {
 				return nil, err
 			}
@@ -181,7 +179,7 @@ func cautionFuncs() []*runtime.Func {
 			}
 			text := fmt.Sprintf("%s is %s the ICNIRP 2010 %s reference level at %s (%s): %s of it",
 				runtime.Format(runtime.Quantity{V: math.Abs(b), D: dimTesla}, 4), verdict, group,
-				runtime.Format(runtime.Quantity{V: f, D: dimHz}, 4), runtime.Format(runtime.Quantity{V: l, D: dimTesla}, 4),
+				runtime.Format(runtime.Quantity{V: f, D: dimHertz}, 4), runtime.Format(runtime.Quantity{V: l, D: dimTesla}, 4),
 				percent(r))
 			return &Assessment{Ratio: r, Text: text + ".", Exceeded: r > 1}, nil
 		}),

@@ -160,17 +160,11 @@ func fieldsOf(env runtime.Env, fn string, which em.Which, src *Source, pts []em.
 }
 
 func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value) (runtime.Value, error) {
-	src, err := sourceArg(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	x, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 2)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	src, x := r.source(0), r.point(1)
+	t, hasT := r.time(2)
+	if r.err != nil {
+		return nil, r.err
 	}
 	out, err := fieldsOf(nil, fn, which, src, []em.Vec{x}, t, hasT)
 	if err != nil {
@@ -185,25 +179,11 @@ func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value
 
 func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "sample_line"
-	src, err := sourceArg(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	a, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	b, err := point(fn, args, 2)
-	if err != nil {
-		return nil, err
-	}
-	n, err := count(fn, args, 3, 2, maxPoints)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 4)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	src, a, b, n := r.source(0), r.point(1), r.point(2), r.count(3, 2, maxPoints)
+	t, hasT := r.time(4)
+	if r.err != nil {
+		return nil, r.err
 	}
 	pts := make([]em.Vec, n)
 	for i := range pts {
@@ -227,36 +207,15 @@ func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 
 func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "sample_plane"
-	src, err := sourceArg(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	o, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	s1, err := lengthVec(fn, args, 2)
-	if err != nil {
-		return nil, err
-	}
-	s2, err := lengthVec(fn, args, 3)
-	if err != nil {
-		return nil, err
-	}
-	n1, err := count(fn, args, 4, 2, maxPoints)
-	if err != nil {
-		return nil, err
-	}
-	n2, err := count(fn, args, 5, 2, maxPoints)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	src, o, s1, s2 := r.source(0), r.point(1), r.point(2), r.point(3)
+	n1, n2 := r.count(4, 2, maxPoints), r.count(5, 2, maxPoints)
+	t, hasT := r.time(6)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if n1*n2 > maxPoints {
 		return nil, errorf("%s: %d × %d points is more than the limit of %d", fn, n1, n2, maxPoints)
-	}
-	t, hasT, err := timeArg(fn, args, 6)
-	if err != nil {
-		return nil, err
 	}
 	pts := make([]em.Vec, 0, n1*n2)
 	uv := make([][2]float64, 0, n1*n2)

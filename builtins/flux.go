@@ -205,20 +205,13 @@ func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64
 
 func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "emf"
-	src, err := sourceArg(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	loop, err := pathArg(fn, args, 1)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	src, loop, t := r.source(0), r.path(1), r.ofDim(2, dimTime)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if !loop.Closed() {
 		return nil, errorf("%s: the loop is not closed (its end is not its start); for a coil model it with rings() or join the helix to its leads; for an open wire moving in a field use motional_emf", fn)
-	}
-	t, err := ofDim(fn, args, 2, dimTime)
-	if err != nil {
-		return nil, err
 	}
 	var e float64
 	for _, term := range src.terms {
@@ -244,25 +237,21 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 
 func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "motional_emf"
-	loop, err := pathArg(fn, args, 0)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	loop := r.path(0)
+	if r.err == nil {
+		vv, err := vector(fn, args, 1)
+		if err == nil && vv.D != dimSpeed {
+			err = errorf("%s: the velocity must be a vector in m/s, not %s", fn, vv.D.Describe())
+		}
+		r.fail(err)
 	}
-	vv, err := vector(fn, args, 1)
-	if err != nil {
-		return nil, err
+	src := r.source(2)
+	t, hasT := r.time(3)
+	if r.err != nil {
+		return nil, r.err
 	}
-	if vv.D != dimSpeed {
-		return nil, errorf("%s: the velocity must be a vector in m/s, not %s", fn, vv.D.Describe())
-	}
-	src, err := sourceArg(fn, args, 2)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 3)
-	if err != nil {
-		return nil, err
-	}
+	vv := args[1].(runtime.Vector)
 	srcs, err := src.sources(env, fn, t, hasT)
 	if err != nil {
 		return nil, err

@@ -35,11 +35,9 @@ const (
 )
 
 var (
-	dimHertz      = mustDim("Hz")
 	dimKelvin     = mustDim("K")
 	dimOhm        = mustDim("ohm")
 	dimOhmMetre   = mustDim("ohm*m")
-	dimPowerDens  = mustDim("W/m^3")
 	refWheeler    = "H. A. Wheeler, \"Simple inductance formulas for radio coils\", Proc. IRE 16 (1928)"
 	refNagaoka    = "H. Nagaoka, \"The inductance coefficients of solenoids\", J. Coll. Sci. Imp. Univ. Tokyo 27 (1909); elliptic integrals by gonum mathext (Fukushima, J. Comput. Appl. Math. 282, 2015)"
 	refToroid     = "Ampère's law for a toroidal current sheet (B = μ0NI/2πr inside, 0 outside), flux linkage integrated over the section; e.g. Griffiths, Introduction to Electrodynamics, 4th ed. (2017), Example 5.10"
@@ -319,7 +317,7 @@ func formulaFuncs() []*runtime.Func {
 			if err != nil {
 				return nil, err
 			}
-			return runtime.Quantity{V: math.Pi * math.Pi * f * f * b * b * d * d / (6 * rho), D: dimPowerDens}, nil
+			return runtime.Quantity{V: math.Pi * math.Pi * f * f * b * b * d * d / (6 * rho), D: dimPowerDensity}, nil
 		}),
 		fnc("transformer_emf", []string{"frequency", "turns", "area", "B_peak"}, 4, 4, &runtime.Help{
 			Signature: "transformer_emf(frequency: Hz, turns, area: m^2, B_peak: T) -> V (rms)",

@@ -38,13 +38,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "segment([0, 0, 0] m, [0, 0, 1] m)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			a, err := point("segment", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			b, err := point("segment", args, 1)
-			if err != nil {
-				return nil, err
+			r := readArgs("segment", args)
+			a, b := r.point(0), r.point(1)
+			if r.err != nil {
+				return nil, r.err
 			}
 			s, err := em.NewSegment(a, b)
 			if err != nil {
@@ -70,17 +67,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "rectangle([0, 0, 0] m, [30, 0, 0] mm, [0, 20, 0] mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			c, err := point("rectangle", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			s1, err := lengthVec("rectangle", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			s2, err := lengthVec("rectangle", args, 2)
-			if err != nil {
-				return nil, err
+			r := readArgs("rectangle", args)
+			c, s1, s2 := r.point(0), r.point(1), r.point(2)
+			if r.err != nil {
+				return nil, r.err
 			}
 			if r3.Norm(r3.Cross(s1, s2)) == 0 {
 				return nil, errorf("rectangle: the sides are parallel or zero; the loop would enclose no area")
@@ -98,19 +88,12 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "circle([0, 0, 0] m, [0, 0, 1], 25 mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			c, err := point("circle", args, 0)
-			if err != nil {
-				return nil, err
+			r := readArgs("circle", args)
+			c, ax, rad := r.point(0), r.axis(1), r.positiveLength(2)
+			if r.err != nil {
+				return nil, r.err
 			}
-			ax, err := axis("circle", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			r, err := positiveLength("circle", args, 2)
-			if err != nil {
-				return nil, err
-			}
-			p, err := em.NewCircle(c, ax, r)
+			p, err := em.NewCircle(c, ax, rad)
 			if err != nil {
 				return nil, geomErr("circle", err)
 			}
@@ -123,21 +106,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "arc([0, 0, 0] m, [0, 0, 1], [20, 0, 0] mm, 90 deg)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			c, err := point("arc", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			ax, err := axis("arc", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			s, err := point("arc", args, 2)
-			if err != nil {
-				return nil, err
-			}
-			ang, err := number("arc", args, 3)
-			if err != nil {
-				return nil, err
+			r := readArgs("arc", args)
+			c, ax, s, ang := r.point(0), r.axis(1), r.point(2), r.number(3)
+			if r.err != nil {
+				return nil, r.err
 			}
 			p, err := em.NewArc(c, ax, s, ang)
 			if err != nil {
@@ -209,13 +181,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "translate(circle([0, 0, 0] m, [0, 0, 1], 25 mm), [0, 0, 10] mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p, err := pathArg("translate", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			v, err := lengthVec("translate", args, 1)
-			if err != nil {
-				return nil, err
+			r := readArgs("translate", args)
+			p, v := r.path(0), r.point(1)
+			if r.err != nil {
+				return nil, r.err
 			}
 			id := func(x em.Vec) em.Vec { return x }
 			return transformed(p, id, em.Vec{}, v), nil
@@ -226,23 +195,14 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "rotate(circle([0, 0, 0] m, [0, 0, 1], 25 mm), [1, 0, 0], 90 deg)",
 			Reference: "gonum spatial/r3 Rotation (unit quaternion)",
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p, err := pathArg("rotate", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			ax, err := axis("rotate", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			ang, err := number("rotate", args, 2)
-			if err != nil {
-				return nil, err
-			}
+			r := readArgs("rotate", args)
+			p, ax, ang := r.path(0), r.axis(1), r.number(2)
 			var origin em.Vec
 			if len(args) > 3 {
-				if origin, err = point("rotate", args, 3); err != nil {
-					return nil, err
-				}
+				origin = r.point(3)
+			}
+			if r.err != nil {
+				return nil, r.err
 			}
 			rot := r3.NewRotation(ang, r3.Unit(ax))
 			return transformed(p, rot.Rotate, origin, em.Vec{}), nil
@@ -284,17 +244,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "repeat(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 10, [0, 0, 1] mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p, err := pathArg("repeat", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			n, err := count("repeat", args, 1, 1, maxPrims)
-			if err != nil {
-				return nil, err
-			}
-			step, err := lengthVec("repeat", args, 2)
-			if err != nil {
-				return nil, err
+			r := readArgs("repeat", args)
+			p, n, step := r.path(0), r.count(1, 1, maxPrims), r.point(2)
+			if r.err != nil {
+				return nil, r.err
 			}
 			if err := checkPrims("repeat", n*len(p.Prims)); err != nil {
 				return nil, err
@@ -326,19 +279,12 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "disk([0, 0, 0] m, [0, 0, 1], 25 mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			c, err := point("disk", args, 0)
-			if err != nil {
-				return nil, err
+			r := readArgs("disk", args)
+			c, ax, rad := r.point(0), r.axis(1), r.positiveLength(2)
+			if r.err != nil {
+				return nil, r.err
 			}
-			ax, err := axis("disk", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			r, err := positiveLength("disk", args, 2)
-			if err != nil {
-				return nil, err
-			}
-			s, err := em.NewDisk(c, ax, r)
+			s, err := em.NewDisk(c, ax, rad)
 			if err != nil {
 				return nil, geomErr("disk", err)
 			}
@@ -350,17 +296,10 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "rect_surface([0, 0, 0] m, [30, 0, 0] mm, [0, 20, 0] mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			c, err := point("rect_surface", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			s1, err := lengthVec("rect_surface", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			s2, err := lengthVec("rect_surface", args, 2)
-			if err != nil {
-				return nil, err
+			r := readArgs("rect_surface", args)
+			c, s1, s2 := r.point(0), r.point(1), r.point(2)
+			if r.err != nil {
+				return nil, r.err
 			}
 			s, err := em.NewRectSurface(c, s1, s2)
 			if err != nil {
@@ -450,27 +389,16 @@ func polyPath(fn string, args []runtime.Value, closed bool) (runtime.Value, erro
 	return pathResult(fn, prims)
 }
 
-func coilArgs(fn string, args []runtime.Value) (base, ax em.Vec, r, l, n float64, err error) {
-	if base, err = point(fn, args, 0); err != nil {
-		return
-	}
-	if ax, err = axis(fn, args, 1); err != nil {
-		return
-	}
-	if r, err = positiveLength(fn, args, 2); err != nil {
-		return
-	}
-	if l, err = ofDim(fn, args, 3, dimLength); err != nil {
-		return
-	}
-	if l < 0 {
+// coilArgs reads (base, axis, radius, length, turns) of a coil.
+func coilArgs(fn string, args []runtime.Value) (base, ax em.Vec, rad, l, n float64, err error) {
+	r := readArgs(fn, args)
+	base, ax, rad, l, n = r.point(0), r.axis(1), r.positiveLength(2), r.ofDim(3, dimLength), r.number(4)
+	switch {
+	case r.err != nil:
+		err = r.err
+	case l < 0:
 		err = errorf("%s: the length must not be negative", fn)
-		return
-	}
-	if n, err = number(fn, args, 4); err != nil {
-		return
-	}
-	if !(n > 0) || math.IsInf(n, 0) {
+	case !(n > 0) || math.IsInf(n, 0):
 		err = errorf("%s: the number of turns must be positive", fn)
 	}
 	return
@@ -490,29 +418,10 @@ func toroidFrame(ax em.Vec) (n, u, v em.Vec) {
 
 func toroidRect(args []runtime.Value) (runtime.Value, error) {
 	const fn = "toroid_rect"
-	c, err := point(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	ax, err := axis(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	rin, err := positiveLength(fn, args, 2)
-	if err != nil {
-		return nil, err
-	}
-	rout, err := positiveLength(fn, args, 3)
-	if err != nil {
-		return nil, err
-	}
-	h, err := positiveLength(fn, args, 4)
-	if err != nil {
-		return nil, err
-	}
-	n, err := count(fn, args, 5, 1, maxTurns)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	c, ax, rin, rout, h, n := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.positiveLength(4), r.count(5, 1, maxTurns)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if rout <= rin {
 		return nil, errorf("%s: the outer radius must be larger than the inner radius", fn)
@@ -541,25 +450,10 @@ func toroidRect(args []runtime.Value) (runtime.Value, error) {
 
 func toroidRound(args []runtime.Value) (runtime.Value, error) {
 	const fn = "toroid_round"
-	c, err := point(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	ax, err := axis(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	big, err := positiveLength(fn, args, 2)
-	if err != nil {
-		return nil, err
-	}
-	small, err := positiveLength(fn, args, 3)
-	if err != nil {
-		return nil, err
-	}
-	n, err := count(fn, args, 4, 1, maxTurns)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	c, ax, big, small, n := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.count(4, 1, maxTurns)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if small >= big {
 		return nil, errorf("%s: the minor radius must be smaller than the major radius", fn)
@@ -571,6 +465,7 @@ func toroidRound(args []runtime.Value) (runtime.Value, error) {
 		s, co := math.Sincos(phi)
 		e := r3.Add(r3.Scale(co, u), r3.Scale(s, v))
 		tangent := r3.Cross(nz, e) // +φ direction: each turn's axis
+		var err error
 		if prims[k], err = em.NewCircle(r3.Add(c, r3.Scale(big, e)), tangent, small); err != nil {
 			return nil, geomErr(fn, err)
 		}

@@ -20,13 +20,10 @@ func inductanceFuncs() []*runtime.Func {
 			Example:   "mutual(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 			Reference: refInductance,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p1, err := pathArg("mutual", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			p2, err := pathArg("mutual", args, 1)
-			if err != nil {
-				return nil, err
+			r := readArgs("mutual", args)
+			p1, p2 := r.path(0), r.path(1)
+			if r.err != nil {
+				return nil, r.err
 			}
 			m, err := em.Mutual(p1, p2, em.MutualOptions{})
 			if err != nil {
@@ -41,17 +38,10 @@ func inductanceFuncs() []*runtime.Func {
 			Example:   "maxwell_mutual(25 mm, 20 mm, 10 mm)",
 			Reference: "Maxwell, A Treatise on Electricity and Magnetism (1873) §701; Grover, Inductance Calculations (1946)",
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			a, err := positiveLength("maxwell_mutual", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			b, err := positiveLength("maxwell_mutual", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			d, err := ofDim("maxwell_mutual", args, 2, dimLength)
-			if err != nil {
-				return nil, err
+			r := readArgs("maxwell_mutual", args)
+			a, b, d := r.positiveLength(0), r.positiveLength(1), r.ofDim(2, dimLength)
+			if r.err != nil {
+				return nil, r.err
 			}
 			if d == 0 && a == b {
 				return nil, errorf("maxwell_mutual: the circles coincide; their mutual inductance is infinite (use inductance() with a wire radius)")
@@ -65,13 +55,10 @@ func inductanceFuncs() []*runtime.Func {
 			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)",
 			Reference: refInductance + "; circular loop μ0R(ln(8R/a) − 7/4)",
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p, err := pathArg("inductance", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			a, err := positiveLength("inductance", args, 1)
-			if err != nil {
-				return nil, err
+			r := readArgs("inductance", args)
+			p, a := r.path(0), r.positiveLength(1)
+			if r.err != nil {
+				return nil, r.err
 			}
 			l, err := em.SelfInductance(p, a, em.DefaultTol)
 			if err != nil {
@@ -86,21 +73,10 @@ func inductanceFuncs() []*runtime.Func {
 			Example:   "coupling(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 0.3 mm, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0.3 mm)",
 			Reference: refInductance,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			p1, err := pathArg("coupling", args, 0)
-			if err != nil {
-				return nil, err
-			}
-			a1, err := positiveLength("coupling", args, 1)
-			if err != nil {
-				return nil, err
-			}
-			p2, err := pathArg("coupling", args, 2)
-			if err != nil {
-				return nil, err
-			}
-			a2, err := positiveLength("coupling", args, 3)
-			if err != nil {
-				return nil, err
+			r := readArgs("coupling", args)
+			p1, a1, p2, a2 := r.path(0), r.positiveLength(1), r.path(2), r.positiveLength(3)
+			if r.err != nil {
+				return nil, r.err
 			}
 			m, err := em.Mutual(p1, p2, em.MutualOptions{})
 			if err != nil {
@@ -132,17 +108,11 @@ func inductanceFuncs() []*runtime.Func {
 
 func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "force"
-	src, err := sourceArg(fn, args, 0)
-	if err != nil {
-		return nil, err
-	}
-	p, err := pathArg(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 3)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	src, p := r.source(0), r.path(1)
+	t, hasT := r.time(3)
+	if r.err != nil {
+		return nil, r.err
 	}
 	if f, ok := args[2].(*runtime.Func); ok && !hasT {
 		return nil, errorf("%s: the path's current %s depends on time; give the time as the last argument", fn, f.Signature())

@@ -20,7 +20,7 @@ type Region struct{ R em.Region }
 func (r *Region) Kind() string { return "a changing-field region" }
 
 func (r *Region) Show(digits int) string {
-	s := fmt.Sprintf("region: %s, volume %s", r.R.Kind, runtime.Format(runtime.Quantity{V: r.R.Volume, D: mustDim("m^3")}, digits))
+	s := fmt.Sprintf("region: %s, volume %s", r.R.Kind, runtime.Format(runtime.Quantity{V: r.R.Volume, D: dimVolume}, digits))
 	if r.R.FluxRate != 0 {
 		s += ", dΦ/dt " + runtime.Format(runtime.Quantity{V: r.R.FluxRate, D: dimVolt}, digits)
 	}
@@ -33,7 +33,7 @@ func (r *Region) Summary(digits int) string { return r.Show(digits) }
 func regionField(r *Region) *Field {
 	return &Field{
 		desc: "E of " + r.Show(6),
-		dim:  mustDim("V/m"),
+		dim:  dimEfield,
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			return func(x em.Vec) (em.Vec, error) { return em.RegionE(r.R, x, regionTol) }, nil
 		},
@@ -43,7 +43,6 @@ func regionField(r *Region) *Field {
 // dbdtArg reads a rate of change of B: a vector in T/s (uniform) or a
 // function of position returning one.
 func dbdtArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em.Vec) (em.Vec, error), error) {
-	dimRate := mustDim("T/s")
 	switch v := args[i].(type) {
 	case runtime.Vector:
 		if v.D != dimRate {
@@ -71,7 +70,6 @@ func dbdtArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em
 }
 
 func regionFuncs() []*runtime.Func {
-	dimRate := mustDim("T/s")
 	return []*runtime.Func{
 		fnc("dbdt_solenoid", []string{"base", "axis", "radius", "length", "dBdt"}, 5, 5, &runtime.Help{
 			Signature: "dbdt_solenoid(base: position [m], axis: vector, radius: length, length: length, dBdt: T/s) -> region",
@@ -80,15 +78,12 @@ func regionFuncs() []*runtime.Func {
 			Reference: refRegions,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "dbdt_solenoid"
-			base, ax, r, l, _, err := coilArgs(fn, append(args[:4:4], runtime.Num(1)))
-			if err != nil {
-				return nil, err
+			r := readArgs(fn, args)
+			base, ax, rad, l, rate := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.ofDim(4, dimRate)
+			if r.err != nil {
+				return nil, r.err
 			}
-			rate, err := ofDim(fn, args, 4, dimRate)
-			if err != nil {
-				return nil, err
-			}
-			reg, err := em.NewSolenoidRegion(base, ax, r, l, rate)
+			reg, err := em.NewSolenoidRegion(base, ax, rad, l, rate)
 			if err != nil {
 				return nil, geomErr(fn, err)
 			}
@@ -101,29 +96,10 @@ func regionFuncs() []*runtime.Func {
 			Reference: refRegions,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "dbdt_toroid"
-			c, err := point(fn, args, 0)
-			if err != nil {
-				return nil, err
-			}
-			ax, err := axis(fn, args, 1)
-			if err != nil {
-				return nil, err
-			}
-			rin, err := positiveLength(fn, args, 2)
-			if err != nil {
-				return nil, err
-			}
-			rout, err := positiveLength(fn, args, 3)
-			if err != nil {
-				return nil, err
-			}
-			h, err := positiveLength(fn, args, 4)
-			if err != nil {
-				return nil, err
-			}
-			rate, err := ofDim(fn, args, 5, dimVolt)
-			if err != nil {
-				return nil, err
+			r := readArgs(fn, args)
+			c, ax, rin, rout, h, rate := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.positiveLength(4), r.ofDim(5, dimVolt)
+			if r.err != nil {
+				return nil, r.err
 			}
 			reg, err := em.NewToroidRegion(c, ax, rin, rout, h, rate)
 			if err != nil {
@@ -135,15 +111,16 @@ func regionFuncs() []*runtime.Func {
 			Name: "dbdt_cylinder", Params: []string{"base", "axis", "radius", "length", "dBdt"}, MinArgs: 5, MaxArgs: 5,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 				const fn = "dbdt_cylinder"
-				base, ax, r, l, _, err := coilArgs(fn, append(args[:4:4], runtime.Num(1)))
-				if err != nil {
-					return nil, err
+				r := readArgs(fn, args)
+				base, ax, rad, l := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3)
+				if r.err != nil {
+					return nil, r.err
 				}
 				f, err := dbdtArg(env, fn, args, 4)
 				if err != nil {
 					return nil, err
 				}
-				reg, err := em.NewCylinderRegion(base, ax, r, l, f)
+				reg, err := em.NewCylinderRegion(base, ax, rad, l, f)
 				if err != nil {
 					return nil, geomErr(fn, err)
 				}
@@ -160,15 +137,10 @@ func regionFuncs() []*runtime.Func {
 			Name: "dbdt_box", Params: []string{"corner", "side1", "side2", "side3", "dBdt"}, MinArgs: 5, MaxArgs: 5,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 				const fn = "dbdt_box"
-				c, err := point(fn, args, 0)
-				if err != nil {
-					return nil, err
-				}
-				var s [3]em.Vec
-				for k := 0; k < 3; k++ {
-					if s[k], err = lengthVec(fn, args, k+1); err != nil {
-						return nil, err
-					}
+				r := readArgs(fn, args)
+				c, s := r.point(0), [3]em.Vec{r.point(1), r.point(2), r.point(3)}
+				if r.err != nil {
+					return nil, r.err
 				}
 				f, err := dbdtArg(env, fn, args, 4)
 				if err != nil {
@@ -212,13 +184,11 @@ func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error)
 	default:
 		return nil, errorf("%s: the first argument must be a source or a region, not %s", fn, runtime.TypeName(args[0]))
 	}
-	x, err := point(fn, args, 1)
-	if err != nil {
-		return nil, err
-	}
-	t, hasT, err := timeArg(fn, args, 2)
-	if err != nil {
-		return nil, err
+	r := readArgs(fn, args)
+	x := r.point(1)
+	t, hasT := r.time(2)
+	if r.err != nil {
+		return nil, r.err
 	}
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
