@@ -344,9 +344,9 @@ func calculusFuncs() []*runtime.Func {
 			},
 			Help: &runtime.Help{
 				Signature: "curl(field, point: position [m][, t: s]) -> vector [field unit/m]",
-				Summary:   "∇ × F at a point.",
+				Summary:   "∇ × F at a point. (For B of a wire that is not a closed circuit the curl is not zero off the wire: an open piece of wire does not conserve current.)",
 				Method:    "each partial derivative by central differences with one Richardson step; of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used (typically 1e-9 relative to the field's gradient); refuses near wires and region boundaries where the field is not smooth",
-				Example:   "curl(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), [20, 0, 0] mm)",
+				Example:   "F(p) = [-p.y, p.x, 0] * 1 T/m; curl(F, [1, 2, 3] m)",
 				Reference: refCalculus,
 			},
 		},

@@ -51,7 +51,7 @@ func inductanceFuncs() []*runtime.Func {
 		fnc("inductance", []string{"path", "wire_radius"}, 2, 2, &runtime.Help{
 			Signature: "inductance(path, wire_radius: length) -> H",
 			Summary:   "Low-frequency self-inductance of a path of round wire (uniform current); for an open path, e.g. a coil without its leads, the partial self-inductance.",
-			Method:    "external part by Neumann's integral with the reduced kernel 1/√(|r−r'|² + a²) for each piece with itself (one adaptive integral) and the exact kernel between pieces; plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing",
+			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores",
 			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)",
 			Reference: refInductance + "; circular loop μ0R(ln(8R/a) − 7/4)",
 		}, func(args []runtime.Value) (runtime.Value, error) {
