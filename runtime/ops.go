@@ -270,21 +270,31 @@ func Compare(op string, a, b Value) (Value, error) {
 	return nil, dimErr("cannot compare %s with %s using %s", TypeName(a), TypeName(b), op)
 }
 
-// MakeVector builds a vector from three quantities of one dimension.
+// MakeVector builds a vector from three quantities of one dimension. A
+// plain zero fits any dimension, so [-p.y, p.x, 0] works for lengths.
 func MakeVector(args []Value) (Value, error) {
 	if len(args) != 3 {
 		return nil, evalErr("a vector needs exactly 3 components, got %d", len(args))
 	}
 	var v Vector
+	var qs [3]Quantity
+	first := -1
 	for i, a := range args {
 		q, ok := normalize(a).(Quantity)
 		if !ok {
 			return nil, dimErr("vector component %d is %s, not a quantity", i+1, TypeName(a))
 		}
-		if i == 0 {
-			v.D = q.D
-		} else if q.D != v.D {
-			return nil, dimErr("vector components must share one dimension: component 1 is %s, component %d is %s", v.D.Describe(), i+1, q.D.Describe())
+		qs[i] = q
+		if first < 0 && !(q.V == 0 && q.D.IsZero()) {
+			first = i
+		}
+	}
+	if first >= 0 {
+		v.D = qs[first].D
+	}
+	for i, q := range qs {
+		if q.D != v.D && !(q.V == 0 && q.D.IsZero()) {
+			return nil, dimErr("vector components must share one dimension: component %d is %s, component %d is %s", first+1, v.D.Describe(), i+1, q.D.Describe())
 		}
 		v.V[i] = q.V
 	}

@@ -402,3 +402,21 @@ func TestComponent(t *testing.T) {
 	_, err := runtime.Component(q(t, 1, "m"), 0)
 	wantDimError(t, "(1 m).x", err, "length (m)")
 }
+
+// TestVectorPlainZero: a plain zero component takes the dimension of the
+// others (project convention: 0 is 0 in any unit), any other mismatch is an
+// error.
+func TestVectorPlainZero(t *testing.T) {
+	m := runtime.Quantity{V: 2, D: runtime.Dim{1}}
+	v, err := runtime.MakeVector([]runtime.Value{runtime.Num(0), m, runtime.Num(0)})
+	if err != nil || v.(runtime.Vector).D != m.D || v.(runtime.Vector).V != [3]float64{0, 2, 0} {
+		t.Errorf("[0, 2 m, 0] = %v, %v; want [0, 2, 0] m", v, err)
+	}
+	if _, err := runtime.MakeVector([]runtime.Value{runtime.Num(1), m, runtime.Num(0)}); err == nil {
+		t.Error("[1, 2 m, 0] accepted; a non-zero plain number does not fit a length")
+	}
+	z, err := runtime.MakeVector([]runtime.Value{runtime.Num(0), runtime.Num(0), runtime.Num(0)})
+	if err != nil || !z.(runtime.Vector).D.IsZero() {
+		t.Errorf("[0, 0, 0] = %v, %v; want a dimensionless zero vector", z, err)
+	}
+}
