@@ -468,3 +468,15 @@ func TestShadowBuiltin(t *testing.T) {
 		t.Error("pi = 3 succeeded; constants must not be rebound")
 	}
 }
+
+// TestFailedAsLeavesNameUnassigned: "x = 3 T as mm" fails on its display
+// unit, and x must not be left assigned (a failed statement changes nothing).
+func TestFailedAsLeavesNameUnassigned(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	if _, err := s.Eval(lang.Pos{Line: 1, Col: 1}, "x = 3 T as mm"); err == nil {
+		t.Fatal("x = 3 T as mm succeeded")
+	}
+	if _, ok := s.Lookup("x"); ok {
+		t.Error("x was assigned by a failed statement")
+	}
+}

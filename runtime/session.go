@@ -151,6 +151,11 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	note := ""
 	if st.Kind == lang.Assign {
 		note = s.shadowNote(st.Name)
+		if unit != "" { // a bad "as" unit must not leave the name assigned
+			if _, err := s.show(st, v, unit, s.Digits); err != nil {
+				return nil, err
+			}
+		}
 		if err := s.assign(st, v); err != nil {
 			return nil, err
 		}
