@@ -2,6 +2,7 @@ package builtins_test
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
@@ -106,5 +107,25 @@ func TestLanguageInduction(t *testing.T) {
 	bt := run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)", "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), I), [0,0,0] m, 1 ms)").(runtime.Vector)
 	if want := b1.V[2] * 5 * math.Sin(2*math.Pi*60*1e-3); !scalar.EqualWithinAbsOrRel(bt.V[2], want, 0, 1e-13) {
 		t.Errorf("B(t) = %g, want %g", bt.V[2], want)
+	}
+}
+
+// TestLongTableShown: a long table shows its first 40 and last 10 rows
+// around a count of the rest (project convention), and an assignment of a
+// table shows its one-line summary.
+func TestLongTableShown(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	s.Eval(lang.Pos{Line: 1, Col: 1}, "src = source(circle([0,0,0] m, [0,0,1], 25 mm), 2 A)")
+	res, err := s.Eval(lang.Pos{Line: 2, Col: 1}, "sample_line(src, [0,0,-50] mm, [0,0,50] mm, 200)")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(res.Text, "\n")
+	if len(lines) != 1+40+1+10 || lines[41] != "… 150 more rows …" {
+		t.Errorf("table shown in %d lines; line 42 = %q", len(lines), lines[min(41, len(lines)-1)])
+	}
+	res, err = s.Eval(lang.Pos{Line: 3, Col: 1}, "t = sample_line(src, [0,0,-50] mm, [0,0,50] mm, 200)")
+	if err != nil || !strings.HasPrefix(res.Text, "table of 200 rows: ") {
+		t.Errorf("assignment shows %q, %v", res.Text, err)
 	}
 }

@@ -187,9 +187,19 @@ func (t *Table) columnUnits(digits int) ([]string, []float64) {
 	return units, scales
 }
 
+// showRows is the most rows a table shows; longer tables show their first
+// and last rows around a count of the rest.
+const showRows = 50
+
 func (t *Table) Show(digits int) string {
 	units, scales := t.columnUnits(digits)
-	cells := make([][]string, len(t.Rows)+1)
+	rows := t.Rows
+	hidden := 0
+	if len(rows) > showRows {
+		hidden = len(rows) - showRows
+		rows = append(append([][]float64{}, t.Rows[:showRows-10]...), t.Rows[len(t.Rows)-10:]...)
+	}
+	cells := make([][]string, len(rows)+1)
 	cells[0] = make([]string, len(t.Cols))
 	for j, c := range t.Cols {
 		cells[0][j] = c
@@ -197,7 +207,7 @@ func (t *Table) Show(digits int) string {
 			cells[0][j] = c + " [" + units[j] + "]"
 		}
 	}
-	for i, r := range t.Rows {
+	for i, r := range rows {
 		cells[i+1] = make([]string, len(r))
 		for j, x := range r {
 			cells[i+1][j] = runtime.FormatNumber(x/scales[j], digits)
@@ -214,6 +224,9 @@ func (t *Table) Show(digits int) string {
 		b.WriteString(t.Title + "\n")
 	}
 	for i, row := range cells {
+		if hidden > 0 && i == showRows-10+1 {
+			fmt.Fprintf(&b, "… %d more rows …\n", hidden)
+		}
 		for j, c := range row {
 			if j > 0 {
 				b.WriteString("  ")

@@ -176,6 +176,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if err != nil {
 		return nil, err
 	}
+	if sh, ok := v.(Shower); ok && st.Kind == lang.Assign {
+		text = sh.Summary(s.Digits) // a name for a table; show it by typing its name
+	}
 	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
 	if sh, ok := v.(Shower); ok {
 		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script

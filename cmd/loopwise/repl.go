@@ -72,15 +72,15 @@ func (c *console) line(text string) (quit bool) {
 		c.fail(err)
 		return false
 	}
-	if res.Note != "" {
-		fmt.Fprintln(c.errOut, res.Note)
-	}
 	switch {
 	case st.Kind == lang.Empty:
 	case st.Kind == lang.Assign:
 		fmt.Fprintf(c.out, "%s = %s\n", st.Name, res.Text)
 	default:
 		fmt.Fprintln(c.out, res.Text)
+	}
+	if res.Note != "" {
+		fmt.Fprintln(c.errOut, res.Note)
 	}
 	return false
 }
