@@ -374,3 +374,12 @@ func editDistance(a, b string) int {
 func sharesFirst(a, b string) bool {
 	return a != "" && b != "" && []rune(a)[0] == []rune(b)[0]
 }
+
+// PrefixSymbols lists the accepted SI prefix symbols, smallest first.
+func PrefixSymbols() []string {
+	out := make([]string, len(siPrefixes))
+	for i, p := range siPrefixes {
+		out[i] = p.Sym
+	}
+	return out
+}

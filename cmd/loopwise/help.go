@@ -23,7 +23,7 @@ Statements
 Numbers and units
   A unit follows a number, with or without a space: 5 mT, 3 A/ms, 2 kg*m^2/s^2.
   Compound units are written without spaces; a space ends the unit (2 m * s
-  multiplies by a name s). Prefixes f p n u µ m c k M G T; u means micro.
+  multiplies by a name s). Prefixes f p n u µ m c d da h k M G T P E; u = micro.
   Vectors: [0, 0, 5] mm, with + - * / by scalars, dot, cross, norm, .x .y .z.
   Operators: + - * / % ^ (power), comparisons == != < <= > >=, and/or/not.
 

@@ -125,7 +125,7 @@ func (c *console) units(filter string) {
 		}
 		fmt.Fprintf(c.out, "%-8s %-25s %-33s %s\n", u.Sym+pre, u.Name, size, u.Defined)
 	}
-	fmt.Fprintln(c.out, "* takes SI prefixes: f p n u µ m c k M G T (u is micro, like µ)")
+	fmt.Fprintf(c.out, "* takes SI prefixes: %s (u is micro, like µ)\n", strings.Join(runtime.PrefixSymbols(), " "))
 	fmt.Fprintln(c.out, "compound units need no spaces: 3 A/ms, 2 kg*m^2/s^2, 1.5 W/(m*K)")
 }
 
