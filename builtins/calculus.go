@@ -440,23 +440,32 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 	return runtime.Quantity{V: v, D: f.dim.Mul(dimArea)}, nil
 }
 
+// evalAtPoint reads the point (args[1]) and optional time (args[2]) of a
+// builtin, prepares the field for that time and evaluates it at the point.
+func evalAtPoint(env runtime.Env, fn string, f *Field, args []runtime.Value) (eval func(em.Vec) (em.Vec, error), x, v em.Vec, err error) {
+	r := readArgs(fn, args)
+	x = r.point(1)
+	t, hasT := r.time(2)
+	if r.err != nil {
+		return nil, x, v, r.err
+	}
+	if eval, err = f.prepare(env, fn, t, hasT); err != nil {
+		return nil, x, v, err
+	}
+	if v, err = eval(x); err != nil {
+		return nil, x, v, fieldErr(fn, err)
+	}
+	return eval, x, v, nil
+}
+
 func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Value, error) {
 	f, err := fieldArg(fn, args, 0)
 	if err != nil {
 		return nil, err
 	}
-	r := readArgs(fn, args)
-	x := r.point(1)
-	t, hasT := r.time(2)
-	if r.err != nil {
-		return nil, r.err
-	}
-	eval, err := f.prepare(env, fn, t, hasT)
+	eval, x, _, err := evalAtPoint(env, fn, f, args)
 	if err != nil {
 		return nil, err
-	}
-	if _, err := eval(x); err != nil {
-		return nil, fieldErr(fn, err)
 	}
 	j, err := jacobian(eval, x)
 	if err != nil {

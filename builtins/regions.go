@@ -184,19 +184,9 @@ func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error)
 	default:
 		return nil, errorf("%s: the first argument must be a source or a region, not %s", fn, runtime.TypeName(args[0]))
 	}
-	r := readArgs(fn, args)
-	x := r.point(1)
-	t, hasT := r.time(2)
-	if r.err != nil {
-		return nil, r.err
-	}
-	eval, err := f.prepare(env, fn, t, hasT)
+	_, _, e, err := evalAtPoint(env, fn, f, args)
 	if err != nil {
 		return nil, err
-	}
-	e, err := eval(x)
-	if err != nil {
-		return nil, fieldErr(fn, err)
 	}
 	return fromVec(e, f.dim), nil
 }
