@@ -85,7 +85,7 @@ func fieldArg(fn string, args []runtime.Value, i int) (*Field, error) {
 	case *runtime.Func:
 		return userField(fn, f)
 	case *Source:
-		return nil, errorf("%s: the %s argument must be a vector field; make one from the source with field_b(...), field_a(...) or field_e(...)", fn, ordinal(i))
+		return nil, errorf("%s: the %s argument must be a vector field; make one from the source with b_field(...), a_field(...) or e_field(...)", fn, ordinal(i))
 	}
 	return nil, errorf("%s: the %s argument must be a vector field or a function of position, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
 }
@@ -260,41 +260,41 @@ func jacobian(eval func(em.Vec) (em.Vec, error), x em.Vec) ([3]em.Vec, error) {
 
 func calculusFuncs() []*runtime.Func {
 	return []*runtime.Func{
-		fnc("field_b", []string{"source"}, 1, 1, &runtime.Help{
-			Signature: "field_b(source) -> field [T]",
+		fnc("b_field", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "b_field(source) -> field [T]",
 			Summary:   "The magnetic flux density of a source as a vector field, for line integrals, flux, curl and divergence.",
-			Example:   "field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
+			Example:   "b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
 			Reference: refFields,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			src, err := sourceArg("field_b", args, 0)
+			src, err := sourceArg("b_field", args, 0)
 			if err != nil {
 				return nil, err
 			}
 			return sourceField(em.FieldB, src), nil
 		}),
-		fnc("field_e", []string{"source"}, 1, 1, &runtime.Help{
-			Signature: "field_e(source or region) -> field [V/m]",
-			Summary:   "The induced electric field: E = −∂A/∂t of a source whose currents change in time (give t when using it), or of a region where B changes (see efield).",
+		fnc("e_field", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "e_field(source or region) -> field [V/m]",
+			Summary:   "The induced electric field: E = −∂A/∂t of a source whose currents change in time (give t when using it), or of a region where B changes (see e_at).",
 			Method:    "E = −Σ Aₖ·dIₖ/dt with each path's closed-form vector potential per ampere and dI/dt as in emf()",
-			Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); efield = field_e(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)); circulation(efield, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
+			Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); E = e_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)); circulation(E, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
 			Reference: "E = −∂A/∂t (Coulomb gauge, no charges); Faraday's law",
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			if r, ok := args[0].(*Region); ok {
 				return regionField(r), nil
 			}
-			src, err := sourceArg("field_e", args, 0)
+			src, err := sourceArg("e_field", args, 0)
 			if err != nil {
-				return nil, errorf("field_e: the argument must be a source or a region, not %s", runtime.TypeName(args[0]))
+				return nil, errorf("e_field: the argument must be a source or a region, not %s", runtime.TypeName(args[0]))
 			}
 			return inducedField(src), nil
 		}),
-		fnc("field_a", []string{"source"}, 1, 1, &runtime.Help{
-			Signature: "field_a(source) -> field [Wb/m]",
+		fnc("a_field", []string{"source"}, 1, 1, &runtime.Help{
+			Signature: "a_field(source) -> field [Wb/m]",
 			Summary:   "The vector potential of a source as a vector field.",
-			Example:   "field_a(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
+			Example:   "a_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A))",
 			Reference: refFields,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			src, err := sourceArg("field_a", args, 0)
+			src, err := sourceArg("a_field", args, 0)
 			if err != nil {
 				return nil, err
 			}
@@ -309,7 +309,7 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "line_integral(field, path[, t: s]) -> field unit·m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
 				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), relative 1e-10",
-				Example:   "line_integral(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
+				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
 			},
 		},
@@ -322,7 +322,7 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "circulation(field, loop: closed path[, t: s]) -> field unit·m",
 				Summary:   "∮ F·dl around a closed loop (for an electric field, the EMF around the loop).",
 				Method:    "as line_integral; the loop must be closed",
-				Example:   "circulation(field_b(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
+				Example:   "circulation(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus,
 			},
 		},
@@ -333,7 +333,7 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "surface_flux(field, surface[, t: s]) -> field unit·m^2",
 				Summary:   "∬ F·dA over a surface, oriented by its normal.",
 				Method:    "adaptive 2-D Gauss–Kronrod, relative 1e-10",
-				Example:   "surface_flux(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
+				Example:   "surface_flux(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refCalculus,
 			},
 		},
@@ -359,7 +359,7 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "div(field, point: position [m][, t: s]) -> field unit/m",
 				Summary:   "∇ · F at a point (for B it is zero: a check of a field's consistency).",
 				Method:    "as curl",
-				Example:   "div(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [10, 5, 3] mm)",
+				Example:   "div(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [10, 5, 3] mm)",
 				Reference: refCalculus,
 			},
 		},
@@ -370,18 +370,18 @@ func calculusFuncs() []*runtime.Func {
 				Signature: "ddt(field, point: position [m], t: s) -> vector [field unit/s]",
 				Summary:   "∂F/∂t at a point and time, for fields of time-varying sources or functions of time.",
 				Method:    "central differences in time with one Richardson step, step searched from 1 ps up to 1 s (as emf)",
-				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); ddt(field_b(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 0] m, 0 s)",
+				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); ddt(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 0] m, 0 s)",
 				Reference: refCalculus,
 			},
 		},
 		{
-			Name: "work_per_turn", Params: []string{"charge", "efield", "loop", "t"}, MinArgs: 3, MaxArgs: 4,
+			Name: "work_per_turn", Params: []string{"charge", "E", "loop", "t"}, MinArgs: 3, MaxArgs: 4,
 			CallEnv: workBuiltin,
 			Help: &runtime.Help{
-				Signature: "work_per_turn(charge: C, efield: field [V/m], loop: closed path[, t: s]) -> J",
+				Signature: "work_per_turn(charge: C, E: field [V/m], loop: closed path[, t: s]) -> J",
 				Summary:   "Work W = q∮E·dl the induced electric field does on a charge carried once around the loop; not zero, because an induced E is not conservative.",
 				Method:    "circulation of the field",
-				Example:   "I(t) = 200 A * sin(2*pi*50 Hz*t); work_per_turn(e, field_e(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s) as eV",
+				Example:   "I(t) = 200 A * sin(2*pi*50 Hz*t); work_per_turn(e, e_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s) as eV",
 				Reference: refCalculus + "; Faraday: ∮E·dl = −dΦ/dt",
 			},
 		},

@@ -40,8 +40,8 @@ func TestStokesAndFaraday(t *testing.T) {
 	setup := []string{
 		"I(t) = 3 A * sin(2*pi*60 Hz*t) + 1 A * t / (1 s)",
 		"src = source(circle([0,0,0] m, [0,0,1], 40 mm), I)",
-		"E = field_e(src)",
-		"Bf = field_b(src)",
+		"E = e_field(src)",
+		"Bf = b_field(src)",
 	}
 	s := runtime.NewSession(builtins.Standard())
 	for i, l := range setup {
@@ -76,8 +76,8 @@ func TestStokesAndFaraday(t *testing.T) {
 			t.Errorf("at %s: curl E = %v, −∂B/∂t = %v", p, curlE, dBdt)
 		}
 		div := q(t, ev("div(Bf, "+p+", 2 ms)"), "T/m")
-		grad := vecOf(t, ev("curl(field_b(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A)), "+p+")"))
-		bmag := vecOf(t, ev("bfield(src, "+p+", 2 ms)"))
+		grad := vecOf(t, ev("curl(b_field(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A)), "+p+")"))
+		bmag := vecOf(t, ev("b_at(src, "+p+", 2 ms)"))
 		scale := math.Sqrt(bmag[0]*bmag[0]+bmag[1]*bmag[1]+bmag[2]*bmag[2]) / 0.01
 		if math.Abs(div) > 1e-6*scale {
 			t.Errorf("at %s: div B = %g T/m, want 0 (scale %g; curl of the static field %v)", p, div, scale, grad)
@@ -90,7 +90,7 @@ func TestStokesAndFaraday(t *testing.T) {
 func TestWorkPerTurn(t *testing.T) {
 	w := q(t, run(t, "I(t) = 200 A * sin(2*pi*50 Hz*t)",
 		"src = source(circle([0,0,0] m, [0,0,1], 25 mm), I)",
-		"work_per_turn(e, field_e(src), circle([0,0,10] mm, [0,0,1], 20 mm), 0 s)"), "J")
+		"work_per_turn(e, e_field(src), circle([0,0,10] mm, [0,0,1], 20 mm), 0 s)"), "J")
 	emf := q(t, run(t, "I(t) = 200 A * sin(2*pi*50 Hz*t)",
 		"emf(source(circle([0,0,0] m, [0,0,1], 25 mm), I), circle([0,0,10] mm, [0,0,1], 20 mm), 0 s)"), "V")
 	if !scalar.EqualWithinAbsOrRel(w, 1.602176634e-19*emf, 0, 1e-9) || w == 0 {

@@ -65,11 +65,11 @@ var inductionCases = []inductionCase{
 	{name: "arc of zero angle", in: "arc([0,0,0] m, [0,0,1], [1,0,0] m, 0 deg)", want: []string{"arc", "zero length"}},
 
 	// Field points on a wire.
-	{name: "field point on a straight wire", in: "bfield(wire, [0,0,0.5] m, 5 ms)", want: []string{"bfield", "lies on a wire"}},
-	{name: "field point at the end of a wire", in: "bfield(wire, [0,0,1] m, 5 ms)", want: []string{"lies on a wire"}},
-	{name: "field point on a circle", in: "bfield(src, [0,50,0] mm)", want: []string{"lies on a wire"}},
-	{name: "field point on a helix", in: "bfield(source(helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 5), 1 A), [10,0,0] mm)", want: []string{"lies on a wire"}},
-	{name: "vector potential on a circle", in: "vpot(src, [-50,0,0] mm)", want: []string{"vpot", "lies on a wire"}},
+	{name: "field point on a straight wire", in: "b_at(wire, [0,0,0.5] m, 5 ms)", want: []string{"b_at", "lies on a wire"}},
+	{name: "field point at the end of a wire", in: "b_at(wire, [0,0,1] m, 5 ms)", want: []string{"lies on a wire"}},
+	{name: "field point on a circle", in: "b_at(src, [0,50,0] mm)", want: []string{"lies on a wire"}},
+	{name: "field point on a helix", in: "b_at(source(helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 5), 1 A), [10,0,0] mm)", want: []string{"lies on a wire"}},
+	{name: "vector potential on a circle", in: "a_at(src, [-50,0,0] mm)", want: []string{"a_at", "lies on a wire"}},
 	{name: "sample_line hits the wire at its third point", in: "sample_line(src, [0,0,0] mm, [100,0,0] mm, 5)", want: []string{"sample_line", "point 3", "lies on a wire"}},
 	{name: "sample_plane hits the wire at its second point", in: "sample_plane(src, [0,0,0] m, [100,0,0] mm, [0,100,0] mm, 3, 3)", want: []string{"sample_plane", "point 2", "lies on a wire"}},
 	{name: "moving path through the wire", in: "motional_emf(loop, [0,0,1] m/s, src)", want: []string{"motional_emf", "touches a wire"}},
@@ -91,7 +91,7 @@ var inductionCases = []inductionCase{
 	{name: "source current in volts", in: "source(loop, 2 V)", want: []string{"source", "must be in A", "voltage"}},
 	{name: "source current a path", in: "source(loop, open)", want: []string{"source", "a path"}},
 	{name: "uniform field in amperes", in: "uniform([0,0,1] A)", want: []string{"uniform", "in T", "electric current"}},
-	{name: "bfield time in metres", in: "bfield(wire, [1,0,0] m, 2 m)", want: []string{"bfield", "time (s)", "length"}},
+	{name: "b_at time in metres", in: "b_at(wire, [1,0,0] m, 2 m)", want: []string{"b_at", "time (s)", "length"}},
 	{name: "emf time in metres", in: "emf(wire, loop, 2 m)", want: []string{"emf", "time (s)"}},
 	{name: "motional_emf velocity in metres", in: "motional_emf(open, [1,0,0] m, src)", want: []string{"motional_emf", "m/s"}},
 	{name: "maxwell_mutual with a negative radius", in: "maxwell_mutual(-1 m, 2 m, 0 m)", want: []string{"maxwell_mutual", "positive length"}},
@@ -100,21 +100,21 @@ var inductionCases = []inductionCase{
 	{name: "force current in volts", in: "force(src, small, 3 V)", want: []string{"force", "must be in A"}},
 
 	// Currents that are functions of time.
-	{name: "bfield of a time-varying source without t", in: "bfield(wire, [1,0,0] m)", want: []string{"bfield", "depends on time"}},
-	{name: "vpot of a time-varying source without t", in: "vpot(wire, [1,0,0] m)", want: []string{"vpot", "depends on time"}},
+	{name: "b_at of a time-varying source without t", in: "b_at(wire, [1,0,0] m)", want: []string{"b_at", "depends on time"}},
+	{name: "a_at of a time-varying source without t", in: "a_at(wire, [1,0,0] m)", want: []string{"a_at", "depends on time"}},
 	{name: "flux of a time-varying source without t", in: "flux(wire, loop)", want: []string{"flux", "depends on time"}},
 	{name: "force from a time-varying source without t", in: "force(wire, loop, 1 A)", want: []string{"force", "depends on time"}},
 	// The varying current here is the one in the path (the third
 	// argument); the source's current is a steady 2 A.
 	{name: "force on a time-varying path current without t", in: "force(src, small, I)", want: []string{"force", "depends on time"}, avoid: []string{"source's current"}},
-	{name: "current function returning volts", in: "bfield(source(loop, J), [0,0,0] m, 1 ms)", want: []string{"bfield", "must return a current", "J(t)"}},
+	{name: "current function returning volts", in: "b_at(source(loop, J), [0,0,0] m, 1 ms)", want: []string{"b_at", "must return a current", "J(t)"}},
 	{name: "current function returning a vector", in: "emf(source(loop, Vec), small, 0 s)", want: []string{"emf", "must return a current"}},
 	{name: "current function of two arguments", in: "source(loop, two)", want: []string{"source", "one argument"}},
 	{name: "emf of a current that jumps", in: "emf(source(loop, S), small, 0 s)", want: []string{"emf", "derivative"}},
 	{name: "emf of a current that is singular", in: "emf(source(loop, K), small, 0 s)", want: []string{"emf", "derivative"}},
 
 	// A path where a source is expected, and the other way round.
-	{name: "bfield of a path", in: "bfield(loop, [0,0,0] m)", want: []string{"bfield", "source(path, I)"}},
+	{name: "b_at of a path", in: "b_at(loop, [0,0,0] m)", want: []string{"b_at", "source(path, I)"}},
 	{name: "flux of a path", in: "flux(loop, small)", want: []string{"flux", "source(path, I)"}},
 	{name: "emf of a path", in: "emf(loop, small, 0 s)", want: []string{"emf", "source(path, I)"}},
 	{name: "flux through a source", in: "flux(src, src)", want: []string{"flux", "closed path or a surface", "a source"}},
@@ -336,7 +336,7 @@ func TestInductionResultsFinite(t *testing.T) {
 		{"inductance(circle([0,0,0] m, [0,0,1], 1 m), 1 nm)", 26.455612349948934e-6},
 		{"inductance(circle([0,0,0] m, [0,0,1], 1e200 m), 1 m)", 0},
 		{"inductance(helix([0,0,0] m, [0,0,1], 1 cm, 10 m, 100000), 10 um)", 0},
-		{"vpot(uniform([1e308,1e308,1e308] T), [1e308,1e308,0] m)", 0},
+		{"a_at(uniform([1e308,1e308,1e308] T), [1e308,1e308,0] m)", 0},
 		{"length(helix([0,0,0] m, [0,0,1], 1 m, 1e308 m, 1e-300))", 0},
 	}
 	for _, c := range cases {
@@ -382,9 +382,9 @@ func TestInductionResultsFinite(t *testing.T) {
 
 // inductionValid seeds the fuzzer with statements that succeed.
 var inductionValid = []string{
-	"bfield(src, [0,0,0] m)",
-	"bfield(wire, [1,0,0] m, 5 ms)",
-	"vpot(src, [10,0,0] mm)",
+	"b_at(src, [0,0,0] m)",
+	"b_at(wire, [1,0,0] m, 5 ms)",
+	"a_at(src, [10,0,0] mm)",
 	"flux(src, small)",
 	"flux(src, disk([0,0,1] cm, [0,0,1], 20 mm))",
 	"flux(uniform([0,0,50] uT), spanned(polygon([0,0,0] m, [40,0,0] mm, [0,30,0] mm)))",
@@ -400,7 +400,7 @@ var inductionValid = []string{
 	"length(helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25))",
 	"rings([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25)",
 	"toroid_round([0,0,0] m, [0,0,1], 25 mm, 5 mm, 20)",
-	"area(rect_surface([0,0,0] m, [30,0,0] mm, [0,20,0] mm))",
+	"area(rectangle_surface([0,0,0] m, [30,0,0] mm, [0,20,0] mm))",
 	"rotate(translate(loop, [0,0,1] cm), [1,0,0], 90 deg, [0,0,0] m)",
 	"join(arc([0,0,0] m, [0,0,1], [20,0,0] mm, 90 deg), segment([0,20,0] mm, [0,0,0] mm), segment([0,0,0] mm, [20,0,0] mm))",
 	"src + wire",
@@ -429,13 +429,13 @@ func FuzzInduction(f *testing.F) {
 		f.Add(in)
 	}
 	for _, in := range []string{ // field calculus, induced E, solving, formulas, safety
-		"curl(field_b(src), [0.1, 0.2, 0.3] m)",
-		"div(field_b(src), [0.1, 0.2, 0.3] m)",
-		"circulation(field_e(wire), small, 1 ms)",
-		"line_integral(field_a(src), open)",
-		"surface_flux(field_b(src), disk([0,0,1] cm, [0,0,1], 2 cm))",
-		"efield(dbdt_box([0,0,0] m, [1,0,0] cm, [0,1,0] cm, [0,0,1] cm, [0,0,1] T/s), [2,2,2] cm)",
-		"ddt(field_b(wire), [0.1,0,0] m, 2 ms)",
+		"curl(b_field(src), [0.1, 0.2, 0.3] m)",
+		"div(b_field(src), [0.1, 0.2, 0.3] m)",
+		"circulation(e_field(wire), small, 1 ms)",
+		"line_integral(a_field(src), open)",
+		"surface_flux(b_field(src), disk([0,0,1] cm, [0,0,1], 2 cm))",
+		"e_at(dbdt_box([0,0,0] m, [1,0,0] cm, [0,1,0] cm, [0,0,1] cm, [0,0,1] T/s), [2,2,2] cm)",
+		"ddt(b_field(wire), [0.1,0,0] m, 2 ms)",
 		"solve(I, 1 A, 0 s, 4 ms)",
 		"sweep(I, 0 s, 10 ms, 4)",
 		"wheeler(1 cm, 3 cm, 40)",

@@ -75,28 +75,28 @@ func sourceFuncs() []*runtime.Func {
 			return &Source{uniform: []em.Vec{toVec(v)}}, nil
 		}),
 		{
-			Name: "bfield", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			Name: "b_at", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
-				return pointField(env, "bfield", em.FieldB, args)
+				return pointField(env, "b_at", em.FieldB, args)
 			},
 			Help: &runtime.Help{
-				Signature: "bfield(source, point: position [m][, t: s]) -> vector [T]",
+				Signature: "b_at(source, point: position [m][, t: s]) -> vector [T]",
 				Summary:   "Magnetic flux density B of the source at a point (at time t when a current is a function of time).",
 				Method:    "closed forms for segments and arcs (elliptic integrals), adaptive quadrature for helices (relative 1e-12)",
-				Example:   "bfield(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, 0] m)",
+				Example:   "b_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, 0] m)",
 				Reference: refFields,
 			},
 		},
 		{
-			Name: "vpot", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			Name: "a_at", Params: []string{"source", "point", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
-				return pointField(env, "vpot", em.FieldA, args)
+				return pointField(env, "a_at", em.FieldA, args)
 			},
 			Help: &runtime.Help{
-				Signature: "vpot(source, point: position [m][, t: s]) -> vector [Wb/m]",
+				Signature: "a_at(source, point: position [m][, t: s]) -> vector [Wb/m]",
 				Summary:   "Magnetic vector potential A of the source at a point (Coulomb gauge); its circulation around a loop is the flux through it.",
 				Method:    "closed forms for segments (log form) and arcs (incomplete elliptic integrals), adaptive quadrature for helices",
-				Example:   "vpot(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [10, 0, 0] mm)",
+				Example:   "a_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [10, 0, 0] mm)",
 				Reference: refFields,
 			},
 		},

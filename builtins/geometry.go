@@ -290,20 +290,20 @@ func geometryFuncs() []*runtime.Func {
 			}
 			return &Surface{s}, nil
 		}),
-		fnc("rect_surface", []string{"corner", "side1", "side2"}, 3, 3, &runtime.Help{
-			Signature: "rect_surface(corner: position [m], side1: vector [m], side2: vector [m]) -> surface",
+		fnc("rectangle_surface", []string{"corner", "side1", "side2"}, 3, 3, &runtime.Help{
+			Signature: "rectangle_surface(corner: position [m], side1: vector [m], side2: vector [m]) -> surface",
 			Summary:   "The flat parallelogram spanned by side1 and side2 from corner; its normal is side1 × side2.",
-			Example:   "rect_surface([0, 0, 0] m, [30, 0, 0] mm, [0, 20, 0] mm)",
+			Example:   "rectangle_surface([0, 0, 0] m, [30, 0, 0] mm, [0, 20, 0] mm)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			r := readArgs("rect_surface", args)
+			r := readArgs("rectangle_surface", args)
 			c, s1, s2 := r.point(0), r.point(1), r.point(2)
 			if r.err != nil {
 				return nil, r.err
 			}
 			s, err := em.NewRectSurface(c, s1, s2)
 			if err != nil {
-				return nil, geomErr("rect_surface", err)
+				return nil, geomErr("rectangle_surface", err)
 			}
 			return &Surface{s}, nil
 		}),

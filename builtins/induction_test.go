@@ -47,7 +47,7 @@ func q(t *testing.T, v runtime.Value, unit string) float64 {
 func TestLanguageInduction(t *testing.T) {
 	// Loop on axis: B = μ0 I a²/(2(a²+z²)^{3/2}) (Griffiths, Introduction to
 	// Electrodynamics, 4th ed., 2017, Ex. 5.6).
-	b := run(t, "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), 3 A), [0,0,30] mm)").(runtime.Vector)
+	b := run(t, "b_at(source(circle([0,0,0] m, [0,0,1], 40 mm), 3 A), [0,0,30] mm)").(runtime.Vector)
 	want := 1.25663706212e-6 * 3 * 0.04 * 0.04 / (2 * math.Pow(0.04*0.04+0.03*0.03, 1.5))
 	if !scalar.EqualWithinAbsOrRel(b.V[2], want, 0, 1e-13) {
 		t.Errorf("loop on axis: %g T, want %g T", b.V[2], want)
@@ -96,15 +96,15 @@ func TestLanguageInduction(t *testing.T) {
 	}
 
 	// Sources superpose: two opposite currents in the same loop cancel.
-	b = run(t, "loop = circle([0,0,0] m, [0,0,1], 40 mm)", "bfield(source(loop, 3 A) + source(reverse(loop), 3 A), [0, 10, 5] mm)").(runtime.Vector)
+	b = run(t, "loop = circle([0,0,0] m, [0,0,1], 40 mm)", "b_at(source(loop, 3 A) + source(reverse(loop), 3 A), [0, 10, 5] mm)").(runtime.Vector)
 	if math.Abs(b.V[0])+math.Abs(b.V[1])+math.Abs(b.V[2]) > 1e-20 {
 		t.Errorf("opposite currents: B = %v, want 0", b.V)
 	}
 
 	// Time-dependent source: B follows the current (here I(2.5 ms) =
 	// 5 A·sin(π/4·... )), i.e. B(t) = B(1 A)·I(t).
-	b1 := run(t, "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A), [0,0,0] m)").(runtime.Vector)
-	bt := run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)", "bfield(source(circle([0,0,0] m, [0,0,1], 40 mm), I), [0,0,0] m, 1 ms)").(runtime.Vector)
+	b1 := run(t, "b_at(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A), [0,0,0] m)").(runtime.Vector)
+	bt := run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)", "b_at(source(circle([0,0,0] m, [0,0,1], 40 mm), I), [0,0,0] m, 1 ms)").(runtime.Vector)
 	if want := b1.V[2] * 5 * math.Sin(2*math.Pi*60*1e-3); !scalar.EqualWithinAbsOrRel(bt.V[2], want, 0, 1e-13) {
 		t.Errorf("B(t) = %g, want %g", bt.V[2], want)
 	}

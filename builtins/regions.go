@@ -89,13 +89,13 @@ func regionFuncs() []*runtime.Func {
 			}
 			return &Region{reg}, nil
 		}),
-		fnc("dbdt_toroid", []string{"center", "axis", "r_in", "r_out", "height", "dPhi_dt"}, 6, 6, &runtime.Help{
-			Signature: "dbdt_toroid(center: position [m], axis: vector, r_in: length, r_out: length, height: length, dPhi_dt: Wb/s) -> region",
+		fnc("dfluxdt_toroid", []string{"center", "axis", "r_in", "r_out", "height", "dPhi_dt"}, 6, 6, &runtime.Help{
+			Signature: "dfluxdt_toroid(center: position [m], axis: vector, r_in: length, r_out: length, height: length, dPhi_dt: Wb/s) -> region",
 			Summary:   "A toroidal core of rectangular section whose flux changes at dPhi_dt (B ∝ 1/r across the section, along +φ right-handed about axis).",
-			Example:   "dbdt_toroid([0, 0, 0] m, [0, 0, 1], 20 mm, 30 mm, 10 mm, 5 V)",
+			Example:   "dfluxdt_toroid([0, 0, 0] m, [0, 0, 1], 20 mm, 30 mm, 10 mm, 5 V)",
 			Reference: refRegions,
 		}, func(args []runtime.Value) (runtime.Value, error) {
-			const fn = "dbdt_toroid"
+			const fn = "dfluxdt_toroid"
 			r := readArgs(fn, args)
 			c, ax, rin, rout, h, rate := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.positiveLength(4), r.ofDim(5, dimVolt)
 			if r.err != nil {
@@ -160,13 +160,13 @@ func regionFuncs() []*runtime.Func {
 			},
 		},
 		{
-			Name: "efield", Params: []string{"source_or_region", "point", "t"}, MinArgs: 2, MaxArgs: 3,
+			Name: "e_at", Params: []string{"source_or_region", "point", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: efieldBuiltin,
 			Help: &runtime.Help{
-				Signature: "efield(source or region, point: position [m][, t: s]) -> vector [V/m]",
+				Signature: "e_at(source or region, point: position [m][, t: s]) -> vector [V/m]",
 				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes.",
 				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6 (up to ~0.5 s for a point inside a region)",
-				Example:   "efield(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
+				Example:   "e_at(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
 				Reference: refRegions,
 			},
 		},
@@ -174,7 +174,7 @@ func regionFuncs() []*runtime.Func {
 }
 
 func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
-	const fn = "efield"
+	const fn = "e_at"
 	var f *Field
 	switch v := args[0].(type) {
 	case *Source:

@@ -43,8 +43,8 @@ Scripts
 
 Induction
   Build paths (circle, rings, helix, polygon, …), give them currents with
-  source(path, I), then ask for bfield, flux, emf, mutual, inductance, force,
-  efield, and more; :help NAME explains each with its method and accuracy.
+  source(path, I), then ask for b_at, flux, emf, mutual, inductance, force,
+  e_at, and more; :help NAME explains each with its method and accuracy.
   Functions are values: I(t) = … makes a current that changes in time,
   F(p) = … a vector field of position for line_integral, curl and div.
 
