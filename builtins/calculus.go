@@ -14,7 +14,12 @@ const refCalculus = "vector calculus: line and surface integrals by adaptive Gau
 
 // Field is a vector field value: a function of position, and maybe of time.
 type Field struct {
-	desc    string
+	desc string
+	sym  string // "B", "A", "E", or "F" for a user function (table columns)
+	// src and which are set for B and A of a source, which the parallel
+	// kernel samples at many points at once.
+	src     *Source
+	which   em.Which
 	dim     runtime.Dim // zero and user == true: found on first evaluation
 	user    bool
 	timeDep bool
@@ -44,7 +49,7 @@ func userField(fn string, uf *runtime.Func) (*Field, error) {
 	if uf.MinArgs == 1 && uf.MaxArgs == 1 {
 		withT = false
 	}
-	f := &Field{desc: uf.Signature(), user: true, timeDep: withT}
+	f := &Field{desc: uf.Signature(), sym: "F", user: true, timeDep: withT}
 	f.prepare = func(env runtime.Env, name string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 		if withT && !hasT {
 			return nil, errorf("%s: the field %s depends on time; give the time as the last argument", name, uf.Signature())
@@ -98,6 +103,9 @@ func sourceField(which em.Which, src *Source) *Field {
 	}
 	return &Field{
 		desc:    name + " of " + src.Show(6),
+		sym:     name,
+		src:     src,
+		which:   which,
 		dim:     d,
 		timeDep: src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
@@ -125,6 +133,7 @@ func sourceField(which em.Which, src *Source) *Field {
 func inducedField(src *Source) *Field {
 	return &Field{
 		desc:    "E of " + src.Show(6),
+		sym:     "E",
 		dim:     dimEfield,
 		timeDep: src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {

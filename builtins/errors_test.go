@@ -70,8 +70,8 @@ var inductionCases = []inductionCase{
 	{name: "field point on a circle", in: "b_at(src, [0,50,0] mm)", want: []string{"lies on a wire"}},
 	{name: "field point on a helix", in: "b_at(source(helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 5), 1 A), [10,0,0] mm)", want: []string{"lies on a wire"}},
 	{name: "vector potential on a circle", in: "a_at(src, [-50,0,0] mm)", want: []string{"a_at", "lies on a wire"}},
-	{name: "sample_line hits the wire at its third point", in: "sample_line(src, [0,0,0] mm, [100,0,0] mm, 5)", want: []string{"sample_line", "point 3", "lies on a wire"}},
-	{name: "sample_plane hits the wire at its second point", in: "sample_plane(src, [0,0,0] m, [100,0,0] mm, [0,100,0] mm, 3, 3)", want: []string{"sample_plane", "point 2", "lies on a wire"}},
+	{name: "sample_line hits the wire at its third point", in: "sample_line(b_field(src), [0,0,0] mm, [100,0,0] mm, 5)", want: []string{"sample_line", "point 3", "lies on a wire"}},
+	{name: "sample_plane hits the wire at its second point", in: "sample_plane(b_field(src), [0,0,0] m, [100,0,0] mm, [0,100,0] mm, 3, 3)", want: []string{"sample_plane", "point 2", "lies on a wire"}},
 	{name: "moving path through the wire", in: "motional_emf(loop, [0,0,1] m/s, src)", want: []string{"motional_emf", "touches a wire"}},
 
 	// Thick wire: radius not below the bend radius, overlapping turns.
@@ -129,8 +129,8 @@ var inductionCases = []inductionCase{
 	{name: "toroid of a billion turns", in: "toroid_rect([0,0,0] m, [0,0,1], 1 cm, 2 cm, 1 cm, 1e9)", want: []string{"toroid_rect", "100000"}, absurd: true},
 	{name: "toroid beyond the piece limit", in: "toroid_rect([0,0,0] m, [0,0,1], 1 cm, 2 cm, 1 cm, 60000)", want: []string{"toroid_rect", "limit"}, absurd: true},
 	{name: "helix of a billion turns", in: "helix([0,0,0] m, [0,0,1], 1 cm, 1 cm, 1e9)", want: []string{"helix", "limit"}, absurd: true},
-	{name: "sample_line with a billion points", in: "sample_line(src, [0,0,0] m, [1,0,0] m, 1e9)", want: []string{"sample_line", "1000000"}, absurd: true},
-	{name: "sample_plane 1e5 by 1e5", in: "sample_plane(src, [0,0,1] m, [1,0,0] m, [0,1,0] m, 1e5, 1e5)", want: []string{"sample_plane", "limit"}, absurd: true},
+	{name: "sample_line with a billion points", in: "sample_line(b_field(src), [0,0,0] m, [1,0,0] m, 1e9)", want: []string{"sample_line", "1000000"}, absurd: true},
+	{name: "sample_plane 1e5 by 1e5", in: "sample_plane(b_field(src), [0,0,1] m, [1,0,0] m, [0,1,0] m, 1e5, 1e5)", want: []string{"sample_plane", "limit"}, absurd: true},
 	{name: "join beyond the piece limit", in: "join(repeat(loop, 200000, [0,0,1] um), loop)", want: []string{"join", "limit"}},
 
 	// Arcs and rotations.
@@ -152,7 +152,7 @@ var inductionCases = []inductionCase{
 	// Bad inputs that have been seen to run for minutes: last, so that a
 	// hang leaves the rest of the table reported.
 	{name: "spanned of a 20000-loop coil", in: "spanned(repeat(loop, 20000, [0,0,1] um))", want: []string{"spanned", "several loops"}, slow: true},
-	{name: "a million field points on a 1e5-turn helix", in: "sample_line(source(helix([0,0,0] m, [0,0,1], 1 cm, 10 m, 100000), 1 A), [0,0,1] m, [0,0,9] m, 1000000)", want: []string{"sample_line", "limit"}, slow: true},
+	{name: "a million field points on a 1e5-turn helix", in: "sample_line(b_field(source(helix([0,0,0] m, [0,0,1], 1 cm, 10 m, 100000), 1 A)), [0,0,1] m, [0,0,9] m, 1000000)", want: []string{"sample_line", "limit"}, slow: true},
 }
 
 // inductionLeaks must never reach a user: signs of a Go panic or of a
@@ -395,8 +395,8 @@ var inductionValid = []string{
 	"inductance(loop, 0.5 mm)",
 	"coupling(loop, 0.3 mm, small, 0.3 mm)",
 	"force(src, small, 10 A)",
-	"sample_line(src, [0,0,-50] mm, [0,0,50] mm, 5)",
-	"sample_plane(src, [-50,0,-50] mm, [100,0,0] mm, [0,0,100] mm, 3, 3)",
+	"sample_line(b_field(src), [0,0,-50] mm, [0,0,50] mm, 5)",
+	"sample_plane(b_field(src), [-50,0,-50] mm, [100,0,0] mm, [0,0,100] mm, 3, 3)",
 	"length(helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25))",
 	"rings([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25)",
 	"toroid_round([0,0,0] m, [0,0,1], 25 mm, 5 mm, 20)",

@@ -101,24 +101,24 @@ func sourceFuncs() []*runtime.Func {
 			},
 		},
 		{
-			Name: "sample_line", Params: []string{"source", "from", "to", "n", "t"}, MinArgs: 4, MaxArgs: 5,
+			Name: "sample_line", Params: []string{"field", "from", "to", "n", "t"}, MinArgs: 4, MaxArgs: 5,
 			CallEnv: sampleLine,
 			Help: &runtime.Help{
-				Signature: "sample_line(source, from: position [m], to: position [m], n: whole number[, t: s]) -> table",
-				Summary:   "B at n evenly spaced points from one point to another, as a table (s along the line, x, y, z, Bx, By, Bz, |B|).",
-				Method:    "the parallel field kernel; results do not depend on the number of cores",
-				Example:   "sample_line(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, -50] mm, [0, 0, 50] mm, 5)",
+				Signature: "sample_line(field, from: position [m], to: position [m], n: whole number[, t: s]) -> table",
+				Summary:   "A field (b_field, a_field or e_field of a source or region, or your own F(p)) at n evenly spaced points from one point to another, as a table (s along the line, x, y, z, then the field's components and magnitude: Bx, By, Bz, |B| for B; A… or E…; Fx… for your own).",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Example:   "sample_line(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [0, 0, -50] mm, [0, 0, 50] mm, 5)",
 				Reference: refFields,
 			},
 		},
 		{
-			Name: "sample_plane", Params: []string{"source", "origin", "side1", "side2", "n1", "n2", "t"}, MinArgs: 6, MaxArgs: 7,
+			Name: "sample_plane", Params: []string{"field", "origin", "side1", "side2", "n1", "n2", "t"}, MinArgs: 6, MaxArgs: 7,
 			CallEnv: samplePlane,
 			Help: &runtime.Help{
-				Signature: "sample_plane(source, origin: position [m], side1: vector [m], side2: vector [m], n1, n2: whole numbers[, t: s]) -> table",
-				Summary:   "B on an n1 × n2 grid over the parallelogram origin + u·side1 + v·side2, as a table (u, v, x, y, z, Bx, By, Bz, |B|).",
-				Method:    "the parallel field kernel; results do not depend on the number of cores",
-				Example:   "sample_plane(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 3, 3)",
+				Signature: "sample_plane(field, origin: position [m], side1: vector [m], side2: vector [m], n1, n2: whole numbers[, t: s]) -> table",
+				Summary:   "A field (b_field, a_field or e_field, or your own F(p)) on an n1 × n2 grid over the parallelogram origin + u·side1 + v·side2, as a table (u, v, x, y, z, then the field's components and magnitude, e.g. Bx, By, Bz, |B|).",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Example:   "sample_plane(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 3, 3)",
 				Reference: refFields,
 			},
 		},
@@ -177,10 +177,54 @@ func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value
 	return fromVec(out[0], d), nil
 }
 
+// maxSlowPoints bounds the points of a field that has no parallel kernel
+// (induced E by volume cubature, your own function), each of which may take
+// a large fraction of a second.
+const maxSlowPoints = 20_000
+
+// sampleField evaluates a field at points: B and A of sources through the
+// parallel kernel, any other field point by point with progress.
+func sampleField(env runtime.Env, fn string, f *Field, pts []em.Vec, t float64, hasT bool) ([]em.Vec, error) {
+	if f.src != nil {
+		return fieldsOf(env, fn, f.which, f.src, pts, t, hasT)
+	}
+	if len(pts) > maxSlowPoints {
+		return nil, errorf("%s: %d points of %s is more than the limit of %d for a field evaluated point by point; sample fewer points", fn, len(pts), f.desc, maxSlowPoints)
+	}
+	eval, err := f.prepare(env, fn, t, hasT)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]em.Vec, len(pts))
+	for i, x := range pts {
+		if out[i], err = eval(x); err != nil {
+			var pe *em.PointError
+			if !errors.As(err, &pe) && errors.Is(err, em.ErrOnWire) {
+				err = &em.PointError{Index: i, Err: err}
+			}
+			return nil, fieldErr(fn, err)
+		}
+		if env != nil && len(pts) > 1 {
+			env.Progress(fn, i+1, len(pts))
+		}
+	}
+	return out, nil
+}
+
+// fieldColumns names a sampled field's columns and gives their dimension.
+func fieldColumns(f *Field) ([]string, runtime.Dim) {
+	s := f.sym
+	return []string{s + "x", s + "y", s + "z", "|" + s + "|"}, f.dim
+}
+
 func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "sample_line"
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
 	r := readArgs(fn, args)
-	src, a, b, n := r.source(0), r.point(1), r.point(2), r.count(3, 2, maxPoints)
+	a, b, n := r.point(1), r.point(2), r.count(3, 2, maxPoints)
 	t, hasT := r.time(4)
 	if r.err != nil {
 		return nil, r.err
@@ -189,26 +233,31 @@ func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	for i := range pts {
 		pts[i] = r3.Add(a, r3.Scale(float64(i)/float64(n-1), r3.Sub(b, a)))
 	}
-	out, err := fieldsOf(env, fn, em.FieldB, src, pts, t, hasT)
+	out, err := sampleField(env, fn, f, pts, t, hasT)
 	if err != nil {
 		return nil, err
 	}
 	l := r3.Norm(r3.Sub(b, a))
+	cols, d := fieldColumns(f)
 	tab := &Table{
-		Cols: []string{"s", "x", "y", "z", "Bx", "By", "Bz", "|B|"},
-		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimTesla, dimTesla, dimTesla, dimTesla},
+		Cols: append([]string{"s", "x", "y", "z"}, cols...),
+		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, d, d, d, d},
 	}
 	for i, x := range pts {
-		bv := cleanVec(out[i])
-		tab.Rows = append(tab.Rows, []float64{l * float64(i) / float64(n-1), x.X, x.Y, x.Z, bv.X, bv.Y, bv.Z, r3.Norm(bv)})
+		v := cleanVec(out[i])
+		tab.Rows = append(tab.Rows, []float64{l * float64(i) / float64(n-1), x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
 	}
 	return tab, nil
 }
 
 func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "sample_plane"
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
 	r := readArgs(fn, args)
-	src, o, s1, s2 := r.source(0), r.point(1), r.point(2), r.point(3)
+	o, s1, s2 := r.point(1), r.point(2), r.point(3)
 	n1, n2 := r.count(4, 2, maxPoints), r.count(5, 2, maxPoints)
 	t, hasT := r.time(6)
 	if r.err != nil {
@@ -226,17 +275,18 @@ func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 			uv = append(uv, [2]float64{u * r3.Norm(s1), v * r3.Norm(s2)})
 		}
 	}
-	out, err := fieldsOf(env, fn, em.FieldB, src, pts, t, hasT)
+	out, err := sampleField(env, fn, f, pts, t, hasT)
 	if err != nil {
 		return nil, err
 	}
+	cols, d := fieldColumns(f)
 	tab := &Table{
-		Cols: []string{"u", "v", "x", "y", "z", "Bx", "By", "Bz", "|B|"},
-		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimLength, dimTesla, dimTesla, dimTesla, dimTesla},
+		Cols: append([]string{"u", "v", "x", "y", "z"}, cols...),
+		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimLength, d, d, d, d},
 	}
 	for i, x := range pts {
-		bv := cleanVec(out[i])
-		tab.Rows = append(tab.Rows, []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, bv.X, bv.Y, bv.Z, r3.Norm(bv)})
+		v := cleanVec(out[i])
+		tab.Rows = append(tab.Rows, []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
 	}
 	return tab, nil
 }

@@ -33,6 +33,7 @@ func (r *Region) Summary(digits int) string { return r.Show(digits) }
 func regionField(r *Region) *Field {
 	return &Field{
 		desc: "E of " + r.Show(6),
+		sym:  "E",
 		dim:  dimEfield,
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			return func(x em.Vec) (em.Vec, error) { return em.RegionE(r.R, x, regionTol) }, nil
