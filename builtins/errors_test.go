@@ -77,9 +77,9 @@ var inductionCases = []inductionCase{
 	// Thick wire: radius not below the bend radius, overlapping turns.
 	{name: "wire radius equal to the loop radius", in: "inductance(loop, 50 mm)", want: []string{"inductance", "not smaller than the loop radius"}},
 	{name: "wire radius larger than the loop radius", in: "inductance(loop, 60 mm)", want: []string{"not smaller than the loop radius"}},
-	{name: "coupling with a wire as thick as the second loop", in: "coupling(loop, 0.5 mm, small, 10 mm)", want: []string{"coupling", "not smaller than the loop radius"}},
+	{name: "coupling with a wire as thick as the second loop", in: "coupling(loop, small, 0.5 mm, 10 mm)", want: []string{"coupling", "not smaller than the loop radius"}},
 	{name: "helix turns overlap", in: "inductance(helix([0,0,0] m, [0,0,1], 10 mm, 10 mm, 10), 1 mm)", want: []string{"turns overlap"}},
-	{name: "coupling with overlapping helix turns", in: "coupling(helix([0,0,0] m, [0,0,1], 10 mm, 10 mm, 10), 1 mm, loop, 1 mm)", want: []string{"turns overlap"}},
+	{name: "coupling with overlapping helix turns", in: "coupling(helix([0,0,0] m, [0,0,1], 10 mm, 10 mm, 10), loop, 1 mm, 1 mm)", want: []string{"turns overlap"}},
 
 	// Units and kinds of arguments.
 	{name: "circle radius in tesla", in: "circle([0,0,0] m, [0,0,1], 5 T)", want: []string{"circle", "must be a length", "magnetic flux density"}},
@@ -143,7 +143,7 @@ var inductionCases = []inductionCase{
 	{name: "maxwell_mutual of coinciding circles", in: "maxwell_mutual(25 mm, 25 mm, 0 mm)", want: []string{"maxwell_mutual", "coincide"}},
 	{name: "mutual of a loop with itself", in: "mutual(loop, loop)", want: []string{"mutual", "touch"}},
 	{name: "mutual of a loop with itself reversed", in: "mutual(loop, reverse(loop))", want: []string{"mutual", "touch"}},
-	{name: "coupling of a loop with itself", in: "coupling(loop, 1 mm, loop, 1 mm)", want: []string{"coupling", "touch"}},
+	{name: "coupling of a loop with itself", in: "coupling(loop, loop, 1 mm, 1 mm)", want: []string{"coupling", "touch"}},
 	// No point was given: the message must speak of the loop touching the
 	// wire, not of "the point".
 	{name: "flux through the source's own loop", in: "flux(src, loop)", want: []string{"flux", "touch"}, avoid: []string{"the point"}},
@@ -393,7 +393,7 @@ var inductionValid = []string{
 	"mutual(loop, small)",
 	"maxwell_mutual(25 mm, 20 mm, 10 mm)",
 	"inductance(loop, 0.5 mm)",
-	"coupling(loop, 0.3 mm, small, 0.3 mm)",
+	"coupling(loop, small, 0.3 mm, 0.3 mm)",
 	"force(src, small, 10 A)",
 	"sample_line(b_field(src), [0,0,-50] mm, [0,0,50] mm, 5)",
 	"sample_plane(b_field(src), [-50,0,-50] mm, [100,0,0] mm, [0,0,100] mm, 3, 3)",

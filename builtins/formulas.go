@@ -266,19 +266,19 @@ func formulaFuncs() []*runtime.Func {
 			}
 			return runtime.Quantity{V: VacuumPermeability * R * (math.Log(8*R/a) - 1.75), D: dimHenry}, nil
 		}),
-		fnc("skin_depth", []string{"resistivity", "frequency", "relative_permeability"}, 2, 3, &runtime.Help{
-			Signature: "skin_depth(resistivity: Ω·m, frequency: Hz[, relative_permeability: dimensionless]) -> m",
+		fnc("skin_depth", []string{"frequency", "resistivity", "relative_permeability"}, 2, 3, &runtime.Help{
+			Signature: "skin_depth(frequency: Hz, resistivity: ohm*m[, relative_permeability: dimensionless]) -> m",
 			Summary:   "Skin depth of a good conductor, δ = √(ρ / (π f μ0 μr)): the depth at which a sinusoidal field or current density falls by 1/e.",
 			Method:    "closed form; assumes a good conductor (displacement current negligible, ρ·2πf·ε ≪ 1), a linear permeability (default μr = 1) and a plane surface (conductor thicker than a few δ, radius of curvature ≫ δ)",
-			Example:   "skin_depth(resistivity(\"copper\", 293.15 K), 50 Hz)",
+			Example:   "skin_depth(50 Hz, resistivity(\"copper\", 293.15 K))",
 			Reference: refSkin,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "skin_depth"
-			rho, err := fmPositive(fn, "resistivity", args, 0, dimOhmMetre)
+			f, err := fmPositive(fn, "frequency", args, 0, dimHertz)
 			if err != nil {
 				return nil, err
 			}
-			f, err := fmPositive(fn, "frequency", args, 1, dimHertz)
+			rho, err := fmPositive(fn, "resistivity", args, 1, dimOhmMetre)
 			if err != nil {
 				return nil, err
 			}
@@ -296,7 +296,7 @@ func formulaFuncs() []*runtime.Func {
 		fnc("eddy_loss", []string{"frequency", "B_peak", "thickness", "resistivity"}, 4, 4, &runtime.Help{
 			Signature: "eddy_loss(frequency: Hz, B_peak: T, thickness: m, resistivity: Ω·m) -> W/m^3",
 			Summary:   "Classical eddy-current loss per unit volume of a thin lamination in a sinusoidal field: P = π² f² B² d² / (6ρ), B the peak of the section's average flux density.",
-			Method:    "CAUTION: valid only when the thickness is well below the skin depth (d ≪ δ, δ = skin_depth(ρ, f, μr)), so the flux is uniform across the sheet; the exact one-dimensional solution is this times (3/ξ)(sinh ξ − sin ξ)/(cosh ξ − cos ξ), ξ = d/δ: the formula is high by ξ⁴/630 (1.6e-7 at d = 0.1δ), 2.5% at d = 2δ, 64% at d = 5δ. Ignores hysteresis and excess (domain-wall) loss, which real steels add",
+			Method:    "CAUTION: valid only when the thickness is well below the skin depth (d ≪ δ, δ = skin_depth(f, ρ, μr)), so the flux is uniform across the sheet; the exact one-dimensional solution is this times (3/ξ)(sinh ξ − sin ξ)/(cosh ξ − cos ξ), ξ = d/δ: the formula is high by ξ⁴/630 (1.6e-7 at d = 0.1δ), 2.5% at d = 2δ, 64% at d = 5δ. Ignores hysteresis and excess (domain-wall) loss, which real steels add",
 			Example:   "eddy_loss(50 Hz, 1.5 T, 0.35 mm, 0.47 uohm*m)",
 			Reference: refEddy,
 		}, func(args []runtime.Value) (runtime.Value, error) {
@@ -358,23 +358,23 @@ func formulaFuncs() []*runtime.Func {
 			}
 			return runtime.Quantity{V: rho, D: dimOhmMetre}, nil
 		}),
-		fnc("wire_resistance", []string{"material", "length", "diameter", "temperature"}, 4, 4, &runtime.Help{
-			Signature: "wire_resistance(material: \"copper\" or \"aluminium\", length: m, diameter: m, temperature: K) -> Ω",
+		fnc("wire_resistance", []string{"length", "diameter", "material", "temperature"}, 4, 4, &runtime.Help{
+			Signature: "wire_resistance(length: m, diameter: m, material: \"copper\" or \"aluminium\", temperature: K) -> ohm",
 			Summary:   "DC resistance of a solid round wire: R = ρ(T) · length / (π d²/4), ρ(T) as resistivity().",
 			Method:    "direct current (no skin or proximity effect: at frequency f the wire's resistance rises once the diameter approaches 2·skin_depth); temperature in kelvin, −50 °C to 200 °C",
-			Example:   "wire_resistance(\"copper\", 100 m, awg_diameter(14), 293.15 K)",
+			Example:   "wire_resistance(100 m, awg_diameter(14), \"copper\", 293.15 K)",
 			Reference: refResist,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "wire_resistance"
-			l, err := fmPositive(fn, "length", args, 1, dimLength)
+			l, err := fmPositive(fn, "length", args, 0, dimLength)
 			if err != nil {
 				return nil, err
 			}
-			d, err := fmPositive(fn, "diameter", args, 2, dimLength)
+			d, err := fmPositive(fn, "diameter", args, 1, dimLength)
 			if err != nil {
 				return nil, err
 			}
-			rho, err := resistivityOf(fn, args, 0, 3)
+			rho, err := resistivityOf(fn, args, 2, 3)
 			if err != nil {
 				return nil, err
 			}

@@ -413,7 +413,7 @@ func TestSkinDepth(t *testing.T) {
 	for _, c := range []struct {
 		f, want, halfUnit float64
 	}{{50, 9.3e-3, 0.05e-3}, {1e6, 66e-6, 0.5e-6}} {
-		d := fmVal(t, "m", fmt.Sprintf("skin_depth(resistivity(\"copper\", 293.15 K), %g Hz)", c.f))
+		d := fmVal(t, "m", fmt.Sprintf("skin_depth(%g Hz, resistivity(\"copper\", 293.15 K))", c.f))
 		if math.Abs(d-c.want) > c.halfUnit {
 			t.Errorf("copper at %g Hz: δ = %.4g m, table %.2g m", c.f, d, c.want)
 		}
@@ -422,8 +422,8 @@ func TestSkinDepth(t *testing.T) {
 		}
 		t.Logf("copper at %g Hz: δ = %.5g mm", c.f, d*1e3)
 	}
-	d1 := fmVal(t, "m", "skin_depth(1e-7 ohm*m, 50 Hz)")
-	d100 := fmVal(t, "m", "skin_depth(1e-7 ohm*m, 50 Hz, 100)")
+	d1 := fmVal(t, "m", "skin_depth(50 Hz, 1e-7 ohm*m)")
+	d100 := fmVal(t, "m", "skin_depth(50 Hz, 1e-7 ohm*m, 100)")
 	if fmRel(d1, 10*d100) > 1e-15 {
 		t.Errorf("μr = 100 should shrink δ tenfold: %g vs %g", d1, d100)
 	}
@@ -456,7 +456,7 @@ func TestEddyLoss(t *testing.T) {
 	const (
 		f, b, rho, mur = 50.0, 1.2, 4.7e-7, 3000.0 // a silicon-steel-like sheet
 	)
-	delta := fmVal(t, "m", fmt.Sprintf("skin_depth(%g ohm*m, %g Hz, %g)", rho, f, mur))
+	delta := fmVal(t, "m", fmt.Sprintf("skin_depth(%g Hz, %g ohm*m, %g)", f, rho, mur))
 	for _, c := range []struct{ xi, maxDep float64 }{{0.1, 1e-3}, {1, 0.01}, {2, 0.03}, {5, 1}} {
 		d := c.xi * delta
 		classical := fmVal(t, "W/m^3", fmt.Sprintf("eddy_loss(%g Hz, %g T, %.17g m, %g ohm*m)", f, b, d, rho))
@@ -550,14 +550,14 @@ func TestAWG(t *testing.T) {
 // times 1 + 0.00393 × 50.
 func TestResistance(t *testing.T) {
 	dia := "sqrt(4*1.5 mm^2/pi)"
-	r20 := fmVal(t, "ohm", "wire_resistance(\"copper\", 100 m, "+dia+", 293.15 K)")
+	r20 := fmVal(t, "ohm", "wire_resistance(100 m, "+dia+", \"copper\", 293.15 K)")
 	if math.Abs(r20-1.149) > 0.0005 {
 		t.Errorf("R(20 °C) = %g Ω, want 1.149 Ω", r20)
 	}
 	if want := 1.7241e-8 * 100 / 1.5e-6; fmRel(r20, want) > 1e-14 {
 		t.Errorf("R(20 °C) = %.15g Ω, want %.15g Ω", r20, want)
 	}
-	r70 := fmVal(t, "ohm", "wire_resistance(\"copper\", 100 m, "+dia+", 343.15 K)")
+	r70 := fmVal(t, "ohm", "wire_resistance(100 m, "+dia+", \"copper\", 343.15 K)")
 	if want := 1.7241e-8 * 100 / 1.5e-6 * (1 + 0.00393*50); fmRel(r70, want) > 1e-13 {
 		t.Errorf("R(70 °C) = %.15g Ω, want %.15g Ω", r70, want)
 	}
@@ -585,9 +585,9 @@ func TestFormulaErrors(t *testing.T) {
 		{"toroid_rect_inductance(30 mm, 20 mm, 10 mm, 100)", "outer radius"},
 		{"toroid_round_inductance(5 mm, 5 mm, 100)", "minor radius"},
 		{"loop_inductance(10 mm, 3 mm)", "inductance(circle"},
-		{"skin_depth(1 ohm, 50 Hz)", "resistivity"},
-		{"skin_depth(1 ohm*m, -50 Hz)", "positive"},
-		{"skin_depth(1 ohm*m, 50 Hz, 0)", "permeability"},
+		{"skin_depth(50 Hz, 1 ohm)", "resistivity"},
+		{"skin_depth(-50 Hz, 1 ohm*m)", "positive"},
+		{"skin_depth(50 Hz, 1 ohm*m, 0)", "permeability"},
 		{"eddy_loss(50 Hz, 1 T, 0 mm, 1 ohm*m)", "thickness"},
 		{"eddy_loss(50 Hz, 1 Wb, 1 mm, 1 ohm*m)", "T"},
 		{"transformer_emf(50 Hz, 10, 1 cm^2, -1 T)", "negative"},
@@ -597,7 +597,7 @@ func TestFormulaErrors(t *testing.T) {
 		{"resistivity(\"copper\", 20)", "kelvin"},
 		{"resistivity(\"copper\", 20 K)", "293.15 K"},
 		{"resistivity(\"copper\", 500 K)", "200 °C"},
-		{"wire_resistance(\"copper\", 1 m, -1 mm, 300 K)", "diameter"},
+		{"wire_resistance(1 m, -1 mm, \"copper\", 300 K)", "diameter"},
 		{"awg_diameter(57)", "-3 to 56"},
 		{"awg_diameter(2.5)", "whole number"},
 		{"awg_diameter(\"5/0\")", "unknown gauge"},

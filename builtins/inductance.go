@@ -66,15 +66,15 @@ func inductanceFuncs() []*runtime.Func {
 			}
 			return runtime.Quantity{V: l, D: dimHenry}, nil
 		}),
-		fnc("coupling", []string{"path1", "wire_radius1", "path2", "wire_radius2"}, 4, 4, &runtime.Help{
-			Signature: "coupling(path1, wire_radius1: length, path2, wire_radius2: length) -> dimensionless",
+		fnc("coupling", []string{"path1", "path2", "wire_radius1", "wire_radius2"}, 4, 4, &runtime.Help{
+			Signature: "coupling(path1, path2, wire_radius1: length, wire_radius2: length) -> dimensionless",
 			Summary:   "Coupling coefficient k = M/√(L1·L2) of two paths of round wire.",
 			Method:    "mutual() and inductance()",
-			Example:   "coupling(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 0.3 mm, circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0.3 mm)",
+			Example:   "coupling(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0.3 mm, 0.3 mm)",
 			Reference: refInductance,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("coupling", args)
-			p1, a1, p2, a2 := r.path(0), r.positiveLength(1), r.path(2), r.positiveLength(3)
+			p1, p2, a1, a2 := r.path(0), r.path(1), r.positiveLength(2), r.positiveLength(3)
 			if r.err != nil {
 				return nil, r.err
 			}
