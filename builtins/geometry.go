@@ -117,9 +117,9 @@ func geometryFuncs() []*runtime.Func {
 			}
 			return pathResult("arc", []em.Prim{p})
 		}),
-		fnc("helix", []string{"base", "axis", "radius", "length", "turns"}, 5, 5, &runtime.Help{
-			Signature: "helix(base: position [m], axis: vector, radius: length, length: length, turns) -> path",
-			Summary:   "A helical coil: starts at radius from base, winds right-handed about axis, advancing length over turns (open path; a coil without its leads).",
+		fnc("helix", []string{"center", "axis", "radius", "length", "turns"}, 5, 5, &runtime.Help{
+			Signature: "helix(center: position [m], axis: vector, radius: length, length: length, turns) -> path",
+			Summary:   "A helical coil placed by its centre: it starts at radius from the axis point center − length/2·axis, winds right-handed about axis, and advances length over turns (open path; a coil without its leads).",
 			Method:    "kept exact; fields and inductance by adaptive quadrature along the helix",
 			Example:   "helix([0, 0, 0] m, [0, 0, 1], 10 mm, 40 mm, 25)",
 			Reference: refGeom,
@@ -137,9 +137,9 @@ func geometryFuncs() []*runtime.Func {
 			}
 			return pathResult("helix", []em.Prim{p})
 		}),
-		fnc("rings", []string{"base", "axis", "radius", "length", "turns"}, 5, 5, &runtime.Help{
-			Signature: "rings(base: position [m], axis: vector, radius: length, length: length, turns: whole number) -> path",
-			Summary:   "A coil modelled as turns coaxial circles, one at the middle of each turn's share of length (closed loops).",
+		fnc("rings", []string{"center", "axis", "radius", "length", "turns"}, 5, 5, &runtime.Help{
+			Signature: "rings(center: position [m], axis: vector, radius: length, length: length, turns: whole number) -> path",
+			Summary:   "A coil placed by its centre, modelled as turns coaxial circles, one at the middle of each turn's share of length (closed loops), spread over length about center.",
 			Method:    "each ring exact; ring pairs use Maxwell's formula where they are coaxial",
 			Example:   "rings([0, 0, 0] m, [0, 0, 1], 10 mm, 40 mm, 25)",
 			Reference: refGeom,
@@ -390,9 +390,12 @@ func polyPath(fn string, args []runtime.Value, closed bool) (runtime.Value, erro
 }
 
 // coilArgs reads (base, axis, radius, length, turns) of a coil.
+// coilArgs reads (center, axis, radius, length, turns) and returns the
+// coil's base: every coil-like builtin is placed by its centre.
 func coilArgs(fn string, args []runtime.Value) (base, ax em.Vec, rad, l, n float64, err error) {
 	r := readArgs(fn, args)
-	base, ax, rad, l, n = r.point(0), r.axis(1), r.positiveLength(2), r.ofDim(3, dimLength), r.number(4)
+	center, ax, rad, l, n := r.point(0), r.axis(1), r.positiveLength(2), r.ofDim(3, dimLength), r.number(4)
+	base = baseOf(center, ax, l)
 	switch {
 	case r.err != nil:
 		err = r.err
@@ -402,6 +405,12 @@ func coilArgs(fn string, args []runtime.Value) (base, ax em.Vec, rad, l, n float
 		err = errorf("%s: the number of turns must be positive", fn)
 	}
 	return
+}
+
+// baseOf returns the end point of a coil's axis from its centre: the
+// centre less half the length along the axis.
+func baseOf(center, ax em.Vec, length float64) em.Vec {
+	return r3.Sub(center, r3.Scale(length/2, r3.Unit(ax)))
 }
 
 // toroidFrame returns the unit axis and an in-plane basis.

@@ -72,19 +72,19 @@ func dbdtArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em
 
 func regionFuncs() []*runtime.Func {
 	return []*runtime.Func{
-		fnc("dbdt_solenoid", []string{"base", "axis", "radius", "length", "dBdt"}, 5, 5, &runtime.Help{
-			Signature: "dbdt_solenoid(base: position [m], axis: vector, radius: length, length: length, dBdt: T/s) -> region",
-			Summary:   "A cylinder (a long solenoid's interior) where B along axis changes uniformly at dBdt.",
-			Example:   "dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s)",
+		fnc("dbdt_solenoid", []string{"center", "axis", "radius", "length", "dBdt"}, 5, 5, &runtime.Help{
+			Signature: "dbdt_solenoid(center: position [m], axis: vector, radius: length, length: length, dBdt: T/s) -> region",
+			Summary:   "A cylinder (a long solenoid's interior), placed by its centre, where B along axis changes uniformly at dBdt.",
+			Example:   "dbdt_solenoid([0, 0, 0] m, [0, 0, 1], 20 mm, 2 m, 100 T/s)",
 			Reference: refRegions,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "dbdt_solenoid"
 			r := readArgs(fn, args)
-			base, ax, rad, l, rate := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.ofDim(4, dimRate)
+			center, ax, rad, l, rate := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3), r.ofDim(4, dimRate)
 			if r.err != nil {
 				return nil, r.err
 			}
-			reg, err := em.NewSolenoidRegion(base, ax, rad, l, rate)
+			reg, err := em.NewSolenoidRegion(baseOf(center, ax, l), ax, rad, l, rate)
 			if err != nil {
 				return nil, geomErr(fn, err)
 			}
@@ -109,11 +109,11 @@ func regionFuncs() []*runtime.Func {
 			return &Region{reg}, nil
 		}),
 		{
-			Name: "dbdt_cylinder", Params: []string{"base", "axis", "radius", "length", "dBdt"}, MinArgs: 5, MaxArgs: 5,
+			Name: "dbdt_cylinder", Params: []string{"center", "axis", "radius", "length", "dBdt"}, MinArgs: 5, MaxArgs: 5,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 				const fn = "dbdt_cylinder"
 				r := readArgs(fn, args)
-				base, ax, rad, l := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3)
+				center, ax, rad, l := r.point(0), r.axis(1), r.positiveLength(2), r.positiveLength(3)
 				if r.err != nil {
 					return nil, r.err
 				}
@@ -121,16 +121,16 @@ func regionFuncs() []*runtime.Func {
 				if err != nil {
 					return nil, err
 				}
-				reg, err := em.NewCylinderRegion(base, ax, rad, l, f)
+				reg, err := em.NewCylinderRegion(baseOf(center, ax, l), ax, rad, l, f)
 				if err != nil {
 					return nil, geomErr(fn, err)
 				}
 				return &Region{reg}, nil
 			},
 			Help: &runtime.Help{
-				Signature: "dbdt_cylinder(base: position [m], axis: vector, radius: length, length: length, dBdt: vector [T/s] or function of position) -> region",
-				Summary:   "A cylinder in which ∂B/∂t is given: a constant vector or your function of position.",
-				Example:   "dbdt_cylinder([0, 0, 0] m, [0, 0, 1], 10 mm, 20 mm, [0, 0, 50] T/s)",
+				Signature: "dbdt_cylinder(center: position [m], axis: vector, radius: length, length: length, dBdt: vector [T/s] or function of position) -> region",
+				Summary:   "A cylinder, placed by its centre, in which ∂B/∂t is given: a constant vector or your function of position.",
+				Example:   "dbdt_cylinder([0, 0, 10] mm, [0, 0, 1], 10 mm, 20 mm, [0, 0, 50] T/s)",
 				Reference: refRegions,
 			},
 		},
@@ -167,7 +167,7 @@ func regionFuncs() []*runtime.Func {
 				Signature: "e_at(source or region, point: position [m][, t: s]) -> vector [V/m]",
 				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes.",
 				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6 (up to ~0.5 s for a point inside a region)",
-				Example:   "e_at(dbdt_solenoid([0, 0, -1] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
+				Example:   "e_at(dbdt_solenoid([0, 0, 0] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
 				Reference: refRegions,
 			},
 		},
