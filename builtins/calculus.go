@@ -315,7 +315,7 @@ func calculusFuncs() []*runtime.Func {
 				return lineIntegralBuiltin(env, "line_integral", args, false)
 			},
 			Help: &runtime.Help{
-				Signature: "line_integral(field, path[, t: s]) -> field unit·m",
+				Signature: "line_integral(field, path[, t: s]) -> field unit*m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
 				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), relative 1e-10",
 				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
@@ -328,7 +328,7 @@ func calculusFuncs() []*runtime.Func {
 				return lineIntegralBuiltin(env, "circulation", args, true)
 			},
 			Help: &runtime.Help{
-				Signature: "circulation(field, loop: closed path[, t: s]) -> field unit·m",
+				Signature: "circulation(field, loop: closed path[, t: s]) -> field unit*m",
 				Summary:   "∮ F·dl around a closed loop (for an electric field, the EMF around the loop).",
 				Method:    "as line_integral; the loop must be closed",
 				Example:   "circulation(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
@@ -339,7 +339,7 @@ func calculusFuncs() []*runtime.Func {
 			Name: "surface_flux", Params: []string{"field", "surface", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: surfaceFluxBuiltin,
 			Help: &runtime.Help{
-				Signature: "surface_flux(field, surface[, t: s]) -> field unit·m^2",
+				Signature: "surface_flux(field, surface[, t: s]) -> field unit*m^2",
 				Summary:   "∬ F·dA over a surface, oriented by its normal.",
 				Method:    "adaptive 2-D Gauss–Kronrod, relative 1e-10",
 				Example:   "surface_flux(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",

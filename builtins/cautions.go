@@ -131,7 +131,7 @@ func groupArg(fn string, args []runtime.Value, i int) (bool, string, error) {
 func cautionFuncs() []*runtime.Func {
 	return []*runtime.Func{
 		fnc("exposure_limit", []string{"frequency", "group"}, 1, 2, &runtime.Help{
-			Signature: `exposure_limit(frequency: Hz[, group: "public" or "occupational"]) -> T`,
+			Signature: `exposure_limit(frequency: Hz[, group: "public" or "occupational"]) -> T (rms)`,
 			Summary:   "The ICNIRP 2010 reference level for magnetic flux density (rms) at a frequency, 1 Hz to 10 MHz.",
 			Example:   "exposure_limit(50 Hz)",
 			Reference: "ICNIRP 2010 guidelines, Health Physics 99(6):818–836, Tables 3 and 4 (from memory); local rules may differ and prevail",

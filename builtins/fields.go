@@ -37,7 +37,7 @@ func sourceFuncs() []*runtime.Func {
 	return []*runtime.Func{
 		fnc("source", []string{"path", "current"}, 2, 2, &runtime.Help{
 			Signature: "source(path, current: A, or a function of time returning A) -> source",
-			Summary:   "A path carrying a current. Sources add with +: the fields superpose.",
+			Summary:   "A path carrying a current, constant or a function of time giving the instantaneous current (an AC current is written with its peak value: I(t) = I_pk * sin(...)). Sources add with +: the fields superpose.",
 			Example:   "source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)",
 			Reference: "superposition of Biot–Savart fields",
 		}, func(args []runtime.Value) (runtime.Value, error) {

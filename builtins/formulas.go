@@ -294,7 +294,7 @@ func formulaFuncs() []*runtime.Func {
 			return runtime.Quantity{V: math.Sqrt(rho / (math.Pi * f * VacuumPermeability * mur)), D: dimLength}, nil
 		}),
 		fnc("eddy_loss", []string{"frequency", "B_peak", "thickness", "resistivity"}, 4, 4, &runtime.Help{
-			Signature: "eddy_loss(frequency: Hz, B_peak: T, thickness: m, resistivity: Ω·m) -> W/m^3",
+			Signature: "eddy_loss(frequency: Hz, B_peak: T, thickness: m, resistivity: ohm*m) -> W/m^3",
 			Summary:   "Classical eddy-current loss per unit volume of a thin lamination in a sinusoidal field: P = π² f² B² d² / (6ρ), B the peak of the section's average flux density.",
 			Method:    "CAUTION: valid only when the thickness is well below the skin depth (d ≪ δ, δ = skin_depth(f, ρ, μr)), so the flux is uniform across the sheet; the exact one-dimensional solution is this times (3/ξ)(sinh ξ − sin ξ)/(cosh ξ − cos ξ), ξ = d/δ: the formula is high by ξ⁴/630 (1.6e-7 at d = 0.1δ), 2.5% at d = 2δ, 64% at d = 5δ. Ignores hysteresis and excess (domain-wall) loss, which real steels add",
 			Example:   "eddy_loss(50 Hz, 1.5 T, 0.35 mm, 0.47 uohm*m)",
@@ -346,9 +346,9 @@ func formulaFuncs() []*runtime.Func {
 			return runtime.Quantity{V: math.Sqrt2 * math.Pi * f * n * a * b, D: dimVolt}, nil
 		}),
 		fnc("resistivity", []string{"material", "temperature"}, 2, 2, &runtime.Help{
-			Signature: "resistivity(material: \"copper\" or \"aluminium\", temperature: K) -> Ω·m",
+			Signature: "resistivity(material: \"copper\" or \"aluminium\", temperature: K) -> ohm*m",
 			Summary:   "Resistivity of annealed copper or pure aluminium at a temperature: ρ(T) = ρ20 (1 + α (T − 293.15 K)). The temperature is absolute (kelvin): 20 °C is 293.15 K, 70 °C is 343.15 K.",
-			Method:    "linear law about 20 °C, accepted from −50 °C to 200 °C (223.15 K to 473.15 K). Copper: 1.7241e-8 Ω·m, α = 0.00393 /K; aluminium: 2.65e-8 Ω·m, α = 0.00429 /K (pure metal; conductor-grade aluminium, 61% IACS, is about 2.83e-8 Ω·m)",
+			Method:    "linear law about 20 °C, accepted from −50 °C to 200 °C (223.15 K to 473.15 K). Copper: 1.7241e-8 ohm*m, α = 0.00393 K^-1; aluminium: 2.65e-8 ohm*m, α = 0.00429 K^-1 (pure metal; conductor-grade aluminium, 61% IACS, is about 2.83e-8 ohm*m)",
 			Example:   "resistivity(\"copper\", 343.15 K)",
 			Reference: refResist,
 		}, func(args []runtime.Value) (runtime.Value, error) {
