@@ -43,7 +43,7 @@ func solveFuncs() []*runtime.Func {
 				Signature: "solve(f: function of one quantity, target: unit of f, lo, hi: unit of f's argument) -> unit of lo",
 				Summary:   "The x between lo and hi where f(x) = target. f(lo) − target and f(hi) − target must have opposite signs (the root is bracketed).",
 				Method:    "Brent's method (bisection, secant and inverse quadratic steps), to 1e-12 relative in x or an exact zero",
-				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT; solve(V, 0.1 V, 1, 10000)",
+				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT\nsolve(V, 0.1 V, 1, 10000)",
 				Reference: refSolve,
 			},
 		},
@@ -53,7 +53,7 @@ func solveFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sweep(f: function of one quantity, from, to: unit of f's argument, n: whole number) -> table",
 				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result or four for a vector: x, y, z, norm).",
-				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH); sweep(k, 0 mm, 20 mm, 5)",
+				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nsweep(k, 0 mm, 20 mm, 5)",
 				Reference: "evaluation at evenly spaced points",
 			},
 		},

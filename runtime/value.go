@@ -75,7 +75,7 @@ type Help struct {
 	Signature string // with units, e.g. "sqrt(x: any unit with even powers) -> unit^(1/2)"
 	Summary   string
 	Method    string // method and accuracy, when numerical
-	Example   string // one statement that runs
+	Example   string // statements, one per line, that run when pasted at the prompt
 	Reference string // outside source for the behaviour
 }
 

@@ -5,7 +5,6 @@ import (
 	"sort"
 	"strings"
 
-	"loopwise/lang"
 	"loopwise/runtime"
 )
 
@@ -94,26 +93,46 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 		fmt.Fprintf(c.out, "  method: %s\n", h.Method)
 	}
 	if h.Example != "" {
-		// The example runs in a scratch session so the user's names are
-		// untouched; its result is shown beside it.
-		// An example may be several statements separated by "; ".
-		scratch := newSession()
-		var res *runtime.Result
-		var err error
-		for i, stmt := range strings.Split(h.Example, "; ") {
-			if res, err = scratch.Eval(lang.Pos{Line: i + 1, Col: 1}, stmt); err != nil {
-				break
-			}
+		fmt.Fprint(c.out, "  example:\n")
+		lines, shown, failed := runExample(h.Example)
+		for _, l := range lines {
+			fmt.Fprintf(c.out, "    %s\n", l)
 		}
-		if err != nil || strings.Contains(res.Text, "\n") {
-			fmt.Fprintf(c.out, "  example: %s\n", h.Example)
-		} else {
-			fmt.Fprintf(c.out, "  example: %s   %s %s\n", h.Example, runtime.ResultMark, res.Text)
+		mark := runtime.ResultMark
+		if failed {
+			mark = "✗"
+		}
+		for i, l := range shown {
+			if i == 0 {
+				fmt.Fprintf(c.out, "    %s %s\n", mark, l)
+			} else {
+				fmt.Fprintf(c.out, "      %s\n", l)
+			}
 		}
 	}
 	if h.Reference != "" {
 		fmt.Fprintf(c.out, "  reference: %s\n", h.Reference)
 	}
+}
+
+// runExample pastes a help example, one statement per line, into a
+// scratch console (the user's names are untouched) and returns its lines and
+// what the console printed for the last one, as a user would see it.
+func runExample(example string) (lines, shown []string, failed bool) {
+	lines = strings.Split(example, "\n")
+	var out, errOut strings.Builder
+	scratch := newConsole(&out, &errOut)
+	for i, l := range lines {
+		if i == len(lines)-1 {
+			out.Reset()
+		}
+		scratch.line(l)
+	}
+	text := strings.TrimRight(out.String(), "\n")
+	if errOut.Len() > 0 {
+		text, failed = strings.TrimRight(errOut.String(), "\n"), true
+	}
+	return lines, strings.Split(text, "\n"), failed
 }
 
 func (c *console) listBuiltins() {

@@ -1,0 +1,74 @@
+package main
+
+import (
+	"strings"
+	"testing"
+)
+
+// TestHelpExamplesPaste reads every builtin's :help as a user sees it,
+// pastes the example's lines one by one into a fresh prompt session, and
+// compares what the prompt prints for the last line with the result the
+// help shows. An example that fails, or that needs anything the help does
+// not show, fails the test.
+func TestHelpExamplesPaste(t *testing.T) {
+	lib := newSession().Library()
+	n := 0
+	for _, f := range lib.Funcs {
+		if f.Help == nil || f.Help.Example == "" {
+			t.Errorf("%s has no example in its help", f.Name)
+			continue
+		}
+		var help, errOut strings.Builder
+		newConsole(&help, &errOut).line(":help " + f.Name)
+		lines, shown := parseExample(t, f.Name, help.String())
+		var out, pasteErr strings.Builder
+		c := newConsole(&out, &pasteErr)
+		for i, l := range lines {
+			if i == len(lines)-1 {
+				out.Reset()
+			}
+			c.line(l)
+		}
+		if pasteErr.Len() > 0 {
+			t.Errorf("%s: pasting the example gives an error:\n%s", f.Name, pasteErr.String())
+			continue
+		}
+		if got := strings.TrimRight(out.String(), "\n"); got != shown {
+			t.Errorf("%s: the help shows\n%s\nbut pasting prints\n%s", f.Name, shown, got)
+		}
+		n++
+	}
+	if n < 60 {
+		t.Errorf("only %d examples checked", n)
+	}
+}
+
+// parseExample reads the example block of a help text: the lines under
+// "example:" up to the result mark, then the result (continuation lines
+// are indented two more spaces).
+func parseExample(t *testing.T, name, help string) (lines []string, shown string) {
+	t.Helper()
+	i := strings.Index(help, "\n  example:\n")
+	if i < 0 {
+		t.Fatalf("%s: no example block in\n%s", name, help)
+	}
+	var res []string
+	inResult := false
+	for _, l := range strings.Split(help[i+len("\n  example:\n"):], "\n") {
+		switch {
+		case strings.HasPrefix(l, "    ↳ "):
+			inResult = true
+			res = append(res, strings.TrimPrefix(l, "    ↳ "))
+		case strings.HasPrefix(l, "    ✗ "):
+			t.Errorf("%s: the help shows an error for its example: %s", name, l)
+			return lines, ""
+		case inResult && strings.HasPrefix(l, "      "):
+			res = append(res, strings.TrimPrefix(l, "      "))
+		case !inResult && strings.HasPrefix(l, "    "):
+			lines = append(lines, strings.TrimPrefix(l, "    "))
+		default:
+			return lines, strings.Join(res, "\n")
+		}
+	}
+	return lines, strings.Join(res, "\n")
+}
