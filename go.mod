@@ -6,12 +6,13 @@ require (
 	github.com/expr-lang/expr v1.17.8
 	github.com/peterh/liner v1.2.3
 	github.com/rogpeppe/go-internal v1.16.0
+	golang.org/x/term v0.48.0
 	gonum.org/v1/gonum v0.17.0
 )
 
 require (
 	github.com/clipperhouse/uax29/v2 v2.7.0 // indirect
 	github.com/mattn/go-runewidth v0.0.31 // indirect
-	golang.org/x/sys v0.48.0 // indirect
+	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/tools v0.30.0 // indirect
 )

@@ -7,6 +7,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"loopwise/builtins"
@@ -26,8 +27,79 @@ const usage = `usage:
                                     re-evaluate scripts and compare recorded results
                                     (relative tolerance R, default 1e-9); exit 1 on drift
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
+  loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
+Every command takes -h for its own usage.
 `
+
+// commandUsage is what -h prints for each command.
+var commandUsage = map[string]string{
+	"run": `usage: loopwise run FILE|DIR...
+  Evaluate each script (directories are searched for *.lw) and print the
+  worked calculation: statements, results and cautions. Stops a file at its
+  first error (FILE:LINE:COL, the line and a caret) and exits 1.
+`,
+	"check": `usage: loopwise check [-tol R] FILE|DIR...
+  Re-evaluate each script and compare every recorded result with the new
+  one, numbers within the relative tolerance R (default 1e-9). Exits 1 and
+  reports each drifted result when any differs.
+`,
+	"record": `usage: loopwise record FILE|DIR...
+  Evaluate each script and write the new results into it, in place and
+  atomically: on an error the file is left untouched.
+`,
+	"version": `usage: loopwise version
+  Print the version of this build: module version, source revision and Go
+  version.
+`,
+}
+
+// version describes this build from the information the Go toolchain
+// embeds (module version, and the VCS revision when built from a checkout).
+func version() string {
+	v, rev, dirty := "(devel)", "", ""
+	goVersion := ""
+	if bi, ok := debug.ReadBuildInfo(); ok {
+		goVersion = bi.GoVersion
+		if bi.Main.Version != "" {
+			v = bi.Main.Version
+		}
+		for _, s := range bi.Settings {
+			switch s.Key {
+			case "vcs.revision":
+				rev = s.Value
+				if len(rev) > 12 {
+					rev = rev[:12]
+				}
+			case "vcs.modified":
+				if s.Value == "true" {
+					dirty = "+changes"
+				}
+			}
+		}
+	}
+	out := "loopwise " + v
+	if rev != "" {
+		out += " " + rev + dirty
+	}
+	if goVersion != "" {
+		out += " (" + goVersion + ")"
+	}
+	return out
+}
+
+// wantsHelp reports whether a command's arguments ask for its usage.
+func wantsHelp(args []string) bool {
+	for _, a := range args {
+		switch a {
+		case "-h", "-help", "--help":
+			return true
+		case "--":
+			return false
+		}
+	}
+	return false
+}
 
 func newSession() *runtime.Session {
 	return runtime.NewSession(builtins.Standard())
@@ -39,7 +111,14 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return repl(stdin, stdout, stderr)
 	}
 	cmd, rest := args[0], args[1:]
+	if u, ok := commandUsage[cmd]; ok && wantsHelp(rest) {
+		fmt.Fprint(stdout, u)
+		return 0
+	}
 	switch cmd {
+	case "version", "-version", "--version":
+		fmt.Fprintln(stdout, version())
+		return 0
 	case "run":
 		return runFiles(rest, stdout, stderr)
 	case "check":

@@ -85,3 +85,20 @@ func cmdDroplines(ts *testscript.TestScript, neg bool, args []string) {
 	}
 	ts.Check(os.WriteFile(ts.MkAbs(args[2]), []byte(strings.Join(lines[n:], "")), 0o666))
 }
+
+// TestDevNullIsNotATerminal: /dev/null is a character device but not a
+// terminal; the prompt must read it as empty input and exit 0 at once.
+func TestDevNullIsNotATerminal(t *testing.T) {
+	f, err := os.Open(os.DevNull)
+	if err != nil {
+		t.Skip(err)
+	}
+	defer f.Close()
+	if isTerminal(f) {
+		t.Fatal("isTerminal(/dev/null) = true")
+	}
+	var out, errOut strings.Builder
+	if code := run(nil, f, &out, &errOut); code != 0 || out.Len() != 0 || errOut.Len() != 0 {
+		t.Errorf("exit %d, stdout %q, stderr %q", code, out.String(), errOut.String())
+	}
+}

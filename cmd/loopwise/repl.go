@@ -13,6 +13,7 @@ import (
 	"unicode"
 
 	"github.com/peterh/liner"
+	"golang.org/x/term"
 
 	"loopwise/lang"
 	"loopwise/runtime"
@@ -202,9 +203,10 @@ func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	return 0
 }
 
+// isTerminal asks the terminal driver (golang.org/x/term), not the file
+// mode: /dev/null is a character device but not a terminal.
 func isTerminal(f *os.File) bool {
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+	return term.IsTerminal(int(f.Fd()))
 }
 
 func historyPath() string {
