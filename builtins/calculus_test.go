@@ -138,7 +138,7 @@ func TestWorkPerTurn(t *testing.T) {
 func TestSolveAccuracy(t *testing.T) {
 	for _, c := range []struct {
 		f, target, lo, hi string
-		root            float64
+		root              float64
 	}{
 		{"x^2", "1e12", "0", "1e9", 1e6},
 		{"x^3", "1e18", "0", "1e9", 1e6},
