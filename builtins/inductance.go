@@ -16,7 +16,7 @@ func inductanceFuncs() []*runtime.Func {
 		fnc("mutual", []string{"path1", "path2"}, 2, 2, &runtime.Help{
 			Signature: "mutual(path1, path2) -> H",
 			Summary:   "Mutual inductance of two paths (for open paths, e.g. coils without leads, the partial mutual inductance).",
-			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); coaxial circles by Maxwell's formula itself",
+			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself",
 			Example:   "mutual(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 			Reference: refInductance,
 		}, func(args []runtime.Value) (runtime.Value, error) {
