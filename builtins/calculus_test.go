@@ -116,7 +116,10 @@ func TestStokesAndFaraday(t *testing.T) {
 }
 
 // TestWorkPerTurn: the induced field is not conservative; the work on a
-// charge carried once around a loop is q∮E·dl = −q dΦ/dt (Faraday).
+// charge carried once around a loop is W = q∮E·dl = −q dΦ/dt (Faraday).
+// Both sides integrate the same vector potential with the same numerical
+// dI/dt, so this checks work_per_turn's definition (W = e·EMF, e exact in
+// the SI), not Faraday's law, which TestStokesAndFaraday checks.
 func TestWorkPerTurn(t *testing.T) {
 	w := q(t, run(t, "I(t) = 200 A * sin(2*pi*50 Hz*t)",
 		"src = source(circle([0,0,0] m, [0,0,1], 25 mm), I)",
