@@ -33,8 +33,9 @@ func vclose(a, b [3]float64, rel, abs float64) bool {
 // + 1 A·t/s (Griffiths, Introduction to Electrodynamics, 4th ed., 2017,
 // eqs. 7.14–7.15 and 5.50).
 //
-// Integral form, two routes that share no Loopwise code on the way to the
-// number:
+// Integral form, two routes whose closed form (A against B), quadrature
+// (1-D along the loop against 2-D over a surface) and dI/dt (numerical
+// against by hand) differ:
 //   - left: circulation(field_e(src), loop, t) integrates E = −A₁·dI/dt
 //     along the loop's own primitives (1-D adaptive Gauss–Kronrod), with
 //     A₁ the closed-form vector potential of the source circle per ampere
@@ -45,7 +46,8 @@ func vclose(a, b [3]float64, rel, abs float64) bool {
 //     rect_surface, or spanned for the triangle), and İ written here in
 //     closed form: 3 A·2π·60 Hz·cos(2π·60 Hz·t) + 1 A/s.
 //
-// Both use em's path geometry and gonum's elliptic integrals; nothing else.
+// They share em's path geometry, the evaluator that sums a path's pieces,
+// and gonum's elliptic integrals.
 // Tolerance: the quadratures are asked for relative 1e-10 each; the
 // numerical dI/dt on the left stops at the first step whose estimate agrees
 // with both neighbours to 1e-6 (builtins.derivative), so its error is
