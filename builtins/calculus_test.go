@@ -31,7 +31,7 @@ func vclose(a, b [3]float64, rel, abs float64) bool {
 // −dΦ/dt, and in differential form, curl E = −∂B/∂t, and div B = 0, for
 // the induced field of a loop whose current is I(t) = 3 A·sin(2π·60 Hz·t)
 // + 1 A·t/s (Griffiths, Introduction to Electrodynamics, 4th ed., 2017,
-// eqs. 7.14–7.15 and 5.50).
+// eqs. 7.14–7.15; div B = 0 in §5.3, from memory).
 //
 // Integral form, two routes whose closed form (A against B), quadrature
 // (1-D along the loop against 2-D over a surface) and dI/dt (numerical
