@@ -136,7 +136,9 @@ const solveRel, solveFloor = 1e-12, 1e-24
 // the current estimate, and solveRel far above 4ε keeps the steps
 // representable.)
 func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, error) {
-	floor := solveFloor * math.Max(math.Abs(a), math.Abs(b))
+	// at least two of the smallest float64 steps, so that a bracket near
+	// the underflow limit still moves
+	floor := math.Max(solveFloor*math.Max(math.Abs(a), math.Abs(b)), 2*math.SmallestNonzeroFloat64)
 	c, fc := a, fa
 	d := b - a
 	e := d
