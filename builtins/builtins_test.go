@@ -34,7 +34,7 @@ func TestHelpComplete(t *testing.T) {
 			continue
 		}
 		s := runtime.NewSession(lib)
-		for _, stmt := range strings.Split(h.Example, "; ") {
+		for _, stmt := range strings.Split(h.Example, "\n") {
 			eval(t, s, stmt)
 		}
 	}

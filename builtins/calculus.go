@@ -317,7 +317,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "line_integral(field, path[, t: s]) -> field unit*m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
-				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), relative 1e-10",
+				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10",
 				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
 			},
@@ -341,7 +341,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "surface_flux(field, surface[, t: s]) -> field unit*m^2",
 				Summary:   "∬ F·dA over a surface, oriented by its normal.",
-				Method:    "adaptive 2-D Gauss–Kronrod, relative 1e-10",
+				Method:    "adaptive 2-D Gauss–Kronrod, asked for relative error 1e-10; the tests find ∬B·dA and ∮A·dl within 2e-9 of each other",
 				Example:   "surface_flux(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refCalculus,
 			},
@@ -354,7 +354,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "curl(field, point: position [m][, t: s]) -> vector [field unit/m]",
 				Summary:   "∇ × F at a point. (For B of a wire that is not a closed circuit the curl is not zero off the wire: an open piece of wire does not conserve current.)",
-				Method:    "each partial derivative by central differences with one Richardson step; of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used (typically 1e-9 relative to the field's gradient); refuses near wires and region boundaries where the field is not smooth",
+				Method:    "each partial derivative by central differences with one Richardson step; of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used; the tests find curl E = −∂B/∂t within 1e-6 relative; refuses near wires and region boundaries where the field is not smooth",
 				Example:   "F(p) = [-p.y, p.x, 0] * 1 T/m\ncurl(F, [1, 2, 3] m)",
 				Reference: refCalculus,
 			},

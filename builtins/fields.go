@@ -82,7 +82,7 @@ func sourceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "b_at(source, point: position [m][, t: s]) -> vector [T]",
 				Summary:   "Magnetic flux density B of the source at a point (at time t when a current is a function of time).",
-				Method:    "closed forms for segments and arcs (elliptic integrals), adaptive quadrature for helices (relative 1e-12)",
+				Method:    "closed forms for segments and arcs (elliptic integrals), adaptive quadrature for helices (asked for relative error 1e-12; the tests find it within 1e-10 of a 256-piece Gauss–Legendre sum)",
 				Example:   "b_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, 0] m)",
 				Reference: refFields,
 			},

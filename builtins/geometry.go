@@ -102,7 +102,7 @@ func geometryFuncs() []*runtime.Func {
 		fnc("arc", []string{"center", "axis", "start", "angle"}, 4, 4, &runtime.Help{
 			Signature: "arc(center: position [m], axis: vector, start: position [m], angle: dimensionless) -> path",
 			Summary:   "A circular arc around axis through center, from start, sweeping angle (right-handed about axis; negative sweeps back).",
-			Method:    "kept exact; fields use incomplete elliptic integrals",
+			Method:    "kept exact; fields use incomplete elliptic integrals, or adaptive quadrature along the arc for points very near its circle",
 			Example:   "arc([0, 0, 0] m, [0, 0, 1], [20, 0, 0] mm, 90 deg)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
@@ -140,7 +140,7 @@ func geometryFuncs() []*runtime.Func {
 		fnc("rings", []string{"center", "axis", "radius", "length", "turns"}, 5, 5, &runtime.Help{
 			Signature: "rings(center: position [m], axis: vector, radius: length, length: length, turns: whole number) -> path",
 			Summary:   "A coil placed by its centre, modelled as turns coaxial circles, one at the middle of each turn's share of length (closed loops), spread over length about center.",
-			Method:    "each ring exact; ring pairs use Maxwell's formula where they are coaxial",
+			Method:    "each ring exact; inductance() takes Maxwell's formula for each pair of coaxial rings",
 			Example:   "rings([0, 0, 0] m, [0, 0, 1], 10 mm, 40 mm, 25)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {

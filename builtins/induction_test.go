@@ -43,8 +43,9 @@ func q(t *testing.T, v runtime.Value, unit string) float64 {
 
 // TestLanguageInduction checks the induction builtins end to end through
 // the language against published closed forms; the numeric core has its
-// own, tighter tests in builtins/em. Tolerances are those of the methods
-// (relative 1e-10 for flux and mutual inductance) unless stated.
+// own, tighter tests in builtins/em. Flux and mutual inductance are asked of
+// the quadrature to relative 1e-10 and checked to 1e-9 (a factor 10 for an
+// optimistic error estimate) unless stated.
 func TestLanguageInduction(t *testing.T) {
 	// Loop on axis: B = μ0 I a²/(2(a²+z²)^{3/2}) (Griffiths, Introduction to
 	// Electrodynamics, 4th ed., 2017, Ex. 5.6).
@@ -81,7 +82,8 @@ func TestLanguageInduction(t *testing.T) {
 		t.Errorf("sliding bar EMF %g V, want %g V", e, -0.3)
 	}
 
-	// EMF of a sinusoidal current at its zero crossing: −M·I0·ω.
+	// EMF of a sinusoidal current at its zero crossing: −M·I0·ω (Faraday's
+	// law, EMF = −M dI/dt, with M from Maxwell's formula above).
 	e = q(t, run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)",
 		"emf(source(circle([0,0,0] m, [0,0,1], 40 mm), I), circle([0,0,25] mm, [0,0,1], 30 mm), 0 s)"), "V")
 	if want := -m * 5 * 2 * math.Pi * 60; !scalar.EqualWithinAbsOrRel(e, want, 0, 1e-7) {
@@ -102,8 +104,8 @@ func TestLanguageInduction(t *testing.T) {
 		t.Errorf("opposite currents: B = %v, want 0", b.V)
 	}
 
-	// Time-dependent source: B follows the current (here I(2.5 ms) =
-	// 5 A·sin(π/4·... )), i.e. B(t) = B(1 A)·I(t).
+	// Time-dependent source: B follows the current, B(t) = B(1 A)·I(t)
+	// (Biot–Savart is linear in I), here at t = 1 ms.
 	b1 := run(t, "b_at(source(circle([0,0,0] m, [0,0,1], 40 mm), 1 A), [0,0,0] m)").(runtime.Vector)
 	bt := run(t, "I(t) = 5 A * sin(2*pi*60 Hz*t)", "b_at(source(circle([0,0,0] m, [0,0,1], 40 mm), I), [0,0,0] m, 1 ms)").(runtime.Vector)
 	if want := b1.V[2] * 5 * math.Sin(2*math.Pi*60*1e-3); !scalar.EqualWithinAbsOrRel(bt.V[2], want, 0, 1e-13) {

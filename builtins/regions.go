@@ -10,8 +10,9 @@ import (
 const refRegions = "E(r) = −(1/4π) ∫ (∂B/∂t)(r') × (r − r')/|r − r'|³ dV' (the Biot–Savart analogy of Faraday's law); checked against the long-solenoid and thin-toroid closed forms and against E = −∂A/∂t of a matching winding (builtins/em/induced_test.go)"
 
 // regionTol is the accuracy of the induced-field volume integral: 1e-6
-// relative (each point costs up to ~10⁷ integrand calls, 0.5 s, inside a
-// region; far less outside).
+// relative, within RegionE's default budget of integrand calls. A point
+// inside a region needs many more calls than one outside
+// (BenchmarkInducedRegion in builtins/em times both).
 var regionTol = em.Tol{Rel: 1e-6}
 
 // Region is a volume where ∂B/∂t is given directly.
@@ -166,7 +167,7 @@ func regionFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "e_at(source or region, point: position [m][, t: s]) -> vector [V/m]",
 				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes.",
-				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6 (up to ~0.5 s for a point inside a region)",
+				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6, split at the point; a point inside a region costs many more integrand evaluations than one outside (the integrand is singular there; go test ./builtins/em -bench Induced times both)",
 				Example:   "e_at(dbdt_solenoid([0, 0, 0] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
 				Reference: refRegions,
 			},

@@ -42,7 +42,7 @@ func solveFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "solve(f: function of one quantity, target: unit of f, lo, hi: unit of f's argument) -> unit of lo",
 				Summary:   "The x between lo and hi where f(x) = target. f(lo) − target and f(hi) − target must have opposite signs (the root is bracketed).",
-				Method:    "Brent's method (bisection, secant and inverse quadratic steps), to 1e-12 relative in x or an exact zero",
+				Method:    "Brent's method (bisection, secant and inverse quadratic steps); stops on an exact zero or when the root is bracketed within 1e-12·|x| (plus 1e-24 of the larger end of [lo, hi], for a root at or near zero)",
 				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT\nsolve(V, 0.1 V, 1, 10000)",
 				Reference: refSolve,
 			},
@@ -119,14 +119,26 @@ func solveBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	return runtime.Quantity{V: x, D: lo.D}, nil
 }
 
+// solveRel is the relative accuracy in x that solve promises; solveFloor,
+// times the larger end of the starting bracket, the absolute accuracy it
+// falls back on for a root at or very near zero, where no relative
+// accuracy can be reached.
+const solveRel, solveFloor = 1e-12, 1e-24
+
 // brent finds a zero of g in [a, b] given g(a) and g(b) of opposite signs
 // (Brent 1973, ch. 4, the algorithm "zero"): it keeps a bracket, takes
 // inverse quadratic or secant steps when they stay inside and shrink fast
 // enough, and bisects otherwise, so it converges at least as surely as
-// bisection.
+// bisection. It stops on an exact zero or when the bracket [b, c] around
+// the root is at most solveRel·|b| + solveFloor·max(|a|, |b|) wide, so
+// the returned b is that close to the root. (Brent's own test is half
+// the bracket against 2ε|b| + tol/2 with a fixed tol; here tol follows
+// the current estimate, and solveRel far above 4ε keeps the steps
+// representable.)
 func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, error) {
-	const eps = 2.220446049250313e-16
-	tol := 1e-12 * math.Max(math.Abs(a), math.Abs(b))
+	// at least two of the smallest float64 steps, so that a bracket near
+	// the underflow limit still moves
+	floor := math.Max(solveFloor*math.Max(math.Abs(a), math.Abs(b)), 2*math.SmallestNonzeroFloat64)
 	c, fc := a, fa
 	d := b - a
 	e := d
@@ -140,7 +152,7 @@ func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, err
 			a, b, c = b, c, b
 			fa, fb, fc = fb, fc, fb
 		}
-		tol1 := 2*eps*math.Abs(b) + 0.5*tol
+		tol1 := 0.5 * (solveRel*math.Abs(b) + floor)
 		m := 0.5 * (c - b)
 		if math.Abs(m) <= tol1 || fb == 0 {
 			return b, nil

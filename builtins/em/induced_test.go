@@ -439,3 +439,36 @@ func TestRegionErrors(t *testing.T) {
 		t.Errorf("budget: %v, %+v", err, qe)
 	}
 }
+
+// BenchmarkInducedRegion times RegionE at the accuracy the language asks
+// for (relative 1e-6, builtins.regionTol) for the region of efield's help
+// example (a solenoid core of radius 20 mm and length 2 m), at a point
+// inside and a point outside it, and for a point inside a toroidal core.
+func BenchmarkInducedRegion(b *testing.B) {
+	sol, err := NewSolenoidRegion(Vec{Z: -1}, Vec{Z: 1}, 0.02, 2, 100)
+	if err != nil {
+		b.Fatal(err)
+	}
+	tor, err := NewToroidRegion(Vec{}, Vec{Z: 1}, 0.02, 0.03, 0.01, 5)
+	if err != nil {
+		b.Fatal(err)
+	}
+	tol := Tol{Rel: 1e-6}
+	for _, c := range []struct {
+		name string
+		r    Region
+		x    Vec
+	}{
+		{"solenoid/inside", sol, Vec{X: 0.01}},
+		{"solenoid/outside", sol, Vec{X: 0.04}},
+		{"toroid/inside", tor, Vec{X: 0.025, Z: 0.002}},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				if _, err := RegionE(c.r, c.x, tol); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -146,7 +146,7 @@ func TestPolynomialExact(t *testing.T) {
 	t.Logf("unreachable tolerance: %v", err)
 }
 
-// TestSmoothAndSingular covers the one-dimensional cases of the brief. Every
+// TestSmoothAndSingular covers smooth and endpoint-singular 1-D integrands. Every
 // case requests Rel (and, where the reference can be 0, Abs) and is checked with
 // qCheckScalar, i.e. true error <= estimate <= requested tolerance.
 func TestSmoothAndSingular(t *testing.T) {

@@ -25,6 +25,9 @@ func TestMain(m *testing.M) {
 
 // TestScripts runs the CLI and REPL scripts in testdata/cli; go test
 // ./cmd/loopwise -update rewrites their golden sections from the output.
+// The numbers in the goldens are computed by Loopwise: they guard output
+// and behaviour against drift only (the builtins' own tests compare with
+// outside sources).
 //
 // Each script runs in a fresh work directory with HOME inside it, so the
 // user's own config dir (the prompt's history file) is never read.

@@ -10,9 +10,11 @@ import (
 )
 
 // TestSamples replays every worked sample and compares each recorded result
-// (relative tolerance 1e-9, the default of loopwise check). The samples'
-// numbers were checked against their sources when they were written; this
-// test guards them against drift. On a mismatch it writes the freshly
+// (relative tolerance 1e-9, the default of loopwise check). The recorded
+// numbers are computed by Loopwise, so this test guards against drift only;
+// where a sample compares a result with a formula or a second route, the
+// comparison is a statement of the sample (a ratio recorded as 1, say),
+// which the replay then holds to 1e-9. On a mismatch it writes the freshly
 // recorded script beside the sample and prints the diff command.
 func TestSamples(t *testing.T) {
 	files, err := filepath.Glob(filepath.Join("..", "..", "samples", "*.lw"))
