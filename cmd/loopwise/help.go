@@ -142,6 +142,10 @@ func (c *console) listBuiltins() {
 
 // siSize writes the size of a unit in the coherent SI unit of its dimension.
 func siSize(u runtime.UnitExpr) string {
+	if u.Offset != 0 {
+		// °C: a shifted scale
+		return runtime.FormatNumber(u.Scale()+u.Offset, 12) + " K (t °C is t + " + runtime.FormatNumber(u.Offset, 12) + " K)"
+	}
 	if u.Dim.IsZero() {
 		return runtime.FormatNumber(u.Scale(), 12)
 	}
