@@ -123,7 +123,9 @@ func mathFuncs() []*runtime.Func {
 			Help: &runtime.Help{Signature: "abs(x: any unit) -> same unit", Summary: "Absolute value.", Example: "abs(-3 mV)", Reference: refGoMath},
 		},
 		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> rad", "atan2(1 mm, -1 mm) as deg",
-			func(y, x runtime.Quantity) runtime.Quantity { return runtime.Quantity{V: math.Atan2(y.V, x.V), D: dimAngle} }),
+			func(y, x runtime.Quantity) runtime.Quantity {
+				return runtime.Quantity{V: math.Atan2(y.V, x.V), D: dimAngle}
+			}),
 		sameDim2("hypot", "sqrt(a^2 + b^2) without overflow.", "hypot(a: unit, b: same unit) -> unit", "hypot(3 mm, 4 mm)",
 			func(a, b runtime.Quantity) runtime.Quantity { return runtime.Quantity{V: math.Hypot(a.V, b.V), D: a.D} }),
 		sameDimN("min", "Smallest of its arguments.", "min(a: unit, b: same unit, ...) -> unit", "min(3 mm, 0.2 inch)", math.Min),
