@@ -160,7 +160,7 @@ func ofDim(fn string, args []runtime.Value, i int, d runtime.Dim) (float64, erro
 		return 0, err
 	}
 	if q.D != d {
-		return 0, errorf("%s: the %s argument must be %s, not %s", fn, ordinal(i), d.Describe(), q.D.Describe())
+		return 0, errorf("%s: the %s argument must be %s, not %s%s", fn, ordinal(i), d.Describe(), q.D.Describe(), runtime.AngleNote(q.D, d))
 	}
 	return q.V, nil
 }

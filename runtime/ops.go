@@ -311,6 +311,11 @@ func Component(v Value, i int) (Value, error) {
 	return Quantity{V: x.V[i], D: x.D}, nil
 }
 
+// AngleNote is angleNote for builtins: "" or "; ..." explaining how to
+// fix a value whose dimension differs from the wanted one only by a power
+// of angle.
+func AngleNote(got, want Dim) string { return angleNote(got, want) }
+
 // angleNote explains a mismatch of dimensions that differ only in their
 // power of plane angle, such as rad/s against s^-1: the radian is never
 // added or dropped silently.
@@ -322,7 +327,7 @@ func angleNote(a, b Dim) string {
 	case a.IsZero() || b.IsZero():
 		return "; an angle is not a plain number: write the number with a unit (0.5 rad, 30 deg), or divide the angle by 1 rad for its value in radians"
 	case (a == dFreq && b == dAngle.Div(dTime)) || (b == dFreq && a == dAngle.Div(dTime)):
-		return "; a frequency (Hz, s^-1) counts cycles, an angular velocity (rad/s) turns an angle: multiply a frequency by 1 rev (one cycle is 2π rad), or a rate in s^-1 by 1 rad, to get rad/s"
+		return "; a frequency (Hz, s^-1) counts cycles, an angular velocity (rad/s) turns an angle: an angular velocity is a frequency times 1 rev (one cycle is 2π rad), a frequency is an angular velocity divided by 1 rev; a bare 2*pi*f becomes rad/s times 1 rad"
 	}
 	return fmt.Sprintf("; they differ by rad^%d: multiply or divide by 1 rad where the angle belongs", k)
 }
