@@ -61,7 +61,7 @@ func TestRewriteLiterals(t *testing.T) {
 		// The degree sign starts a unit symbol (°C).
 		{"20 °C", "__L0", []lang.Literal{lit("__L0", "20", "°C", 0, 3)}},
 		{"-5°C + x", "-__L0 + x", []lang.Literal{lit("__L0", "5", "°C", 1, 2)}},
-				// "**" is the engine's power operator, not a unit product.
+		// "**" is the engine's power operator, not a unit product.
 		{"2 m**2", "__L0**2", []lang.Literal{lit("__L0", "2", "m", 0, 2)}},
 		{"1.2e-3 Wb", "__L0", []lang.Literal{lit("__L0", "1.2e-3", "Wb", 0, 7)}},
 		{"1_000 A", "__L0", []lang.Literal{lit("__L0", "1000", "A", 0, 6)}},
@@ -156,7 +156,7 @@ func TestRewriteErrors(t *testing.T) {
 			"t.lw:1:3: the unit \"kg\" is followed by \"**\" and nothing else: a unit or a value is missing\n    5 kg**\n      ^^^^"},
 		{"(1 + 2) mm/ ",
 			"t.lw:1:9: the unit \"mm\" is followed by \"/\" and nothing else: a unit or a value is missing\n    (1 + 2) mm/ \n            ^^^"},
-				{"2and 3",
+		{"2and 3",
 			"t.lw:1:1: a number must be followed by a space or an operator here\n    2and 3\n    ^^"},
 	}
 	for _, tc := range tests {
