@@ -54,7 +54,7 @@ func TestAngleUnitsNIST(t *testing.T) {
 		{"3000 rpm as rad/s", 314.1593, 5e-5, "[811] 3000 × 1.047198 E-01 (7 digits)"},
 		{"1 deg as rad", 0.01745329, 5e-9, "[811] degree to radian 1.745329 E-02"},
 		{"1 rev as deg", 360, 1e-12, "[SI] Table 8: 1° = π/180 rad, so a full turn (2π rad) is 360°"},
-		{"1 rev as rad", 6.283185, 5e-7, "[811] App. B: one revolution is 2π rad"},
+		{"1 rev as rad", 6.283185, 5e-7, "[811] App. B: revolution (r) to radian 6.283185 E+00 (from memory)"},
 		{"60 rpm as rev/s", 1, 1e-15, "[811]: r/min is one revolution a minute"},
 		{"1 sr as rad^2", 1, 0, "[SI] Table 4: sr = m^2/m^2, the square of the radian"},
 		{"(50 Hz * 1 rev) as rad/s", 314.1593, 5e-5, "[SI] Table 4 note: ω = 2π f for a sinusoid of frequency f"},
