@@ -28,15 +28,32 @@ func quantity(fn string, args []runtime.Value, i int) (runtime.Quantity, error) 
 	return q, nil
 }
 
-// number returns argument i as a dimensionless number (angles in radians
-// are dimensionless).
+// number returns argument i as a plain (dimensionless) number. An angle is
+// not a plain number (plane angle is a dimension in Loopwise); the message
+// says how to pass its value in radians.
 func number(fn string, args []runtime.Value, i int) (float64, error) {
 	q, err := quantity(fn, args, i)
 	if err != nil {
 		return 0, err
 	}
+	if q.D == dimAngle {
+		return 0, errorf("%s: the %s argument must be a plain number, not an angle; to use the angle's value in radians, divide it by 1 rad", fn, ordinal(i))
+	}
 	if !q.D.IsZero() {
-		return 0, errorf("%s: the %s argument must be dimensionless (an angle in rad or deg, or a plain number), not %s", fn, ordinal(i), q.D.Describe())
+		return 0, errorf("%s: the %s argument must be a plain number, not %s", fn, ordinal(i), q.D.Describe())
+	}
+	return q.V, nil
+}
+
+// angle returns argument i in radians: a plane angle (rad, deg, rev) or a
+// plain number, read as radians.
+func angle(fn string, args []runtime.Value, i int) (float64, error) {
+	q, err := quantity(fn, args, i)
+	if err != nil {
+		return 0, err
+	}
+	if q.D != dimAngle && !q.D.IsZero() {
+		return 0, errorf("%s: the %s argument must be an angle (rad, deg, rev) or a plain number in radians, not %s", fn, ordinal(i), q.D.Describe())
 	}
 	return q.V, nil
 }
@@ -73,6 +90,7 @@ var (
 	dimNewton       = mustDim("N")
 	dimSpeed        = mustDim("m/s")
 	dimHertz        = mustDim("Hz")
+	dimAngle        = mustDim("rad")
 	dimVolume       = mustDim("m^3")
 	dimEfield       = mustDim("V/m")
 	dimRate         = mustDim("T/s")
@@ -142,7 +160,7 @@ func ofDim(fn string, args []runtime.Value, i int, d runtime.Dim) (float64, erro
 		return 0, err
 	}
 	if q.D != d {
-		return 0, errorf("%s: the %s argument must be %s, not %s", fn, ordinal(i), d.Describe(), q.D.Describe())
+		return 0, errorf("%s: the %s argument must be %s, not %s%s", fn, ordinal(i), d.Describe(), q.D.Describe(), runtime.AngleNote(q.D, d))
 	}
 	return q.V, nil
 }
@@ -243,6 +261,15 @@ func (r *argReader) ofDim(i int, d runtime.Dim) float64 {
 		return 0
 	}
 	v, err := ofDim(r.fn, r.args, i, d)
+	r.err = err
+	return v
+}
+
+func (r *argReader) angle(i int) float64 {
+	if r.err != nil {
+		return 0
+	}
+	v, err := angle(r.fn, r.args, i)
 	r.err = err
 	return v
 }

@@ -81,7 +81,7 @@ func (a *Assessment) Summary(digits int) string {
 // those tables are (from memory).
 func icnirpLimit(f float64, occupational bool) (float64, error) {
 	if !(f >= 1 && f <= 10e6) {
-		return 0, fmt.Errorf("the ICNIRP 2010 reference levels cover 1 Hz to 10 MHz; %s is outside", runtime.Format(runtime.Quantity{V: f, D: dimHertz}, 4))
+		return 0, fmt.Errorf("the ICNIRP 2010 reference levels cover 1 Hz to 10 MHz; %s is outside", runtime.Format(runtime.Quantity{V: f, D: dimHertz, Cyc: true}, 4))
 	}
 	if occupational {
 		switch {
@@ -179,7 +179,7 @@ func cautionFuncs() []*runtime.Func {
 			}
 			text := fmt.Sprintf("%s is %s the ICNIRP 2010 %s reference level at %s (%s): %s of it",
 				runtime.Format(runtime.Quantity{V: math.Abs(b), D: dimTesla}, 4), verdict, group,
-				runtime.Format(runtime.Quantity{V: f, D: dimHertz}, 4), runtime.Format(runtime.Quantity{V: l, D: dimTesla}, 4),
+				runtime.Format(runtime.Quantity{V: f, D: dimHertz, Cyc: true}, 4), runtime.Format(runtime.Quantity{V: l, D: dimTesla}, 4),
 				percent(r))
 			return &Assessment{Ratio: r, Text: text + ".", Exceeded: r > 1}, nil
 		}),

@@ -87,7 +87,7 @@ var inductionCases = []inductionCase{
 	{name: "circle center a scalar", in: "circle(5 m, [0,0,1], 5 mm)", want: []string{"circle", "must be a vector"}},
 	{name: "circle axis the zero vector", in: "circle([0,0,0] m, [0,0,0], 5 mm)", want: []string{"circle", "zero vector"}},
 	{name: "segment end in seconds", in: "segment([0,0,0] m, [1,0,0] s)", want: []string{"segment", "position in m", "time"}},
-	{name: "helix turns in metres", in: "helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25 m)", want: []string{"helix", "dimensionless"}},
+	{name: "helix turns in metres", in: "helix([0,0,0] m, [0,0,1], 10 mm, 40 mm, 25 m)", want: []string{"helix", "plain number"}},
 	{name: "source current in volts", in: "source(loop, 2 V)", want: []string{"source", "must be in A", "voltage"}},
 	{name: "source current a path", in: "source(loop, open)", want: []string{"source", "a path"}},
 	{name: "uniform field in amperes", in: "uniform([0,0,1] A)", want: []string{"uniform", "in T", "electric current"}},

@@ -146,10 +146,10 @@ func resistivityOf(fn string, args []runtime.Value, mi, ti int) (float64, error)
 	}
 	t, err := ofDim(fn, args, ti, dimKelvin)
 	if err != nil {
-		return 0, errorf("%s (write the temperature in kelvin: 20 °C is 293.15 K)", err)
+		return 0, errorf("%s (write the temperature in kelvin or °C: 20 °C is 293.15 K)", err)
 	}
 	if !(t >= tempMin && t <= tempMax) {
-		return 0, errorf("%s: the temperature %s (%s °C) is outside the linear law's range, 223.15 K to 473.15 K (−50 °C to 200 °C); write the temperature in kelvin, e.g. 20 °C as 293.15 K",
+		return 0, errorf("%s: the temperature %s (%s °C) is outside the linear law's range, 223.15 K to 473.15 K (−50 °C to 200 °C); write an absolute temperature, e.g. 20 °C or 293.15 K",
 			fn, runtime.Format(runtime.Quantity{V: t, D: dimKelvin}, 6), runtime.FormatNumber(t-celsius0, 6))
 	}
 	return rho20 * (1 + alpha*(t-(celsius0+20))), nil
@@ -346,10 +346,10 @@ func formulaFuncs() []*runtime.Func {
 			return runtime.Quantity{V: math.Sqrt2 * math.Pi * f * n * a * b, D: dimVolt}, nil
 		}),
 		fnc("resistivity", []string{"material", "temperature"}, 2, 2, &runtime.Help{
-			Signature: "resistivity(material: \"copper\" or \"aluminium\", temperature: K) -> ohm*m",
-			Summary:   "Resistivity of annealed copper or pure aluminium at a temperature: ρ(T) = ρ20 (1 + α (T − 293.15 K)). The temperature is absolute (kelvin): 20 °C is 293.15 K, 70 °C is 343.15 K.",
+			Signature: "resistivity(material: \"copper\" or \"aluminium\", temperature: K or °C) -> ohm*m",
+			Summary:   "Resistivity of annealed copper or pure aluminium at a temperature: ρ(T) = ρ20 (1 + α (T − 293.15 K)). The temperature is absolute, in K or °C: 20 °C is 293.15 K, 70 °C is 343.15 K.",
 			Method:    "linear law about 20 °C, accepted from −50 °C to 200 °C (223.15 K to 473.15 K). Copper: 1.7241e-8 ohm*m, α = 0.00393 K^-1; aluminium: 2.65e-8 ohm*m, α = 0.00429 K^-1 (pure metal; conductor-grade aluminium, 61% IACS, is about 2.83e-8 ohm*m)",
-			Example:   "resistivity(\"copper\", 343.15 K)",
+			Example:   "resistivity(\"copper\", 70 °C)",
 			Reference: refResist,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			rho, err := resistivityOf("resistivity", args, 0, 1)
@@ -359,10 +359,10 @@ func formulaFuncs() []*runtime.Func {
 			return runtime.Quantity{V: rho, D: dimOhmMetre}, nil
 		}),
 		fnc("wire_resistance", []string{"length", "diameter", "material", "temperature"}, 4, 4, &runtime.Help{
-			Signature: "wire_resistance(length: m, diameter: m, material: \"copper\" or \"aluminium\", temperature: K) -> ohm",
+			Signature: "wire_resistance(length: m, diameter: m, material: \"copper\" or \"aluminium\", temperature: K or °C) -> ohm",
 			Summary:   "DC resistance of a solid round wire: R = ρ(T) · length / (π d²/4), ρ(T) as resistivity().",
-			Method:    "direct current (no skin or proximity effect: at frequency f the wire's resistance rises once the diameter approaches 2·skin_depth); temperature in kelvin, −50 °C to 200 °C",
-			Example:   "wire_resistance(100 m, awg_diameter(14), \"copper\", 293.15 K)",
+			Method:    "direct current (no skin or proximity effect: at frequency f the wire's resistance rises once the diameter approaches 2·skin_depth); absolute temperature in K or °C, −50 °C to 200 °C",
+			Example:   "wire_resistance(100 m, awg_diameter(14), \"copper\", 20 °C)",
 			Reference: refResist,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "wire_resistance"

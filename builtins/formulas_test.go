@@ -606,6 +606,24 @@ func TestResistance(t *testing.T) {
 	if got := fmVal(t, "ohm*m", "resistivity(\"aluminium\", 373.15 K)"); fmRel(got, 2.65e-8*(1+0.00429*80)) > 1e-14 {
 		t.Errorf("aluminium at 100 °C: %g Ω·m", got)
 	}
+	// The same temperatures written in °C: SI Brochure, 9th ed. (2019),
+	// §2.3.1: T/K = t/°C + 273.15. The literal "20 °C" is rounded once from
+	// its decimal value, so it is the very float64 that "293.15 K" is and
+	// the results must be equal (tolerance 0).
+	for _, c := range []struct{ celsius, kelvin string }{
+		{"20 °C", "293.15 K"}, {"70 degC", "343.15 K"}, {"-40 °C", "233.15 K"}, {"100 °C", "373.15 K"},
+	} {
+		for _, m := range []string{"copper", "aluminium"} {
+			a := fmVal(t, "ohm*m", "resistivity(\""+m+"\", "+c.celsius+")")
+			b := fmVal(t, "ohm*m", "resistivity(\""+m+"\", "+c.kelvin+")")
+			if a != b {
+				t.Errorf("resistivity(%s, %s) = %.17g, at %s = %.17g; want equal", m, c.celsius, a, c.kelvin, b)
+			}
+		}
+	}
+	if a, b := fmVal(t, "ohm", "wire_resistance(100 m, 1.382 mm, \"copper\", 20 °C)"), fmVal(t, "ohm", "wire_resistance(100 m, 1.382 mm, \"copper\", 293.15 K)"); a != b {
+		t.Errorf("wire_resistance at 20 °C = %v, at 293.15 K = %v", a, b)
+	}
 }
 
 // TestFormulaErrors: out-of-range and ill-typed inputs are positioned
@@ -637,7 +655,7 @@ func TestFormulaErrors(t *testing.T) {
 		{"awg_diameter(57)", "-3 to 56"},
 		{"awg_diameter(2.5)", "whole number"},
 		{"awg_diameter(\"5/0\")", "unknown gauge"},
-		{"awg_diameter(1 mm)", "dimensionless"},
+		{"awg_diameter(1 mm)", "plain number"},
 	} {
 		s := runtime.NewSession(builtins.Standard())
 		_, err := s.Eval(lang.Pos{Line: 1, Col: 1}, c.in)

@@ -100,14 +100,14 @@ func geometryFuncs() []*runtime.Func {
 			return pathResult("circle", []em.Prim{p})
 		}),
 		fnc("arc", []string{"center", "axis", "start", "angle"}, 4, 4, &runtime.Help{
-			Signature: "arc(center: position [m], axis: vector, start: position [m], angle: dimensionless) -> path",
+			Signature: "arc(center: position [m], axis: vector, start: position [m], angle: rad (or a plain number in radians)) -> path",
 			Summary:   "A circular arc around axis through center, from start, sweeping angle (right-handed about axis; negative sweeps back).",
 			Method:    "kept exact; fields use incomplete elliptic integrals, or adaptive quadrature along the arc for points very near its circle",
 			Example:   "arc([0, 0, 0] m, [0, 0, 1], [20, 0, 0] mm, 90 deg)",
 			Reference: refGeom,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("arc", args)
-			c, ax, s, ang := r.point(0), r.axis(1), r.point(2), r.number(3)
+			c, ax, s, ang := r.point(0), r.axis(1), r.point(2), r.angle(3)
 			if r.err != nil {
 				return nil, r.err
 			}
@@ -190,13 +190,13 @@ func geometryFuncs() []*runtime.Func {
 			return transformed(p, id, em.Vec{}, v), nil
 		}),
 		fnc("rotate", []string{"path", "axis", "angle", "origin"}, 3, 4, &runtime.Help{
-			Signature: "rotate(path, axis: vector, angle: dimensionless[, origin: position [m]]) -> path",
+			Signature: "rotate(path, axis: vector, angle: rad (or a plain number in radians)[, origin: position [m]]) -> path",
 			Summary:   "The path turned by angle about axis (right-handed) through origin (default the coordinate origin).",
 			Example:   "rotate(circle([0, 0, 0] m, [0, 0, 1], 25 mm), [1, 0, 0], 90 deg)",
 			Reference: "gonum spatial/r3 Rotation (unit quaternion)",
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("rotate", args)
-			p, ax, ang := r.path(0), r.axis(1), r.number(2)
+			p, ax, ang := r.path(0), r.axis(1), r.angle(2)
 			var origin em.Vec
 			if len(args) > 3 {
 				origin = r.point(3)

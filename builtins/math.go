@@ -20,7 +20,49 @@ func unary(name, summary, example string, f func(float64) float64) *runtime.Func
 			return finite(name, f(x), runtime.Dimensionless)
 		},
 		Help: &runtime.Help{
-			Signature: name + "(x: dimensionless) -> dimensionless",
+			Signature: name + "(x: plain number) -> plain number",
+			Summary:   summary,
+			Example:   example,
+			Reference: refGoMath,
+		},
+	}
+}
+
+// trig makes sin, cos or tan: the argument is an angle (rad, deg, rev) or
+// a plain number read as radians, so sin(2*pi*50 Hz*t) and
+// sin(3000 rpm*t) both work.
+func trig(name, summary, example string, f func(float64) float64) *runtime.Func {
+	return &runtime.Func{
+		Name: name, Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
+		Call: func(args []runtime.Value) (runtime.Value, error) {
+			x, err := angle(name, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return finite(name, f(x), runtime.Dimensionless)
+		},
+		Help: &runtime.Help{
+			Signature: name + "(x: rad, or a plain number in radians) -> dimensionless",
+			Summary:   summary,
+			Example:   example,
+			Reference: refGoMath,
+		},
+	}
+}
+
+// inverse makes asin, acos or atan, which return an angle in rad.
+func inverse(name, summary, example string, f func(float64) float64) *runtime.Func {
+	return &runtime.Func{
+		Name: name, Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
+		Call: func(args []runtime.Value) (runtime.Value, error) {
+			x, err := number(name, args, 0)
+			if err != nil {
+				return nil, err
+			}
+			return finite(name, f(x), dimAngle)
+		},
+		Help: &runtime.Help{
+			Signature: name + "(x: dimensionless) -> rad",
 			Summary:   summary,
 			Example:   example,
 			Reference: refGoMath,
@@ -30,12 +72,12 @@ func unary(name, summary, example string, f func(float64) float64) *runtime.Func
 
 func mathFuncs() []*runtime.Func {
 	fs := []*runtime.Func{
-		unary("sin", "Sine of an angle (rad, or deg via the unit deg).", "sin(30 deg)", math.Sin),
-		unary("cos", "Cosine of an angle.", "cos(2*pi*50 Hz*5 ms)", math.Cos),
-		unary("tan", "Tangent of an angle.", "tan(45 deg)", math.Tan),
-		unary("asin", "Inverse sine, in rad.", "asin(0.5) as deg", math.Asin),
-		unary("acos", "Inverse cosine, in rad.", "acos(0.5) as deg", math.Acos),
-		unary("atan", "Inverse tangent, in rad.", "atan(1) as deg", math.Atan),
+		trig("sin", "Sine of an angle (rad, deg, rev) or of a plain number in radians.", "sin(30 deg)", math.Sin),
+		trig("cos", "Cosine of an angle or of a plain number in radians.", "cos(2*pi*50 Hz*5 ms)", math.Cos),
+		trig("tan", "Tangent of an angle or of a plain number in radians.", "tan(45 deg)", math.Tan),
+		inverse("asin", "Inverse sine, an angle in rad from -pi/2 to pi/2.", "asin(0.5) as deg", math.Asin),
+		inverse("acos", "Inverse cosine, an angle in rad from 0 to pi.", "acos(0.5) as deg", math.Acos),
+		inverse("atan", "Inverse tangent, an angle in rad from -pi/2 to pi/2.", "atan(1) as deg", math.Atan),
 		unary("sinh", "Hyperbolic sine.", "sinh(1)", math.Sinh),
 		unary("cosh", "Hyperbolic cosine.", "cosh(1)", math.Cosh),
 		unary("tanh", "Hyperbolic tangent.", "tanh(1)", math.Tanh),
@@ -76,12 +118,14 @@ func mathFuncs() []*runtime.Func {
 				if err != nil {
 					return nil, err
 				}
-				return runtime.Quantity{V: math.Abs(q.V), D: q.D}, nil
+				return runtime.Quantity{V: math.Abs(q.V), D: q.D, Cyc: q.Cyc}, nil
 			},
 			Help: &runtime.Help{Signature: "abs(x: any unit) -> same unit", Summary: "Absolute value.", Example: "abs(-3 mV)", Reference: refGoMath},
 		},
-		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> dimensionless", "atan2(1 mm, -1 mm) as deg",
-			func(y, x runtime.Quantity) runtime.Quantity { return runtime.Num(math.Atan2(y.V, x.V)) }),
+		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> rad", "atan2(1 mm, -1 mm) as deg",
+			func(y, x runtime.Quantity) runtime.Quantity {
+				return runtime.Quantity{V: math.Atan2(y.V, x.V), D: dimAngle}
+			}),
 		sameDim2("hypot", "sqrt(a^2 + b^2) without overflow.", "hypot(a: unit, b: same unit) -> unit", "hypot(3 mm, 4 mm)",
 			func(a, b runtime.Quantity) runtime.Quantity { return runtime.Quantity{V: math.Hypot(a.V, b.V), D: a.D} }),
 		sameDimN("min", "Smallest of its arguments.", "min(a: unit, b: same unit, ...) -> unit", "min(3 mm, 0.2 inch)", math.Min),
@@ -135,6 +179,7 @@ func sameDimN(name, summary, sig, example string, f func(a, b float64) float64) 
 					return nil, errorf("%s: all arguments must have one dimension; the first is %s, the %s is %s", name, acc.D.Describe(), ordinal(i), q.D.Describe())
 				}
 				acc.V = f(acc.V, q.V)
+				acc.Cyc = acc.Cyc && q.Cyc
 			}
 			return acc, nil
 		},

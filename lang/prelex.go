@@ -91,13 +91,10 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 		for k < len(r) && (r[k] == ' ' || r[k] == '\t') {
 			k++
 		}
-		if k >= len(r) || !isIdentStart(r[k]) {
+		if k >= len(r) || !isUnitStart(r[k]) {
 			return -1, -1, nil
 		}
-		e := k
-		for e < len(r) && isIdentPart(r[e]) {
-			e++
-		}
+		e := unitWordEnd(r, k)
 		word := string(r[k:e])
 		if Keywords[word] {
 			return -1, -1, nil
@@ -173,6 +170,9 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 				}
 				return nil, errAt(us, ue-us, "%s", msg)
 			}
+			if err := unitTail(r, us, ue, num, errAt); err != nil {
+				return nil, err
+			}
 			ph := newLit(num, word, i, us)
 			emit(ph, i)
 			i = ue
@@ -186,6 +186,9 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 				i++
 				continue
 			}
+			if err := unitTail(r, us, ue, "", errAt); err != nil {
+				return nil, err
+			}
 			ph := newLit("", string(r[us:ue]), us, us)
 			emit("*"+ph, us)
 			i = ue
@@ -198,13 +201,57 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 	return w, nil
 }
 
-func firstAtom(u string) string {
-	for i, c := range u {
-		if !isIdentPart(c) {
-			return u[:i]
-		}
+// unitTail reports a unit literal r[us:ue] that is directly followed by an
+// operator the unit scanner could not take: a '^' without a whole power
+// ("5 m^", "5 m^x"), or '*', '/' or "**" with nothing after it ("5 kg**").
+// The error points at the unit text, where the mistake is.
+func unitTail(r []rune, us, ue int, num string, errAt func(off, width int, format string, args ...any) error) error {
+	if ue >= len(r) {
+		return nil
 	}
-	return u
+	unit := string(r[us:ue])
+	if r[ue] == '^' {
+		msg := fmt.Sprintf("after the unit %q, ^ needs a whole power written with it, as in %s^2 or %s^-1", unit, unit, unit)
+		if num != "" {
+			msg += fmt.Sprintf("; to raise the whole quantity, write (%s %s)^...", num, unit)
+		}
+		return errAt(us, ue-us+1, "%s", msg)
+	}
+	if r[ue] != '*' && r[ue] != '/' {
+		return nil
+	}
+	k := ue + 1
+	if k < len(r) && r[k] == r[ue] {
+		if r[ue] == '/' {
+			return nil // a comment
+		}
+		k++
+	}
+	if strings.TrimSpace(string(r[k:])) == "" {
+		return errAt(us, k-us, "the unit %q is followed by %q and nothing else: a unit or a value is missing", unit, string(r[ue:k]))
+	}
+	return nil
+}
+
+func firstAtom(u string) string {
+	r := []rune(u)
+	return string(r[:unitWordEnd(r, 0)])
+}
+
+// isUnitStart reports whether c may start a unit symbol: a name's first
+// character, or the degree sign of °C.
+func isUnitStart(c rune) bool { return isIdentStart(c) || c == '°' }
+
+// unitWordEnd returns the end of the unit symbol starting at k.
+func unitWordEnd(r []rune, k int) int {
+	e := k
+	if e < len(r) && r[e] == '°' {
+		e++
+	}
+	for e < len(r) && isIdentPart(r[e]) {
+		e++
+	}
+	return e
 }
 
 // scanNumber returns the end of the number that starts at i: digits with
@@ -286,11 +333,8 @@ func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
 			return k, false
 		}
 		e = n + 1
-	case isIdentStart(r[k]):
-		e = k
-		for e < len(r) && isIdentPart(r[e]) {
-			e++
-		}
+	case isUnitStart(r[k]):
+		e = unitWordEnd(r, k)
 		if !units.IsUnit(string(r[k:e])) {
 			return k, false
 		}

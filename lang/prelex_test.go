@@ -24,6 +24,7 @@ func (u fakeUnits) SuggestUnit(name string) string {
 var units = fakeUnits{
 	"m": true, "mm": true, "s": true, "ms": true, "A": true, "kg": true,
 	"T": true, "mT": true, "µT": true, "uT": true, "W": true, "K": true, "Wb": true,
+	"°C": true,
 }
 
 // rewrite parses in as a statement and rewrites its expression.
@@ -57,6 +58,9 @@ func TestRewriteLiterals(t *testing.T) {
 		{"(2+3) mm", "(2+3)*__L0", []lang.Literal{lit("__L0", "", "mm", 6, 6)}},
 		// A space ends the unit: s is a name here, multiplied.
 		{"2 m * s", "__L0 * s", []lang.Literal{lit("__L0", "2", "m", 0, 2)}},
+		// The degree sign starts a unit symbol (°C).
+		{"20 °C", "__L0", []lang.Literal{lit("__L0", "20", "°C", 0, 3)}},
+		{"-5°C + x", "-__L0 + x", []lang.Literal{lit("__L0", "5", "°C", 1, 2)}},
 		// "**" is the engine's power operator, not a unit product.
 		{"2 m**2", "__L0**2", []lang.Literal{lit("__L0", "2", "m", 0, 2)}},
 		{"1.2e-3 Wb", "__L0", []lang.Literal{lit("__L0", "1.2e-3", "Wb", 0, 7)}},
@@ -144,6 +148,14 @@ func TestRewriteErrors(t *testing.T) {
 			"t.lw:1:10: unknown unit \"µX\" after a number (to multiply by a name, write 2*µX)\n    5 µT + 2 µX\n             ^^"},
 		{"1 + __L0",
 			"t.lw:1:5: names starting with \"__\" are reserved\n    1 + __L0\n        ^^^^"},
+		// A unit directly followed by an operator it cannot take: the
+		// caret is on the unit.
+		{"5 m^",
+			"t.lw:1:3: after the unit \"m\", ^ needs a whole power written with it, as in m^2 or m^-1; to raise the whole quantity, write (5 m)^...\n    5 m^\n      ^^"},
+		{"5 kg**",
+			"t.lw:1:3: the unit \"kg\" is followed by \"**\" and nothing else: a unit or a value is missing\n    5 kg**\n      ^^^^"},
+		{"(1 + 2) mm/ ",
+			"t.lw:1:9: the unit \"mm\" is followed by \"/\" and nothing else: a unit or a value is missing\n    (1 + 2) mm/ \n            ^^^"},
 		{"2and 3",
 			"t.lw:1:1: a number must be followed by a space or an operator here\n    2and 3\n    ^^"},
 	}

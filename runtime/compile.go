@@ -100,6 +100,8 @@ func (p *program) errorAt(loc file.Location, msg string) *lang.Error {
 // __call. It records the first problem it meets.
 type patcher struct {
 	lits   map[string]Quantity
+	negs   map[string]Quantity // offset literals (°C): the value of -number
+	negOf  map[*ast.ConstantNode]Quantity
 	params map[string]int
 	known  func(name string) bool
 	names  func() []string
@@ -129,7 +131,11 @@ func (v *patcher) Visit(node *ast.Node) {
 	switch n := (*node).(type) {
 	case *ast.IdentifierNode:
 		if q, ok := v.lits[n.Value]; ok {
-			ast.Patch(node, &ast.ConstantNode{Value: q})
+			c := &ast.ConstantNode{Value: q}
+			if neg, ok := v.negs[n.Value]; ok {
+				v.negOf[c] = neg
+			}
+			ast.Patch(node, c)
 			return
 		}
 		if strings.HasPrefix(n.Value, "__") {
@@ -163,6 +169,13 @@ func (v *patcher) Visit(node *ast.Node) {
 	case *ast.UnaryNode:
 		switch n.Operator {
 		case "-":
+			if c, ok := n.Node.(*ast.ConstantNode); ok {
+				if neg, ok := v.negOf[c]; ok {
+					// -10 °C is 263.15 K, not -(283.15 K)
+					ast.Patch(node, &ast.ConstantNode{Value: neg})
+					return
+				}
+			}
 			ast.Patch(node, call("__neg", n.Node))
 		case "+":
 			ast.Patch(node, n.Node)
@@ -240,6 +253,7 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 	}
 	p := &program{st: st, rw: rw, off: off}
 	lits := make(map[string]Quantity, len(rw.Lits))
+	negs := map[string]Quantity{}
 	for _, l := range rw.Lits {
 		u, err := ParseUnit(l.Unit)
 		if err != nil {
@@ -250,20 +264,30 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 			return nil, st.Errorf(off+l.UnitOff, utf8.RuneCountInString(l.Unit), "%s", err)
 		}
 		if l.Number == "" {
-			lits[l.Placeholder] = Quantity{u.Scale(), u.Dim}
+			if u.Offset != 0 {
+				return nil, st.Errorf(off+l.UnitOff, utf8.RuneCountInString(l.Unit), "°C has an offset (0 °C = 273.15 K), so it must follow a number directly, as in 20 °C; to scale an expression that is a temperature difference, use K")
+			}
+			lits[l.Placeholder] = Quantity{V: u.Scale(), D: u.Dim, Cyc: u.Cyc}
 			continue
 		}
 		val, err := LiteralValue(l.Number, u)
 		if err != nil {
 			return nil, st.Errorf(off+l.Off, l.UnitOff-l.Off+utf8.RuneCountInString(l.Unit), "%s", err)
 		}
-		lits[l.Placeholder] = Quantity{val, u.Dim}
+		lits[l.Placeholder] = Quantity{V: val, D: u.Dim, Cyc: u.Cyc}
+		if u.Offset != 0 {
+			neg, err := LiteralValue("-"+l.Number, u)
+			if err != nil {
+				return nil, st.Errorf(off+l.Off, l.UnitOff-l.Off+utf8.RuneCountInString(l.Unit), "%s", err)
+			}
+			negs[l.Placeholder] = Quantity{V: neg, D: u.Dim}
+		}
 	}
 	pm := make(map[string]int, len(params))
 	for i, name := range params {
 		pm[name] = i
 	}
-	pt := &patcher{lits: lits, params: pm, known: s.known, names: s.Names, p: p}
+	pt := &patcher{lits: lits, negs: negs, negOf: map[*ast.ConstantNode]Quantity{}, params: pm, known: s.known, names: s.Names, p: p}
 	opts := append([]expr.Option{}, opOptions...)
 	opts = append(opts, expr.Patch(pt), expr.Function(fnCall, s.callFunc))
 	if frame != nil {

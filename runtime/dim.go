@@ -5,10 +5,16 @@ import (
 	"strings"
 )
 
-// Dim is an SI dimension: exponents of the seven base quantities in the
+// Dim is a dimension: exponents of the seven SI base quantities in the
 // order length, mass, time, electric current, temperature, amount of
-// substance, luminous intensity (SI Brochure, 9th ed., 2019, §2.3.3).
-type Dim [7]int8
+// substance, luminous intensity (SI Brochure, 9th ed., 2019, §2.3.3), and
+// an eighth for plane angle. The SI treats the radian as the coherent unit
+// of plane angle with dimension one (Table 4 and its notes); Loopwise keeps
+// angle as a dimension of its own, shown as rad, so that an angular
+// velocity (rad/s) and a frequency (Hz = s^-1) cannot be confused and a
+// missing or extra factor 2π is caught (see Mohr and Phillips, "Dimensionless
+// units in the SI", Metrologia 52 (2015) 40–47, on tracking angle).
+type Dim [8]int8
 
 // Base dimension indices.
 const (
@@ -19,10 +25,11 @@ const (
 	Temperature
 	Amount
 	Luminous
+	Angle
 )
 
-// baseSymbols are the SI base unit symbols in Dim order.
-var baseSymbols = [7]string{"m", "kg", "s", "A", "K", "mol", "cd"}
+// baseSymbols are the SI base unit symbols in Dim order, then the radian.
+var baseSymbols = [8]string{"m", "kg", "s", "A", "K", "mol", "cd", "rad"}
 
 // Dimensionless is the dimension of pure numbers.
 var Dimensionless Dim
@@ -77,7 +84,7 @@ func (d Dim) BaseUnits() string {
 		return "1"
 	}
 	var num, den []string
-	order := []int{Mass, Length, Time, Current, Temperature, Amount, Luminous}
+	order := []int{Mass, Length, Time, Current, Temperature, Amount, Luminous, Angle}
 	for _, i := range order {
 		p := d[i]
 		switch {
@@ -125,7 +132,11 @@ var dimNames = []struct {
 	{"volume", "m^3"},
 	{"speed", "m/s"},
 	{"acceleration", "m/s^2"},
-	{"frequency", "Hz"},
+	{"frequency", "s^-1"},
+	{"plane angle", "rad"},
+	{"solid angle", "sr"},
+	{"angular velocity", "rad/s"},
+	{"angular acceleration", "rad/s^2"},
 	{"force", "N"},
 	{"energy", "J"},
 	{"power", "W"},
@@ -175,6 +186,9 @@ func buildDimNames() map[Dim]string {
 // or "kg*m/s^3" when it has no common name.
 func (d Dim) Describe() string {
 	unit := DisplayUnitOf(d)
+	if d == dFreq {
+		unit = "Hz or s^-1" // shown in Hz when it counts cycles
+	}
 	if n, ok := dimNameOf[d]; ok {
 		if d.IsZero() {
 			return n

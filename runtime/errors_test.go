@@ -120,10 +120,10 @@ var errorCases = []errorCase{
 
 	// Function arguments.
 	{name: "sin of a length", in: "sin(3 m)", col: 1,
-		msg:   `sin: the first argument must be dimensionless (an angle in rad or deg, or a plain number), not length (m)`,
+		msg:   `sin: the first argument must be an angle (rad, deg, rev) or a plain number in radians, not length (m)`,
 		caret: "^^^"},
 	{name: "sin of a length inside a sum", in: "1 + sin(3 m)", col: 5,
-		msg:   `sin: the first argument must be dimensionless (an angle in rad or deg, or a plain number), not length (m)`,
+		msg:   `sin: the first argument must be an angle (rad, deg, rev) or a plain number in radians, not length (m)`,
 		caret: "    ^^^"},
 	{name: "hypot of mixed dimensions", in: "hypot(3 mm, 4 s)", col: 1,
 		msg:   `hypot: both arguments must have one dimension; got length (m) and time (s)`,

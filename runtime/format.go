@@ -36,14 +36,24 @@ var displayNamed = []struct {
 }{
 	{"T", -5, 4}, {"Wb", -5, 4}, {"H", -5, 4}, {"V", -5, 4}, {"A", -5, 4}, {"Ω", -5, 4},
 	{"W", -5, 4}, {"J", -5, 4}, {"N", -5, 4}, {"C", -5, 4}, {"F", -5, 4}, {"S", -5, 4},
-	{"Hz", -5, 4}, {"Pa", -5, 4},
+	{"Pa", -5, 4},
 	{"m", -5, 1}, {"s", -5, 0}, {"g", -5, 2}, {"K", -5, 0}, {"mol", -5, 1}, {"cd", -5, 1},
 }
 
-// notInComposites are named units shown only for their own dimension: the
-// hertz is for periodic phenomena (SI Brochure, 9th ed., Table 4, note), so
-// a speed is m/s, never Hz*m; a power density is W/m^3, not Pa/s.
-var notInComposites = map[string]bool{"Hz": true, "Pa": true}
+// notInComposites are named units shown only for their own dimension: a
+// power density is W/m^3, not Pa/s. The hertz is not in displayNamed at
+// all: it is for periodic phenomena (SI Brochure, 9th ed., Table 4, note),
+// so s^-1 is shown in Hz only for a quantity known to count cycles
+// (Quantity.Cyc), and a speed is m/s, never Hz*m.
+var notInComposites = map[string]bool{"Pa": true}
+
+// hzDisplay shows a cycle frequency (Quantity.Cyc).
+var hzDisplay = display{atom: "Hz", power: 1, scale: 1, kmin: -5, kmax: 4}
+
+// rateText is how s^-1 is shown when it is not known to count cycles: a
+// rate, or an angular frequency whose radian was never written. The text
+// parses back as a unit.
+const rateText = "s^-1"
 
 var displayRest = []string{"m", "m^2", "m^3", "s", "s^2", "A", "K"}
 
@@ -67,6 +77,12 @@ func displayOf(d Dim) display {
 }
 
 func findDisplay(d Dim) display {
+	if d == dFreq {
+		return display{composite: rateText, scale: 1}
+	}
+	if d[Angle] != 0 {
+		return angleDisplay(d)
+	}
 	atomDim := func(sym string) Dim {
 		u, _ := lookupAtom(sym)
 		return u.Dim
@@ -122,6 +138,43 @@ func findDisplay(d Dim) display {
 	}
 	// 3. SI base units
 	return display{composite: d.BaseUnits(), scale: 1}
+}
+
+// angleDisplay shows a dimension with a power of plane angle: rad, sr,
+// rad/s, rad/s^2, or the display of the rest with the radian appended
+// ("V*rad", "T*m^2/rad").
+func angleDisplay(d Dim) display {
+	k := int(d[Angle])
+	rest := d
+	rest[Angle] = 0
+	switch {
+	case rest.IsZero() && k == 1:
+		return display{atom: "rad", power: 1, scale: 1, kmin: -2, kmax: 0}
+	case rest.IsZero() && k == 2:
+		return display{atom: "sr", power: 1, scale: 1, kmin: 0, kmax: 0}
+	case k == 1 && rest == dTime.Pow(-1):
+		return display{atom: "rad", power: 1, rest: "/s", scale: 1, kmin: -2, kmax: 0}
+	case k == 1 && rest == dTime.Pow(-2):
+		return display{atom: "rad", power: 1, rest: "/s^2", scale: 1, kmin: -2, kmax: 0}
+	}
+	if rest.IsZero() || rest == dFreq {
+		return display{composite: d.BaseUnits(), scale: 1}
+	}
+	rd := findDisplay(rest)
+	if rd.atom == "" {
+		return display{composite: d.BaseUnits(), scale: 1}
+	}
+	switch {
+	case k == 1:
+		rd.rest += "*rad"
+	case k > 1:
+		rd.rest += "*rad^" + strconv.Itoa(k)
+	case k == -1:
+		rd.rest += "/rad"
+	default:
+		rd.rest += "/rad^" + strconv.Itoa(-k)
+	}
+	return rd
 }
 
 // sharesBase reports whether a base unit (a dimension with one nonzero
@@ -241,6 +294,9 @@ func formatQuantity(q Quantity, digits int) string {
 		return FormatNumber(q.V, digits)
 	}
 	ds := displayOf(q.D)
+	if q.Cyc && q.D == dFreq {
+		ds = hzDisplay
+	}
 	if ds.atom == "" {
 		return FormatNumber(q.V, digits) + " " + ds.composite
 	}
@@ -295,6 +351,13 @@ func formatVector(v Vector, digits int) string {
 // FormatIn shows a quantity or vector in the given unit expression; the
 // dimensions must match.
 func FormatIn(v Value, unit string, digits int) (string, error) {
+	return FormatInExpr(v, unit, digits, "")
+}
+
+// FormatInExpr is FormatIn; expr, when not empty, is the text of the
+// expression being shown, quoted in a hint when only the angle is missing
+// or extra (50 Hz as rad/s).
+func FormatInExpr(v Value, unit string, digits int, expr string) (string, error) {
 	u, err := ParseUnit(unit)
 	if err != nil {
 		return "", err
@@ -303,12 +366,18 @@ func FormatIn(v Value, unit string, digits int) (string, error) {
 	switch x := v.(type) {
 	case Quantity:
 		if x.D != u.Dim {
-			return "", &DimError{Msg: fmt.Sprintf("cannot show %s in %s, which measures %s", x.D.Describe(), unit, u.Dim.Describe())}
+			return "", &DimError{Msg: fmt.Sprintf("cannot show %s in %s, which measures %s%s", x.D.Describe(), unit, u.Dim.Describe(), asAngleHint(x, u, unit, expr, digits))}
+		}
+		if u.Offset != 0 {
+			return FormatNumber((x.V-u.Offset)/scale, digits) + " " + unit, nil
 		}
 		return FormatNumber(x.V/scale, digits) + " " + unit, nil
 	case Vector:
 		if x.D != u.Dim {
-			return "", &DimError{Msg: fmt.Sprintf("cannot show a vector of %s in %s, which measures %s", x.D.Describe(), unit, u.Dim.Describe())}
+			return "", &DimError{Msg: fmt.Sprintf("cannot show a vector of %s in %s, which measures %s%s", x.D.Describe(), unit, u.Dim.Describe(), angleNote(x.D, u.Dim))}
+		}
+		if u.Offset != 0 {
+			return "", &DimError{Msg: fmt.Sprintf("a vector cannot be shown in %s, which has an offset; use K", unit)}
 		}
 		parts := make([]string, 3)
 		for i, c := range CleanComponents(x.V) {
@@ -317,6 +386,79 @@ func FormatIn(v Value, unit string, digits int) (string, error) {
 		return "[" + strings.Join(parts, ", ") + "] " + unit, nil
 	default:
 		return "", &DimError{Msg: fmt.Sprintf("only quantities can be shown in a unit, not %s", TypeName(v))}
+	}
+}
+
+// wrapped reports whether s is one bracketed whole, such as "(a + b)" but
+// not "(a) + (b)".
+func wrapped(s string) bool {
+	if !strings.HasPrefix(s, "(") || !strings.HasSuffix(s, ")") {
+		return false
+	}
+	depth := 0
+	for i, c := range s {
+		switch c {
+		case '(':
+			depth++
+		case ')':
+			depth--
+			if depth == 0 && i != len(s)-1 {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// asAngleHint says how to show x in u when they differ only by a power of
+// angle: a frequency is multiplied by 1 rev (a cycle is a revolution, 2π
+// rad), a bare rate in s^-1 by 1 rad, an angular velocity shown in Hz is
+// divided by 1 rev. The hint quotes the result it would give.
+func asAngleHint(x Quantity, u UnitExpr, unit, expr string, digits int) string {
+	k := angleGap(x.D, u.Dim)
+	if k != 1 && k != -1 {
+		return ""
+	}
+	if expr == "" {
+		expr = Format(x, digits)
+	}
+	if wrapped(expr) {
+		expr = expr[1 : len(expr)-1]
+	}
+	if strings.ContainsAny(strings.TrimPrefix(expr, "-"), "+-?:<>=&|") {
+		expr = "(" + expr + ")" // binds looser than *
+	}
+	try := func(by string, f float64) string {
+		op := "*"
+		if k < 0 {
+			op = "/"
+		}
+		w := "(" + expr + " " + op + " 1 " + by + ") as " + unit
+		y := x
+		if k < 0 {
+			y.V /= f
+		} else {
+			y.V *= f
+		}
+		y.D = u.Dim
+		if t, err := FormatIn(y, unit, digits); err == nil {
+			w += " (= " + t + ")"
+		}
+		return w
+	}
+	switch {
+	case k == 1 && x.Cyc:
+		return "; a frequency counts cycles and carries no angle: for the angular frequency (one cycle is 2π rad) write " + try("rev", 2*math.Pi)
+	case k == 1 && x.D == dFreq:
+		return "; this rate in s^-1 carries no angle (2*pi*f gets a radian only when you give it one): if it is an angular frequency in radians per second, write " + try("rad", 1)
+	case k == 1 && x.D.IsZero():
+		return "; a plain number is not an angle: to read it as radians, write " + try("rad", 1)
+	case k == 1:
+		return "; the value carries no angle: if it is per radian, write " + try("rad", 1)
+	case k == -1 && u.Cyc:
+		return "; an angular velocity turns an angle, a frequency counts cycles: for cycles (revolutions) per second write " + try("rev", 2*math.Pi)
+	default:
+		return "; the value carries an angle the unit does not: to drop it, its value in radians, write " + try("rad", 1)
 	}
 }
 

@@ -37,6 +37,14 @@ var validStatements = []string{
 	"-[1, 2, 3] mm",
 	"(1 m^2)^0.5",
 	"2 ^ 10",
+	"3000 rpm as rad/s",
+	"(50 Hz * 1 rev) as rad/s",
+	"-10 °C as degC",
+	"f: kHz = 1/(2 ms)",
+	"50 Hz as rad/s",
+	"5 °C/s",
+	"5 m^",
+	"1 Qm + 1 qm",
 }
 
 // FuzzEval checks that Eval never panics and that every error it returns is

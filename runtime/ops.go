@@ -56,9 +56,9 @@ func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 	case Quantity:
 		if y, ok := b.(Quantity); ok {
 			if x.D != y.D {
-				return nil, dimErr("cannot %s %s and %s", verb, x.D.Describe(), y.D.Describe())
+				return nil, dimErr("cannot %s %s and %s%s", verb, x.D.Describe(), y.D.Describe(), angleNote(x.D, y.D))
 			}
-			return checkFinite(Quantity{x.V + sign*y.V, x.D}, "the result of "+op)
+			return checkFinite(Quantity{V: x.V + sign*y.V, D: x.D, Cyc: x.Cyc && y.Cyc}, "the result of "+op)
 		}
 	case Vector:
 		if y, ok := b.(Vector); ok {
@@ -109,7 +109,7 @@ func Mul(a, b Value) (Value, error) {
 	case Quantity:
 		switch y := b.(type) {
 		case Quantity:
-			return checkFinite(Quantity{x.V * y.V, d}, "the product")
+			return checkFinite(Quantity{V: x.V * y.V, D: d}, "the product")
 		case Vector:
 			return scaleVec(y, x.V, d)
 		}
@@ -157,7 +157,7 @@ func Div(a, b Value) (Value, error) {
 	}
 	switch x := a.(type) {
 	case Quantity:
-		return checkFinite(Quantity{x.V / y.V, d}, "the quotient")
+		return checkFinite(Quantity{V: x.V / y.V, D: d}, "the quotient")
 	case Vector:
 		return checkFiniteVec(Vector{[3]float64{x.V[0] / y.V, x.V[1] / y.V, x.V[2] / y.V}, d})
 	}
@@ -173,17 +173,18 @@ func Mod(a, b Value) (Value, error) {
 		return nil, dimErr("cannot take the remainder of %s by %s", TypeName(a), TypeName(b))
 	}
 	if x.D != y.D {
-		return nil, dimErr("cannot take the remainder of %s by %s", x.D.Describe(), y.D.Describe())
+		return nil, dimErr("cannot take the remainder of %s by %s%s", x.D.Describe(), y.D.Describe(), angleNote(x.D, y.D))
 	}
 	if y.V == 0 {
 		return nil, evalErr("remainder by zero")
 	}
-	return Quantity{math.Mod(x.V, y.V), x.D}, nil
+	return Quantity{V: math.Mod(x.V, y.V), D: x.D, Cyc: x.Cyc && y.Cyc}, nil
 }
 
 // Pow is a ^ b. The exponent is dimensionless; a quantity with a dimension
 // may be raised only to powers that give whole exponents of every base unit
-// (so m^2^0.5 works, m^0.5 does not).
+// (so (m^2)^0.5 works, m^0.5 does not). As in mathematics, ^ groups from
+// the right: a^2^0.5 is a^(2^0.5), which no unit allows.
 func Pow(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
 	x, ok1 := a.(Quantity)
@@ -211,14 +212,14 @@ func Pow(a, b Value) (Value, error) {
 	if x.V == 0 && y.V < 0 {
 		return nil, evalErr("zero raised to a negative power (division by zero)")
 	}
-	return checkFinite(Quantity{math.Pow(x.V, y.V), d}, "the power")
+	return checkFinite(Quantity{V: math.Pow(x.V, y.V), D: d}, "the power")
 }
 
 // Neg is -a.
 func Neg(a Value) (Value, error) {
 	switch x := normalize(a).(type) {
 	case Quantity:
-		return Quantity{-x.V, x.D}, nil
+		return Quantity{V: -x.V, D: x.D, Cyc: x.Cyc}, nil
 	case Vector:
 		return Vector{[3]float64{-x.V[0], -x.V[1], -x.V[2]}, x.D}, nil
 	}
@@ -235,7 +236,7 @@ func Compare(op string, a, b Value) (Value, error) {
 			break
 		}
 		if x.D != y.D {
-			return nil, dimErr("cannot compare %s with %s", x.D.Describe(), y.D.Describe())
+			return nil, dimErr("cannot compare %s with %s%s", x.D.Describe(), y.D.Describe(), angleNote(x.D, y.D))
 		}
 		switch op {
 		case "==":
@@ -307,5 +308,40 @@ func Component(v Value, i int) (Value, error) {
 	if !ok {
 		return nil, dimErr("only a vector has components .x, .y, .z; this is %s", TypeName(v))
 	}
-	return Quantity{x.V[i], x.D}, nil
+	return Quantity{V: x.V[i], D: x.D}, nil
+}
+
+// AngleNote is angleNote for builtins: "" or "; ..." explaining how to
+// fix a value whose dimension differs from the wanted one only by a power
+// of angle.
+func AngleNote(got, want Dim) string { return angleNote(got, want) }
+
+// angleNote explains a mismatch of dimensions that differ only in their
+// power of plane angle, such as rad/s against s^-1: the radian is never
+// added or dropped silently.
+func angleNote(a, b Dim) string {
+	k := angleGap(a, b)
+	switch {
+	case k == 0:
+		return ""
+	case a.IsZero() || b.IsZero():
+		return "; an angle is not a plain number: write the number with a unit (0.5 rad, 30 deg), or divide the angle by 1 rad for its value in radians"
+	case (a == dFreq && b == dAngle.Div(dTime)) || (b == dFreq && a == dAngle.Div(dTime)):
+		return "; a frequency (Hz, s^-1) counts cycles, an angular velocity (rad/s) turns an angle: an angular velocity is a frequency times 1 rev (one cycle is 2π rad), a frequency is an angular velocity divided by 1 rev; a bare 2*pi*f becomes rad/s times 1 rad"
+	}
+	return fmt.Sprintf("; they differ by rad^%d: multiply or divide by 1 rad where the angle belongs", k)
+}
+
+// angleGap returns b's power of angle minus a's when a and b differ in
+// nothing else, and 0 otherwise.
+func angleGap(a, b Dim) int {
+	if a == b {
+		return 0
+	}
+	ka, kb := a[Angle], b[Angle]
+	a[Angle], b[Angle] = 0, 0
+	if a != b {
+		return 0
+	}
+	return int(kb) - int(ka)
 }

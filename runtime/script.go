@@ -339,7 +339,7 @@ func parseRecorded(text string) (Value, string, bool) {
 	if err != nil {
 		return nil, "", false
 	}
-	return Quantity{v, u.Dim}, unit, true
+	return Quantity{V: v, D: u.Dim, Cyc: u.Cyc}, unit, true
 }
 
 // Record re-evaluates the script in s and returns its text with every

@@ -147,6 +147,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if err != nil {
 		return nil, err
 	}
+	v = markCycles(v, st.As)
 	unit := st.As
 	note := ""
 	if st.Kind == lang.Assign {
@@ -197,7 +198,11 @@ func (s *Session) show(st *lang.Statement, v Value, unit string, digits int) (st
 	if unit == "" {
 		return Format(v, digits), nil
 	}
-	text, err := FormatIn(v, unit, digits)
+	what := st.Name
+	if st.As != "" {
+		what = strings.TrimSpace(st.Expr)
+	}
+	text, err := FormatInExpr(v, unit, digits, what)
 	if err != nil {
 		off := st.AsOff
 		if st.As == "" {
@@ -250,8 +255,9 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s; cannot assign %s", name, decl, TypeName(v))
 		}
 		if d != u.Dim {
-			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s, which measures %s; cannot assign %s", name, decl, u.Dim.Describe(), d.Describe())
+			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s, which measures %s; cannot assign %s%s", name, decl, u.Dim.Describe(), d.Describe(), angleNote(d, u.Dim))
 		}
+		v = markCycles(v, decl)
 		if st.Declared != "" {
 			s.declared[name] = st.Declared
 		}
@@ -421,4 +427,18 @@ func (s *Session) CompileExpr(base lang.Pos, text string) (*Compiled, error) {
 func (c *Compiled) Eval() (Value, error) {
 	c.s.depth, c.s.tooDeep = 0, false
 	return c.s.run(c.p)
+}
+
+// markCycles sets Quantity.Cyc on a value of dimension s^-1 shown "as" or
+// declared in the hertz (with any prefix): the user says it counts cycles.
+func markCycles(v Value, unit string) Value {
+	q, ok := v.(Quantity)
+	if !ok || unit == "" || q.D != dFreq {
+		return v
+	}
+	if u, err := ParseUnit(unit); err == nil && u.Cyc {
+		q.Cyc = true
+		return q
+	}
+	return v
 }

@@ -3,11 +3,14 @@ package runtime
 import (
 	"fmt"
 	"math"
+	"math/big"
 	"sort"
 	"strconv"
 	"strings"
 	"sync"
 	"unicode"
+
+	"loopwise/lang"
 )
 
 // UnitDef is one entry of the unit catalogue. The unit's size in SI is
@@ -22,9 +25,13 @@ type UnitDef struct {
 	Prefix  bool   // accepts SI prefixes
 	Exact   bool   // the factor is exact by definition
 	Defined string // where the factor comes from
+	// Offset is the SI value of the scale's zero (273.15 K for °C): a
+	// number n in this unit is n×Factor + Offset. A unit with an offset
+	// may only stand alone after a number.
+	Offset float64
 }
 
-func dim(m, kg, s, a, k, mol, cd int8) Dim { return Dim{m, kg, s, a, k, mol, cd} }
+func dim(m, kg, s, a, k, mol, cd int8) Dim { return Dim{m, kg, s, a, k, mol, cd, 0} }
 
 var (
 	dLength  = dim(1, 0, 0, 0, 0, 0, 0)
@@ -42,6 +49,8 @@ var (
 	dWeber   = dim(2, 1, -2, -1, 0, 0, 0)
 	dHenry   = dim(2, 1, -2, -2, 0, 0, 0)
 	dFarad   = dim(-2, -1, 4, 2, 0, 0, 0)
+	dAngle   = Dim{Angle: 1}
+	dTemp    = dim(0, 0, 0, 0, 1, 0, 0)
 )
 
 const (
@@ -55,12 +64,19 @@ var catalogue = []UnitDef{
 	{Sym: "g", Name: "gram", Factor: 1, Exp10: -3, Dim: dMass, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
 	{Sym: "s", Name: "second", Factor: 1, Dim: dTime, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
 	{Sym: "A", Name: "ampere", Factor: 1, Dim: dCurrent, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
-	{Sym: "K", Name: "kelvin", Factor: 1, Dim: dim(0, 0, 0, 0, 1, 0, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
+	{Sym: "K", Name: "kelvin", Factor: 1, Dim: dTemp, Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
 	{Sym: "mol", Name: "mole", Factor: 1, Dim: dim(0, 0, 0, 0, 0, 1, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
 	{Sym: "cd", Name: "candela", Factor: 1, Dim: dim(0, 0, 0, 0, 0, 0, 1), Prefix: true, Exact: true, Defined: siBrochure + " Table 2"},
 
-	{Sym: "rad", Name: "radian", Factor: 1, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
-	{Sym: "sr", Name: "steradian", Factor: 1, Exact: true, Defined: siBrochure + " Table 4"},
+	// Plane angle is a dimension of its own here (see Dim); the radian is
+	// its coherent unit and the steradian is rad^2 (SI Brochure, Table 4:
+	// 1 sr = 1 m^2/m^2, the solid angle of area r^2 on a sphere of radius
+	// r, which is the square of the radian in this system).
+	{Sym: "rad", Name: "radian", Factor: 1, Dim: dAngle, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
+	{Sym: "sr", Name: "steradian", Factor: 1, Dim: dAngle.Pow(2), Exact: true, Defined: siBrochure + " Table 4 (rad^2)"},
+	// The hertz counts cycles per second and carries no angle: 50 Hz is
+	// 50 s^-1, not 50 rad/s (SI Brochure, 9th ed., Table 4, note on Hz and
+	// rad/s).
 	{Sym: "Hz", Name: "hertz", Factor: 1, Dim: dFreq, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "N", Name: "newton", Factor: 1, Dim: dForce, Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
 	{Sym: "Pa", Name: "pascal", Factor: 1, Dim: dim(-1, 1, -2, 0, 0, 0, 0), Prefix: true, Exact: true, Defined: siBrochure + " Table 4"},
@@ -80,7 +96,14 @@ var catalogue = []UnitDef{
 	{Sym: "L", Name: "litre", Factor: 1, Exp10: -3, Dim: dLength.Pow(3), Prefix: true, Exact: true, Defined: siBrochure + " Table 8"},
 	{Sym: "min", Name: "minute", Factor: 60, Dim: dTime, Exact: true, Defined: siBrochure + " Table 8"},
 	{Sym: "h", Name: "hour", Factor: 3600, Dim: dTime, Exact: true, Defined: siBrochure + " Table 8"},
-	{Sym: "deg", Name: "degree of angle", Factor: math.Pi / 180, Defined: siBrochure + " Table 8 (π/180 rad)"},
+	{Sym: "deg", Name: "degree of angle", Factor: math.Pi / 180, Dim: dAngle, Defined: siBrochure + " Table 8 (π/180 rad)"},
+	{Sym: "rev", Name: "revolution (full turn)", Factor: 2 * math.Pi, Dim: dAngle, Defined: nist811 + " (1 r = 2π rad)"},
+	// °C gives an absolute temperature: 20 °C is 293.15 K (SI Brochure,
+	// 9th ed., §2.3.1 and Table 4: t/°C = T/K − 273.15). It has an offset,
+	// so it may only follow a number directly; a temperature difference is
+	// written in K.
+	{Sym: "°C", Name: "degree Celsius", Factor: 1, Dim: dTemp, Exact: true, Offset: 273.15, Defined: siBrochure + " Table 4 (T/K = t/°C + 273.15)"},
+	{Sym: "degC", Name: "degree Celsius", Factor: 1, Dim: dTemp, Exact: true, Offset: 273.15, Defined: siBrochure + " Table 4 (T/K = t/°C + 273.15)"},
 	{Sym: "eV", Name: "electronvolt", Factor: 1.602176634, Exp10: -19, Dim: dEnergy, Prefix: true, Exact: true, Defined: siBrochure + " Table 8 (e × 1 V)"},
 	{Sym: "gauss", Name: "gauss", Factor: 1, Exp10: -4, Dim: dTesla, Prefix: true, Exact: true, Defined: nist811 + " (1 G = 1e-4 T)"},
 	{Sym: "maxwell", Name: "maxwell", Factor: 1, Exp10: -8, Dim: dWeber, Exact: true, Defined: nist811 + " (1 Mx = 1e-8 Wb)"},
@@ -88,24 +111,27 @@ var catalogue = []UnitDef{
 	{Sym: "inch", Name: "inch", Factor: 254, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 in = 0.0254 m)"},
 	{Sym: "mil", Name: "mil (thou)", Factor: 254, Exp10: -7, Dim: dLength, Exact: true, Defined: nist811 + " (1 mil = 2.54e-5 m)"},
 	{Sym: "ft", Name: "foot", Factor: 3048, Exp10: -4, Dim: dLength, Exact: true, Defined: nist811 + " (1 ft = 0.3048 m)"},
-	// rpm counts revolutions: 3000 rpm is 50 revolutions a second, shown in
-	// Hz. Because the radian is dimensionless, rpm cannot also convert to
-	// rad/s; multiply by 2*pi for an angular speed (NIST SP 811 lists
-	// 1 r/min = 0.1047198 rad/s, which is 2π/60).
-	{Sym: "rpm", Name: "revolution per minute", Factor: 1.0 / 60, Dim: dFreq, Defined: nist811 + " (1 r/min = 1/60 revolution per second; ×2π for rad/s)"},
+	// rpm is an angular velocity, one revolution a minute: 3000 rpm is
+	// 314.159 rad/s (NIST SP 811 lists 1 r/min = 0.1047198 rad/s = 2π/60).
+	// Its revolutions per second are (3000 rpm / 1 rev) as Hz.
+	{Sym: "rpm", Name: "revolution per minute", Factor: 2 * math.Pi / 60, Dim: dAngle.Div(dTime), Defined: nist811 + " (1 r/min = 2π/60 rad/s ≈ 0.1047198 rad/s)"},
 	{Sym: "turns", Name: "turns (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
 	{Sym: "turn", Name: "turn (a count)", Factor: 1, Exact: true, Defined: "a dimensionless count"},
 }
 
-// siPrefixes lists the accepted SI prefixes (SI Brochure, 9th ed., Table 7).
-// "u" is accepted for micro beside "µ" (U+00B5) and "μ" (U+03BC).
+// siPrefixes lists the accepted SI prefixes, smallest first: the twenty of
+// the SI Brochure, 9th ed. (2019), Table 7, and ronna, quetta, ronto and
+// quecto added by the 27th CGPM (2022), Resolution 3. "u" is accepted for
+// micro beside "µ" (U+00B5) and "μ" (U+03BC). lookupAtom tries "da" before
+// "d" and an exact unit symbol before any prefix.
 var siPrefixes = []struct {
 	Sym   string
 	Exp10 int
 }{
+	{"q", -30}, {"r", -27}, {"y", -24}, {"z", -21}, {"a", -18},
 	{"f", -15}, {"p", -12}, {"n", -9}, {"u", -6}, {"µ", -6}, {"μ", -6},
 	{"m", -3}, {"c", -2}, {"d", -1}, {"da", 1}, {"h", 2}, {"k", 3}, {"M", 6}, {"G", 9}, {"T", 12},
-	{"P", 15}, {"E", 18},
+	{"P", 15}, {"E", 18}, {"Z", 21}, {"Y", 24}, {"R", 27}, {"Q", 30},
 }
 
 var unitBySym = func() map[string]*UnitDef {
@@ -125,6 +151,12 @@ type UnitExpr struct {
 	Factor float64
 	Exp10  int
 	Dim    Dim
+	// Cyc is set when the unit is the hertz alone (with any prefix): a
+	// value written or shown in it counts cycles per second.
+	Cyc bool
+	// Offset is the SI value of the unit's zero (°C); only a unit written
+	// alone has one.
+	Offset float64
 }
 
 // Scale returns the size of the unit in coherent SI units.
@@ -134,27 +166,41 @@ func (u UnitExpr) Scale() float64 {
 
 func (u UnitExpr) mul(v UnitExpr) (UnitExpr, bool) {
 	d, ok := u.Dim.Combine(1, v.Dim, 1)
-	return UnitExpr{u.Factor * v.Factor, u.Exp10 + v.Exp10, d}, ok
+	return UnitExpr{Factor: u.Factor * v.Factor, Exp10: u.Exp10 + v.Exp10, Dim: d}, ok
 }
 
 func (u UnitExpr) pow(n int) (UnitExpr, bool) {
 	d, ok := u.Dim.Combine(n, Dimensionless, 0)
-	return UnitExpr{math.Pow(u.Factor, float64(n)), u.Exp10 * n, d}, ok
+	return UnitExpr{Factor: math.Pow(u.Factor, float64(n)), Exp10: u.Exp10 * n, Dim: d}, ok
 }
 
-// lookupAtom resolves a unit symbol with an optional SI prefix.
+// lookupAtom resolves a unit symbol with an optional SI prefix: an exact
+// symbol first, then the longest prefix that leaves a symbol that takes
+// prefixes.
 func lookupAtom(sym string) (UnitExpr, bool) {
 	if d, ok := unitBySym[sym]; ok {
-		return UnitExpr{d.Factor, d.Exp10, d.Dim}, true
+		return atomExpr(d, 0), true
 	}
-	for _, p := range siPrefixes {
+	if lang.Keywords[sym] {
+		return UnitExpr{}, false // "as" is a keyword, not an attosecond
+	}
+	best := -1
+	for i, p := range siPrefixes {
 		if rest, ok := strings.CutPrefix(sym, p.Sym); ok && rest != "" {
-			if d, ok := unitBySym[rest]; ok && d.Prefix {
-				return UnitExpr{d.Factor, d.Exp10 + p.Exp10, d.Dim}, true
+			if d, ok := unitBySym[rest]; ok && d.Prefix && (best < 0 || len(p.Sym) > len(siPrefixes[best].Sym)) {
+				best = i
 			}
 		}
 	}
-	return UnitExpr{}, false
+	if best < 0 {
+		return UnitExpr{}, false
+	}
+	p := siPrefixes[best]
+	return atomExpr(unitBySym[sym[len(p.Sym):]], p.Exp10), true
+}
+
+func atomExpr(d *UnitDef, exp10 int) UnitExpr {
+	return UnitExpr{Factor: d.Factor, Exp10: d.Exp10 + exp10, Dim: d.Dim, Cyc: d.Sym == "Hz", Offset: d.Offset}
 }
 
 // UnitTable implements lang.UnitNames over the catalogue.
@@ -226,6 +272,9 @@ func (p *unitParser) product() (UnitExpr, error) {
 		if err != nil {
 			return u, err
 		}
+		if u.Offset != 0 || v.Offset != 0 {
+			return u, offsetErr(p.r, start)
+		}
 		ok := true
 		if op == '/' {
 			v, ok = v.pow(-1)
@@ -260,7 +309,8 @@ func (p *unitParser) factor() (UnitExpr, error) {
 	case p.r[p.i] == '1':
 		p.i++
 		u = UnitExpr{Factor: 1}
-	case unicode.IsLetter(p.r[p.i]) || p.r[p.i] == 'µ' || p.r[p.i] == 'Ω':
+	case unicode.IsLetter(p.r[p.i]) || p.r[p.i] == 'µ' || p.r[p.i] == 'Ω' || p.r[p.i] == '°':
+		p.i++
 		for p.i < len(p.r) && (unicode.IsLetter(p.r[p.i]) || unicode.IsDigit(p.r[p.i]) || p.r[p.i] == '_' || p.r[p.i] == 'µ' || p.r[p.i] == 'Ω') {
 			p.i++
 		}
@@ -290,12 +340,22 @@ func (p *unitParser) factor() (UnitExpr, error) {
 		if err != nil || n > 12 || n < -12 {
 			return u, &UnitError{s - 1, p.i - s + 1, "a unit power must be a whole number from -12 to 12"}
 		}
+		if u.Offset != 0 {
+			return u, offsetErr(p.r, start)
+		}
 		var ok bool
 		if u, ok = u.pow(n); !ok {
 			return u, &UnitError{s - 1, p.i - s + 1, errExpRange}
 		}
 	}
 	return u, nil
+}
+
+// offsetErr refuses °C inside a compound unit or under a power: with an
+// offset, "°C/s" could mean a rate of absolute temperature or of a
+// difference, and either reading would hide the 273.15.
+func offsetErr(r []rune, at int) error {
+	return &UnitError{0, len(r), fmt.Sprintf("°C has an offset (0 °C = 273.15 K), so it can only follow a number on its own; for a temperature difference or inside a compound unit use K (a difference of 1 °C is 1 K), as in %q", strings.ReplaceAll(strings.ReplaceAll(string(r), "°C", "K"), "degC", "K"))}
 }
 
 // LiteralValue builds the SI value of "number unit" from the decimal text of
@@ -316,10 +376,27 @@ func LiteralValue(number string, u UnitExpr) (float64, error) {
 	if u.Factor != 1 {
 		v *= u.Factor
 	}
+	if u.Offset != 0 {
+		v = offsetValue(mant, exp+u.Exp10, u)
+	}
 	if math.IsInf(v, 0) {
 		return 0, fmt.Errorf("number %q is too large", number)
 	}
 	return v, nil
+}
+
+// offsetValue is mant×10^exp × Factor + Offset rounded once, so that
+// "20 °C" is exactly the float64 nearest 293.15, as "293.15 K" is.
+func offsetValue(mant string, exp int, u UnitExpr) float64 {
+	r, ok := new(big.Rat).SetString(fmt.Sprintf("%se%d", mant, exp))
+	off, ok2 := new(big.Rat).SetString(strconv.FormatFloat(u.Offset, 'g', -1, 64))
+	f := new(big.Rat).SetFloat64(u.Factor)
+	if !ok || !ok2 || f == nil {
+		v, _ := strconv.ParseFloat(mant, 64)
+		return v*math.Pow10(exp)*u.Factor + u.Offset
+	}
+	v, _ := r.Mul(r, f).Add(r, off).Float64()
+	return v
 }
 
 func isRangeErr(err error) bool {

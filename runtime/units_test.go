@@ -82,8 +82,11 @@ var catalogueRefs = []struct {
 
 	// Coherent derived units with special names: [SI] Table 4, column
 	// "expressed in terms of SI base units".
-	{"rad", "1", runtime.Dim{}, "[SI] Table 4: rad = m/m"},
-	{"sr", "1", runtime.Dim{}, "[SI] Table 4: sr = m^2/m^2"},
+	// Plane angle is a dimension of its own in Loopwise (runtime.Angle):
+	// the radian is its coherent unit, the steradian its square ([SI]
+	// Table 4 gives rad = m/m and sr = m^2/m^2 = rad^2).
+	{"rad", "1", runtime.Dim{runtime.Angle: 1}, "[SI] Table 4: rad = m/m, kept as the unit of angle"},
+	{"sr", "1", runtime.Dim{runtime.Angle: 2}, "[SI] Table 4: sr = m^2/m^2 = rad^2"},
 	{"Hz", "1", runtime.Dim{0, 0, -1, 0, 0, 0, 0}, "[SI] Table 4: Hz = s^-1"},
 	{"N", "1", runtime.Dim{1, 1, -2, 0, 0, 0, 0}, "[SI] Table 4: N = kg m s^-2"},
 	{"Pa", "1", runtime.Dim{-1, 1, -2, 0, 0, 0, 0}, "[SI] Table 4: Pa = kg m^-1 s^-2"},
@@ -105,7 +108,7 @@ var catalogueRefs = []struct {
 	{"min", "60", runtime.Dim{0, 0, 1, 0, 0, 0, 0}, "[SI] Table 8: 1 min = 60 s"},
 	{"h", "3600", runtime.Dim{0, 0, 1, 0, 0, 0, 0}, "[SI] Table 8: 1 h = 60 min = 3600 s"},
 	// π/180 to 35 digits, from memory, checked with bc -l (4*a(1)/180).
-	{"deg", "0.017453292519943295769236907684886127", runtime.Dim{}, "[SI] Table 8: 1° = (π/180) rad"},
+	{"deg", "0.017453292519943295769236907684886127", runtime.Dim{runtime.Angle: 1}, "[SI] Table 8: 1° = (π/180) rad"},
 	{"eV", "1.602176634e-19", runtime.Dim{2, 1, -2, 0, 0, 0, 0}, "[SI] Table 8: 1 eV = 1.602 176 634 × 10^-19 J"},
 
 	// Other units: [811] Appendix B.
@@ -115,11 +118,17 @@ var catalogueRefs = []struct {
 	{"inch", "0.0254", runtime.Dim{1, 0, 0, 0, 0, 0, 0}, "[811] App. B: inch to metre 2.54 E-02 (exact)"},
 	{"mil", "2.54e-5", runtime.Dim{1, 0, 0, 0, 0, 0, 0}, "[811] App. B: mil (0.001 in) to metre 2.54 E-05 (exact)"},
 	{"ft", "0.3048", runtime.Dim{1, 0, 0, 0, 0, 0, 0}, "[811] App. B: foot to metre 3.048 E-01 (exact)"},
-	// 1/60 to 25 digits. Note: [811] App. B (from memory) also lists
-	// "revolution per minute to radian per second 1.047198 E-01", i.e.
-	// 2π/60; the catalogue counts a revolution as 1, not 2π rad, so
-	// "3000 rpm as rad/s" shows 50, not 314.159.
-	{"rpm", "0.01666666666666666666666667", runtime.Dim{0, 0, -1, 0, 0, 0, 0}, "[811] App. B: r/min = 1/60 s^-1 (revolutions counted as a number)"},
+	// 2π and 2π/60 to 35 digits, from memory (π = 3.14159265358979323846
+	// 26433832795028841971…), multiplied out with Python's decimal module.
+	// [811] App. B lists "revolution per minute (rpm) (r/min) to radian per
+	// second 1.047198 E-01"; TestAngleUnitsNIST checks that figure too.
+	{"rev", "6.2831853071795864769252867665590058", runtime.Dim{runtime.Angle: 1}, "[811] App. B: revolution (r) = 2π rad"},
+	{"rpm", "0.10471975511965977461542144610931676", runtime.Dim{runtime.Time: -1, runtime.Angle: 1}, "[811] App. B: r/min = 2π/60 rad/s"},
+
+	// Celsius: the size of the degree is the kelvin; the offset 273.15 K
+	// is checked in TestCelsius ([SI] §2.3.1, Table 4).
+	{"°C", "1", runtime.Dim{runtime.Temperature: 1}, "[SI] Table 4: 1 °C = 1 K as an interval"},
+	{"degC", "1", runtime.Dim{runtime.Temperature: 1}, "[SI] Table 4 (ASCII spelling, project convention)"},
 
 	// Project convention: a number of turns is a dimensionless count.
 	{"turns", "1", runtime.Dim{}, "project convention"},
@@ -181,6 +190,7 @@ func TestCatalogueFactors(t *testing.T) {
 			if err != nil {
 				t.Fatalf("LiteralValue(1 %s): %v", ref.sym, err)
 			}
+			lit -= def.Offset // 1 °C is 274.15 K: TestCelsius checks the offset
 			var ulps uint
 			if def.Factor != 1 && def.Exp10 != 0 {
 				ulps = 1
@@ -224,48 +234,91 @@ func TestExactFlag(t *testing.T) {
 	}
 }
 
-// siPrefixes are the SI prefixes the project accepts, with their powers of
-// ten from [SI] Table 7. "u" is the project's ASCII spelling of micro;
-// U+00B5 (micro sign) and U+03BC (Greek small mu) are both accepted for the
-// symbol μ.
-var siPrefixes = []struct {
-	sym string
+// publishedPrefixes are the SI prefixes with their powers of ten, typed
+// from [SI] Table 7 (twenty prefixes, yocto to yotta) and from Resolution 3
+// of the 27th CGPM (2022), which added ronna (R, 10^27), quetta (Q, 10^30),
+// ronto (r, 10^-27) and quecto (q, 10^-30). "u" is the project's ASCII
+// spelling of micro; U+00B5 (micro sign) and U+03BC (Greek small mu) are
+// both accepted for the symbol μ.
+var publishedPrefixes = map[string]struct {
 	exp int
 	src string
 }{
-	{"f", -15, "[SI] Table 7: femto 10^-15"},
-	{"p", -12, "[SI] Table 7: pico 10^-12"},
-	{"n", -9, "[SI] Table 7: nano 10^-9"},
-	{"u", -6, "project convention: u for micro 10^-6"},
-	{"\u00b5", -6, "[SI] Table 7: micro 10^-6 (micro sign)"},
-	{"\u03bc", -6, "[SI] Table 7: micro 10^-6 (Greek mu)"},
-	{"m", -3, "[SI] Table 7: milli 10^-3"},
-	{"c", -2, "[SI] Table 7: centi 10^-2"},
-	{"k", 3, "[SI] Table 7: kilo 10^3"},
-	{"M", 6, "[SI] Table 7: mega 10^6"},
-	{"G", 9, "[SI] Table 7: giga 10^9"},
-	{"T", 12, "[SI] Table 7: tera 10^12"},
+	"q":      {-30, "27th CGPM (2022) Res. 3: quecto 10^-30"},
+	"r":      {-27, "27th CGPM (2022) Res. 3: ronto 10^-27"},
+	"y":      {-24, "[SI] Table 7: yocto 10^-24"},
+	"z":      {-21, "[SI] Table 7: zepto 10^-21"},
+	"a":      {-18, "[SI] Table 7: atto 10^-18"},
+	"f":      {-15, "[SI] Table 7: femto 10^-15"},
+	"p":      {-12, "[SI] Table 7: pico 10^-12"},
+	"n":      {-9, "[SI] Table 7: nano 10^-9"},
+	"u":      {-6, "project convention: u for micro 10^-6"},
+	"\u00b5": {-6, "[SI] Table 7: micro 10^-6 (micro sign)"},
+	"\u03bc": {-6, "[SI] Table 7: micro 10^-6 (Greek mu)"},
+	"m":      {-3, "[SI] Table 7: milli 10^-3"},
+	"c":      {-2, "[SI] Table 7: centi 10^-2"},
+	"d":      {-1, "[SI] Table 7: deci 10^-1"},
+	"da":     {1, "[SI] Table 7: deca 10^1"},
+	"h":      {2, "[SI] Table 7: hecto 10^2"},
+	"k":      {3, "[SI] Table 7: kilo 10^3"},
+	"M":      {6, "[SI] Table 7: mega 10^6"},
+	"G":      {9, "[SI] Table 7: giga 10^9"},
+	"T":      {12, "[SI] Table 7: tera 10^12"},
+	"P":      {15, "[SI] Table 7: peta 10^15"},
+	"E":      {18, "[SI] Table 7: exa 10^18"},
+	"Z":      {21, "[SI] Table 7: zetta 10^21"},
+	"Y":      {24, "[SI] Table 7: yotta 10^24"},
+	"R":      {27, "27th CGPM (2022) Res. 3: ronna 10^27"},
+	"Q":      {30, "27th CGPM (2022) Res. 3: quetta 10^30"},
 }
 
-// TestSIPrefixes checks every accepted prefix on several units. A prefixed
-// literal "1 <prefix><unit>" with a unit of Factor 1 is built from the
-// decimal text "1e<n>", so it must equal the float64 nearest 10^n exactly.
+// TestSIPrefixes takes the prefixes the catalogue accepts
+// (runtime.PrefixSymbols) and checks each against its published power of
+// ten on every unit that takes prefixes, and that every published prefix is
+// accepted. A prefixed literal "1 <prefix><unit>" with a unit of Factor 1
+// is built from the decimal text "1e<n>", so it must equal the float64
+// nearest 10^n exactly; with another Factor it must be within 1 ulp (two
+// roundings, as in TestCatalogueFactors).
 func TestSIPrefixes(t *testing.T) {
-	for _, unit := range []string{"m", "g", "s", "A", "T", "Wb", "H", "V", "\u03a9", "Hz"} {
-		base := mustParse(t, unit)
-		for _, p := range siPrefixes {
-			sym := p.sym + unit
+	accepted := runtime.PrefixSymbols()
+	seen := map[string]bool{}
+	for _, p := range accepted {
+		seen[p] = true
+		if _, ok := publishedPrefixes[p]; !ok {
+			t.Errorf("the catalogue accepts the prefix %q, which is not an SI prefix", p)
+		}
+	}
+	for p, ref := range publishedPrefixes {
+		if !seen[p] {
+			t.Errorf("the SI prefix %q (%s) is not accepted", p, ref.src)
+		}
+	}
+	for _, def := range runtime.Catalogue() {
+		if !def.Prefix {
+			continue
+		}
+		base := mustParse(t, def.Sym)
+		for _, p := range accepted {
+			ref := publishedPrefixes[p]
+			sym := p + def.Sym
+			if lang.Keywords[sym] {
+				continue // "as": see TestUnitSymbolsDoNotCollide
+			}
 			u, err := runtime.ParseUnit(sym)
 			if err != nil {
-				t.Errorf("ParseUnit(%q): %v (%s)", sym, err, p.src)
+				t.Errorf("ParseUnit(%q): %v (%s)", sym, err, ref.src)
 				continue
 			}
-			if u.Dim != base.Dim || u.Factor != 1 || u.Exp10 != base.Exp10+p.exp {
-				t.Errorf("ParseUnit(%q) = %+v, want Factor 1, Exp10 %d, Dim %v (%s)", sym, u, base.Exp10+p.exp, base.Dim, p.src)
+			if u.Dim != base.Dim || u.Factor != base.Factor || u.Exp10 != base.Exp10+ref.exp {
+				t.Errorf("ParseUnit(%q) = %+v, want Factor %v, Exp10 %d, Dim %v (%s)", sym, u, base.Factor, base.Exp10+ref.exp, base.Dim, ref.src)
 			}
-			want := decimal(t, fmt.Sprintf("1e%d", base.Exp10+p.exp))
-			if got, err := runtime.LiteralValue("1", u); err != nil || got != want {
-				t.Errorf("LiteralValue(1 %s) = %v, %v; want %v exactly (%s)", sym, got, err, want, p.src)
+			want := decimal(t, fmt.Sprintf("%se%d", strconv.FormatFloat(def.Factor, 'g', -1, 64), base.Exp10+ref.exp))
+			var ulps uint
+			if def.Factor != 1 {
+				ulps = 1
+			}
+			if got, err := runtime.LiteralValue("1", u); err != nil || !scalar.EqualWithinULP(got, want, ulps) {
+				t.Errorf("LiteralValue(1 %s) = %v, %v; want %v within %d ulp (%s)", sym, got, err, want, ulps, ref.src)
 			}
 			if !(runtime.UnitTable{}).IsUnit(sym) {
 				t.Errorf("IsUnit(%q) = false", sym)
@@ -442,7 +495,11 @@ func TestUnitAlgebra(t *testing.T) {
 		{"ft^3", "0.028316846592", runtime.Dim{3, 0, 0, 0, 0, 0, 0}, 3 * unitRoundoff, "[811] App. B: 0.3048^3 m^3 exactly (listed as 2.831685 E-02, from memory)"},
 		{"gauss*cm^2", "1e-8", runtime.Dim{2, 1, -2, -1, 0, 0, 0}, 3 * unitRoundoff, "[811] App. B: 1e-4 T × 1e-4 m^2 = 1e-8 Wb = 1 Mx"},
 		{"keV", "1.602176634e-16", runtime.Dim{2, 1, -2, 0, 0, 0, 0}, 4 * unitRoundoff, "[SI] Table 8 eV with kilo"},
-		{"rpm*min", "1", runtime.Dim{}, 4 * unitRoundoff, "[811] App. B r/min × [SI] Table 8 min"},
+		{"rpm*min", "6.2831853071795864769252867665590058", runtime.Dim{runtime.Angle: 1}, 4 * unitRoundoff, "[811] App. B r/min × [SI] Table 8 min = 1 r = 2π rad"},
+		{"rad/s", "1", runtime.Dim{runtime.Time: -1, runtime.Angle: 1}, 0, "[SI] Table 6 angular velocity"},
+		{"rad/s^2", "1", runtime.Dim{runtime.Time: -2, runtime.Angle: 1}, 0, "[SI] Table 6 angular acceleration"},
+		{"W/sr", "1", runtime.Dim{2, 1, -3, 0, 0, 0, 0, -2}, 0, "[SI] Table 6 radiant intensity"},
+		{"deg/s", "0.017453292519943295769236907684886127", runtime.Dim{runtime.Time: -1, runtime.Angle: 1}, 2 * unitRoundoff, "[SI] Table 8 degree per second"},
 		{"turns*A", "1", runtime.Dim{0, 0, 0, 1, 0, 0, 0}, 0, "project convention: turns are a count"},
 		{"V*s/turn", "1", runtime.Dim{2, 1, -2, -1, 0, 0, 0}, 0, "[SI] Table 4: V s = Wb"},
 	}
@@ -542,12 +599,14 @@ func TestUnitSymbolsDoNotCollide(t *testing.T) {
 		if lang.Keywords[d.Sym] {
 			t.Errorf("unit %q is an expression keyword", d.Sym)
 		}
-		for _, p := range siPrefixes {
-			if rest, ok := strings.CutPrefix(d.Sym, p.sym); ok && prefixable[rest] {
-				t.Errorf("unit %q is also %s + %s", d.Sym, p.sym, rest)
+		for _, p := range runtime.PrefixSymbols() {
+			if rest, ok := strings.CutPrefix(d.Sym, p); ok && prefixable[rest] {
+				t.Errorf("unit %q is also %s + %s", d.Sym, p, rest)
 			}
-			if d.Prefix && lang.Keywords[p.sym+d.Sym] {
-				t.Errorf("prefixed unit %q is an expression keyword", p.sym+d.Sym)
+			// "as" (atto + second) is the keyword of "expr as unit":
+			// such a spelling must not be taken as a unit.
+			if d.Prefix && lang.Keywords[p+d.Sym] && (runtime.UnitTable{}).IsUnit(p+d.Sym) {
+				t.Errorf("prefixed unit %q is an expression keyword and is still taken as a unit", p+d.Sym)
 			}
 		}
 	}

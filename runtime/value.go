@@ -14,6 +14,12 @@ type Value = any
 type Quantity struct {
 	V float64
 	D Dim
+	// Cyc marks a quantity of dimension s^-1 known to count cycles per
+	// second, so that it is shown in Hz: set by a literal in Hz, by
+	// "as Hz" and by a name declared in Hz; kept by +, - (when both sides
+	// have it), unary minus, abs, min and max; dropped by every product,
+	// quotient and power (2*pi*50 Hz is 314.159 s^-1, not 314.159 Hz).
+	Cyc bool
 }
 
 // Num makes a dimensionless quantity.
@@ -27,7 +33,7 @@ type Vector struct {
 
 // Norm returns the Euclidean length of v.
 func (v Vector) Norm() Quantity {
-	return Quantity{math.Sqrt(v.V[0]*v.V[0] + v.V[1]*v.V[1] + v.V[2]*v.V[2]), v.D}
+	return Quantity{V: math.Sqrt(v.V[0]*v.V[0] + v.V[1]*v.V[1] + v.V[2]*v.V[2]), D: v.D}
 }
 
 // Shower is implemented by values that builtins define (paths, sources,

@@ -22,9 +22,15 @@ Statements
 Numbers and units
   A unit follows a number, with or without a space: 5 mT, 3 A/ms, 2 kg*m^2/s^2.
   Compound units are written without spaces; a space ends the unit (2 m * s
-  multiplies by a name s). Prefixes f p n u µ m c d da h k M G T P E; u = micro.
+  multiplies by a name s). Prefixes q r y z a f p n u µ m c d da h k M G T P E
+  Z Y R Q; u = micro.
+  Angles are a dimension: 90 deg, 1 rev (2π rad), 3000 rpm (314.159 rad/s).
+  Hz counts cycles: (50 Hz * 1 rev) as rad/s is the angular frequency;
+  2*pi*f is a rate in s^-1. sin, cos, tan take an angle or radians.
+  20 °C (or degC) is the absolute temperature 293.15 K.
   Vectors: [0, 0, 5] mm, with + - * / by scalars, dot, cross, norm, .x .y .z.
-  Operators: + - * / % ^ (power), comparisons == != < <= > >=, and/or/not.
+  Operators: + - * / % ^ (power, from the right: 2^3^2 = 512), comparisons
+  == != < <= > >=, and/or/not.
 
 Commands
   :help [name]    this text, or help on a builtin, constant, unit or variable
@@ -161,6 +167,10 @@ func (c *console) listBuiltins() {
 
 // siSize writes the size of a unit in the coherent SI unit of its dimension.
 func siSize(u runtime.UnitExpr) string {
+	if u.Offset != 0 {
+		// °C: a shifted scale
+		return runtime.FormatNumber(u.Scale()+u.Offset, 12) + " K (t °C is t + " + runtime.FormatNumber(u.Offset, 12) + " K)"
+	}
 	if u.Dim.IsZero() {
 		return runtime.FormatNumber(u.Scale(), 12)
 	}

@@ -120,6 +120,9 @@ func (c *console) units(filter string) {
 		if u.Dim.IsZero() {
 			size = runtime.FormatNumber(u.Factor*pow10(u.Exp10), 12) + " (dimensionless)"
 		}
+		if u.Offset != 0 {
+			size += ", 0 " + u.Sym + " = " + runtime.FormatNumber(u.Offset, 12) + " K"
+		}
 		pre := ""
 		if u.Prefix {
 			pre = " *"
