@@ -137,33 +137,21 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 	status := 0
 	for _, f := range files {
 		sc, err := load(f)
-		var drifts []runtime.Drift
+		var rep runtime.CheckReport
 		if err == nil {
-			drifts, err = sc.Check(newSession(), *tol)
-		}
-		for _, d := range drifts {
-			status = 1
-			switch {
-			case d.Why != "":
-				fmt.Fprintf(stdout, "%s:%d: %s\n", f, d.Line, d.Why)
-				if d.Recorded != "" {
-					fmt.Fprintf(stdout, "    recorded: %s\n", d.Recorded)
-				}
-				if d.Now != "" {
-					fmt.Fprintf(stdout, "    now:      %s\n", d.Now)
-				}
-			default:
-				fmt.Fprintf(stdout, "%s:%d: result drifted\n    recorded: %s\n    now:      %s\n", f, d.Line, d.Recorded, d.Now)
-			}
+			rep, err = sc.Check(newSession(), *tol)
 		}
 		if err != nil {
+			if len(rep.Drifts) > 0 {
+				rep.Write(stdout, f)
+			}
 			fmt.Fprintln(stderr, err)
 			status = 1
 			continue
 		}
-		if len(drifts) == 0 {
-			n := len(sc.Stmts)
-			fmt.Fprintf(stdout, "%s: ok (%d statement%s)\n", f, n, map[bool]string{true: "", false: "s"}[n == 1])
+		rep.Write(stdout, f)
+		if len(rep.Drifts) > 0 {
+			status = 1
 		}
 	}
 	return status
