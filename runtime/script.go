@@ -564,7 +564,8 @@ func (sc *Script) checkTable(base Drift, st ScriptStmt, t Tabular, tol float64) 
 				row = rec.labels[i]
 			}
 			c.What = fmt.Sprintf("%s, %s", row, now.header()[j])
-			c.Recorded, c.Now = rec.text[i][j], now.cellText(i, j)
+			c.Recorded = strings.TrimSpace(rec.text[i][j] + " " + rec.units[j])
+			c.Now = strings.TrimSpace(now.cellText(i, j) + " " + now.units[j])
 			c.Rel = relChange(a, b)
 			ds = append(ds, c)
 		}
@@ -797,8 +798,13 @@ func (sc *Script) Record(s *Session) ([]byte, error) {
 }
 
 // WriteFileAtomic writes data to path through a temporary file in the same
-// directory and a rename, so the file is either old or new, never half.
+// directory and a rename, so the file is either old or new, never half. An
+// existing file keeps its permissions; a symbolic link stays a link and its
+// target is written.
 func WriteFileAtomic(path string, data []byte) error {
+	if target, err := filepath.EvalSymlinks(path); err == nil {
+		path = target
+	}
 	dir := filepath.Dir(path)
 	mode := fs.FileMode(0o644)
 	if fi, err := os.Stat(path); err == nil {
