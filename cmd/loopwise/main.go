@@ -174,7 +174,8 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		}
 		if err != nil {
 			var le *lang.Error
-			if !errors.As(err, &le) {
+			var none *runtime.NoStatementsError
+			if !errors.As(err, &le) && !errors.As(err, &none) {
 				err = fmt.Errorf("%s: %w (file left unchanged)", f, err)
 			}
 			fmt.Fprintln(stderr, err)

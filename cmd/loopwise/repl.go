@@ -46,6 +46,14 @@ func newConsole(out, errOut io.Writer) *console {
 // more reports whether a statement waits for its next line.
 func (c *console) more() bool { return len(c.pending) > 0 }
 
+// prompt is what to ask the next line with.
+func (c *console) prompt() string {
+	if c.more() {
+		return morePrompt
+	}
+	return prompt
+}
+
 // drop forgets a statement still waiting for lines (Ctrl-C).
 func (c *console) drop() { c.pending = nil }
 
@@ -319,11 +327,7 @@ func terminalLoop(c *console) int {
 	defer saveHistory()
 	fmt.Fprintln(c.out, "Loopwise — induction calculations with units. :help for help, Ctrl-D to leave.")
 	for {
-		p := prompt
-		if c.more() {
-			p = morePrompt
-		}
-		text, err := ln.Prompt(p)
+		text, err := ln.Prompt(c.prompt())
 		if errors.Is(err, liner.ErrPromptAborted) {
 			c.drop() // Ctrl-C drops the line, and a statement left open, keeps the session
 			continue
