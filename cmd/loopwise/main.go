@@ -25,6 +25,7 @@ const usage = `usage:
   loopwise check [-tol R] FILE|DIR...
                                     re-evaluate scripts and compare recorded results
                                     (relative tolerance R, default 1e-9); exit 1 on drift
+                                    or when a file holds no statement
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
   loopwise help                     this text; type :help at the prompt for the language
 `
