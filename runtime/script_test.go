@@ -458,3 +458,45 @@ func TestWriteFileAtomicKeepsModeAndLinks(t *testing.T) {
 		t.Errorf("the link's directory holds %d entries, want the link alone", len(ents))
 	}
 }
+
+// FuzzScript checks that reading, recording and checking any text never
+// panics, that every error is a positioned *lang.Error or a
+// NoStatementsError, and that a script just recorded checks clean.
+func FuzzScript(f *testing.F) {
+	f.Add("```lw\na = 2 m\n```\n")
+	f.Add("~~~~ lw\nf(x) = 2 A * x\nsweep(f, 0 m, 1 m, 3)\n~~~~\n")
+	f.Add("```lw\nV = 230 V\nv = [1 m,\n 2 m, 3 m]\n```")
+	f.Add("# x\r\n```lw\r\na = (1 m +\r\n  2 m)\r\n↳ 3 m\r\n│ x\r\n```\r\n")
+	f.Fuzz(func(t *testing.T, text string) {
+		okErr := func(err error) bool {
+			var le *lang.Error
+			var none *runtime.NoStatementsError
+			return err == nil || errors.As(err, &le) || errors.As(err, &none)
+		}
+		sc, err := runtime.ParseScript("t.lw", []byte(text))
+		if err != nil {
+			if !okErr(err) {
+				t.Fatalf("ParseScript(%q): %T %v", text, err, err)
+			}
+			return
+		}
+		if _, err := sc.Check(stdSession(), 1e-9); !okErr(err) {
+			t.Fatalf("Check(%q): %T %v", text, err, err)
+		}
+		out, err := sc.Record(stdSession())
+		if err != nil {
+			if !okErr(err) {
+				t.Fatalf("Record(%q): %T %v", text, err, err)
+			}
+			return
+		}
+		again, err := runtime.ParseScript("t.lw", out)
+		if err != nil {
+			t.Fatalf("recorded text of %q does not parse: %v\n%s", text, err, out)
+		}
+		rep, err := again.Check(stdSession(), 1e-9)
+		if err != nil || len(rep.Drifts) != 0 {
+			t.Fatalf("recorded text of %q does not check clean (%v):\n%s\n%s", text, err, report(rep), out)
+		}
+	})
+}
