@@ -500,3 +500,17 @@ func FuzzScript(f *testing.F) {
 		}
 	})
 }
+
+// TestTableNoiseCells: a cell below 1e-10 of its column's largest magnitude
+// is written as 0 (rounding noise, as for vector components). Here g(1 m) =
+// 1 m − 1 m·(1 − 1e-12) ≈ 1e-12 m against 1 m at g(0).
+func TestTableNoiseCells(t *testing.T) {
+	got := record(t, "```lw\ng(x) = 1 m - x * (1 - 1e-12)\nsweep(g, 0 m, 1 m, 2)\n```\n")
+	want := "│ x [m]  g [m]\n│     0      1\n│     1      0\n"
+	if !strings.Contains(got, want) {
+		t.Fatalf("recorded\n%s\nwant the rows\n%s", got, want)
+	}
+	if rep := check(t, got, 1e-9); len(rep.Drifts) != 0 {
+		t.Errorf("noise cells drift:\n%s", report(rep))
+	}
+}
