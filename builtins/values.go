@@ -173,6 +173,9 @@ type Table struct {
 
 func (t *Table) Kind() string { return "a table" }
 
+// Tabulate implements runtime.Tabular.
+func (t *Table) Tabulate() ([]string, []runtime.Dim, [][]float64) { return t.Cols, t.Dims, t.Rows }
+
 // columnUnits picks one display unit per column.
 func (t *Table) columnUnits(digits int) ([]string, []float64) {
 	units := make([]string, len(t.Cols))

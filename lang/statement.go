@@ -46,15 +46,86 @@ type Statement struct {
 	Args string // command arguments
 }
 
-// Pos returns the position of rune offset off of the line.
+// Pos returns the position of rune offset off of the statement. A statement
+// continued over several lines (see NeedsMore) holds newlines: offsets past
+// one count from the start of their own line, column 1.
 func (s *Statement) Pos(off int) Pos {
-	return s.Base.Shift(off)
+	line, start := s.lineOf(off)
+	if line == 0 {
+		return s.Base.Shift(off)
+	}
+	return Pos{File: s.Base.File, Line: s.Base.Line + line, Col: off - start + 1}
 }
 
-// Errorf returns a positioned error at rune offset off of the line, with
-// width carets.
+// lineOf returns which line of Text (0 for the first) holds rune offset off,
+// and the rune offset where that line starts.
+func (s *Statement) lineOf(off int) (line, start int) {
+	i := 0
+	for _, c := range s.Text {
+		if i >= off {
+			break
+		}
+		if c == '\n' {
+			line++
+			start = i + 1
+		}
+		i++
+	}
+	return line, start
+}
+
+// Errorf returns a positioned error at rune offset off of the statement,
+// with width carets. The error's source is the one line that holds off.
 func (s *Statement) Errorf(off, width int, format string, args ...any) *Error {
-	return &Error{Pos: s.Pos(off), Msg: fmt.Sprintf(format, args...), Source: s.Text, Width: width}
+	src := s.Text
+	if strings.Contains(src, "\n") {
+		_, start := s.lineOf(off)
+		runes := []rune(src)
+		end := start
+		for end < len(runes) && runes[end] != '\n' {
+			end++
+		}
+		src = string(runes[start:end])
+		width = min(width, max(1, end-off)) // carets stop at the line's end
+	}
+	return &Error{Pos: s.Pos(off), Msg: fmt.Sprintf(format, args...), Source: src, Width: width}
+}
+
+// NeedsMore reports whether text leaves a bracket ( [ or { open, outside
+// strings and comments: the statement continues on the next line. A closing
+// bracket that matches nothing ends the statement, so the parser can report
+// it.
+func NeedsMore(text string) bool {
+	r := []rune(text)
+	depth := 0
+	for i := 0; i < len(r); i++ {
+		switch c := r[i]; {
+		case c == '"' || c == '\'' || c == '`':
+			j := i + 1
+			for j < len(r) && r[j] != c && r[j] != '\n' {
+				if r[j] == '\\' && c != '`' {
+					j++
+				}
+				j++
+			}
+			if j >= len(r) || r[j] == '\n' {
+				return false // an unclosed string is an error, not a continuation
+			}
+			i = j
+		case c == '/' && i+1 < len(r) && r[i+1] == '/':
+			for i < len(r) && r[i] != '\n' {
+				i++
+			}
+		case c == '(' || c == '[' || c == '{':
+			depth++
+		case c == ')' || c == ']' || c == '}':
+			if depth == 0 {
+				return false
+			}
+			depth--
+		}
+	}
+	return depth > 0
 }
 
 // ParseStatement splits one line into a statement. base is the position of
@@ -257,8 +328,21 @@ func scanTop(s *Statement, r []rune) (topScan, error) {
 			}
 			i = j
 		case c == '/' && i+1 < len(r) && r[i+1] == '/':
-			sc.end = i
-			i = len(r)
+			nl := i
+			for nl < len(r) && r[nl] != '\n' {
+				nl++
+			}
+			if nl == len(r) {
+				sc.end = i
+				i = len(r)
+				break
+			}
+			// a comment inside a continued statement ends with its line;
+			// blank it so the expression keeps its offsets
+			for k := i; k < nl; k++ {
+				r[k] = ' '
+			}
+			i = nl
 		case c == '(' || c == '[' || c == '{':
 			stack = append(stack, open{c, i})
 		case c == ')' || c == ']' || c == '}':
@@ -268,7 +352,11 @@ func scanTop(s *Statement, r []rune) (topScan, error) {
 			}
 			top := stack[len(stack)-1]
 			if top.ch != want {
-				return sc, s.Errorf(i, 1, "%q does not match the %q at column %d", c, top.ch, s.Base.Col+top.off)
+				at := s.Pos(top.off)
+				if where := s.Pos(i); where.Line != at.Line {
+					return sc, s.Errorf(i, 1, "%q does not match the %q at line %d, column %d", c, top.ch, at.Line, at.Col)
+				}
+				return sc, s.Errorf(i, 1, "%q does not match the %q at column %d", c, top.ch, at.Col)
 			}
 			stack = stack[:len(stack)-1]
 		case c == '=' && len(stack) == 0:

@@ -3,6 +3,7 @@ package lang_test
 import (
 	"errors"
 	"reflect"
+	"strings"
 	"testing"
 
 	"loopwise/lang"
@@ -136,5 +137,70 @@ func TestStatementPos(t *testing.T) {
 	}
 	if e.Msg != "bad thing" || e.Source != "µ = 1" || e.Width != 1 {
 		t.Errorf("Errorf = %+v", e)
+	}
+}
+
+func TestNeedsMore(t *testing.T) {
+	tests := []struct {
+		in   string
+		want bool
+	}{
+		{"x = 1 m", false},
+		{"B = b_at(src,", true},
+		{"v = [1 m,", true},
+		{"v = [1 m,\n  2 m,", true},
+		{"v = [1 m,\n  2 m, 3 m]", false},
+		{"f(a, // not closed here )", true},
+		{`s = "(" + x`, false},
+		{`s = "unclosed (`, false}, // an error for the parser, not a continuation
+		{"x = 1 m)", false},        // nothing to close: the parser reports it
+		{"{ (", true},
+	}
+	for _, tc := range tests {
+		if got := lang.NeedsMore(tc.in); got != tc.want {
+			t.Errorf("NeedsMore(%q) = %v, want %v", tc.in, got, tc.want)
+		}
+	}
+}
+
+func TestParseContinuedStatement(t *testing.T) {
+	text := "B = b_at(src, // the coil\n    [0 m, 0 m, 5 mm])  // on axis"
+	st, err := lang.ParseStatement(base, text)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The comment inside the statement is blanked to keep offsets; the
+	// trailing one ends the expression.
+	want := "b_at(src, " + strings.Repeat(" ", len("// the coil")) + "\n    [0 m, 0 m, 5 mm])"
+	if st.Kind != lang.Assign || st.Name != "B" || st.Expr != want {
+		t.Fatalf("got kind %v name %q expr %q, want an assignment of B to %q", st.Kind, st.Name, st.Expr, want)
+	}
+	// An offset on the second line is reported on that line, counted from
+	// its own first column.
+	off := len([]rune("B = b_at(src, // the coil\n    "))
+	if got := st.Pos(off); got != (lang.Pos{File: "t.lw", Line: 8, Col: 5}) {
+		t.Errorf("Pos(%d) = %v, want t.lw:8:5", off, got)
+	}
+}
+
+func TestContinuedStatementErrors(t *testing.T) {
+	tests := []struct{ in, want string }{
+		{"x = (1 m +\n   2 m))",
+			"t.lw:8:8: unexpected ')': nothing to close\n       2 m))\n           ^"},
+		{"x = (1 m +\n   2 m]",
+			"t.lw:8:7: ']' does not match the '(' at line 7, column 5\n       2 m]\n          ^"},
+		{"v = [1 m,\n  (2 m, 3 m",
+			"t.lw:8:3: parenthesis '(' is never closed\n      (2 m, 3 m\n      ^"},
+	}
+	for _, tc := range tests {
+		_, err := lang.ParseStatement(base, tc.in)
+		var le *lang.Error
+		if !errors.As(err, &le) {
+			t.Errorf("ParseStatement(%q): got %v, want a *lang.Error", tc.in, err)
+			continue
+		}
+		if got := le.Error(); got != tc.want {
+			t.Errorf("ParseStatement(%q):\ngot\n%s\nwant\n%s", tc.in, got, tc.want)
+		}
 	}
 }

@@ -48,8 +48,8 @@ var validStatements = []string{
 }
 
 // FuzzEval checks that Eval never panics and that every error it returns is
-// a *lang.Error on the given line with a column inside the line (or just
-// past its end). A recovered panic shows as "internal error"; that must not
+// a *lang.Error on the given line (or, for input holding newlines, on the
+// line of the error) with a column inside that line (or just past its end). A recovered panic shows as "internal error"; that must not
 // happen either.
 func FuzzEval(f *testing.F) {
 	for _, tc := range errorCases {
@@ -72,11 +72,18 @@ func FuzzEval(f *testing.F) {
 		if strings.Contains(le.Msg, "internal error") {
 			t.Fatalf("Eval(%q) recovered a panic: %v", in, err)
 		}
-		if le.Pos.Line != base.Line || le.Pos.File != base.File {
-			t.Fatalf("Eval(%q) error at %v, want line %v", in, le.Pos, base)
+		// A statement continued over lines (it holds newlines) reports on
+		// the line where the error is, counted from base.
+		lines := strings.Split(in, "\n")
+		k := le.Pos.Line - base.Line
+		if k < 0 || k >= len(lines) || le.Pos.File != base.File {
+			t.Fatalf("Eval(%q) error at %v, want one of lines %d..%d of t.lw", in, le.Pos, base.Line, base.Line+len(lines)-1)
 		}
-		if n := utf8.RuneCountInString(in); le.Pos.Col < 1 || le.Pos.Col > n+1 {
+		if n := utf8.RuneCountInString(lines[k]); le.Pos.Col < 1 || le.Pos.Col > n+1 {
 			t.Fatalf("Eval(%q) error column %d outside 1..%d: %v", in, le.Pos.Col, n+1, err)
+		}
+		if want := string([]rune(lines[k])); len(lines) > 1 && le.Source != want {
+			t.Fatalf("Eval(%q) error shows %q, want its line %q", in, le.Source, want)
 		}
 	})
 }

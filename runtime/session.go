@@ -40,8 +40,11 @@ const (
 
 // Entry is one evaluated statement kept for saving a session as a script.
 type Entry struct {
-	Line   string // the statement as typed
+	Line   string // the statement as typed (continued lines joined by newlines)
 	Record string // its recorded result
+	// More holds the lines recorded after the result (without indentation):
+	// a table's rows and the result's cautions.
+	More []string
 }
 
 // Session holds the names a user has defined and evaluates statements.
@@ -96,7 +99,10 @@ type Result struct {
 	Value  Value  // nil for empty lines and commands
 	Text   string // what to show, at the session's digits
 	Record string // what to record in a script ("" when nothing)
-	Note   string // a remark for the prompt (not recorded), or ""
+	Note   string // remarks for the prompt, cautions included, or ""
+	// Cautions are the safety cautions the library attaches to the value;
+	// they are part of the result and recorded in scripts.
+	Cautions []string
 }
 
 // shadowNote is the note for a name that hides a builtin.
@@ -184,13 +190,16 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if sh, ok := v.(Shower); ok {
 		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script
 	}
-	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec})
+	var cautions []string
 	if s.lib.Caution != nil {
 		if c := s.lib.Caution(v); c != "" {
 			note = strings.TrimSpace(note + "\n" + c)
+			cautions = append(cautions, strings.Join(strings.Fields(c), " ")) // one line in a script
 		}
 	}
-	return &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note}, nil
+	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions}
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, More: moreLines(res)})
+	return res, nil
 }
 
 // show formats v, in unit when one is given.

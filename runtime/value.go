@@ -45,6 +45,14 @@ type Shower interface {
 	Summary(digits int) string
 }
 
+// Tabular is implemented by table values (sweeps, sampled fields): named
+// columns, each of one dimension, and rows of numbers in coherent SI units.
+// Scripts record a table's rows under its result and compare every cell.
+type Tabular interface {
+	Shower
+	Tabulate() (cols []string, dims []Dim, rows [][]float64)
+}
+
 // Adder is implemented by builtin values that can be added with + (sources
 // superpose).
 type Adder interface {

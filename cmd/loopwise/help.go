@@ -40,11 +40,14 @@ Commands
   :save FILE      save this session as a script that replays (statements and results)
   :load FILE      evaluate a script into this session
   :quit           leave (Ctrl-D also leaves; Ctrl-C clears the line)
+  A statement continues on the next line while a bracket ( [ { is open; the
+  prompt then shows "..  " and Ctrl-C drops the whole statement.
 
 Scripts
   A script is a Markdown file; statements sit in blocks fenced by a line
   ` + "```lw" + ` and a line ` + "```" + `, each followed by its recorded result on a
-  line starting with ↳. loopwise run/check/record FILE replay them.
+  line starting with ↳ (a table's rows follow behind │, cautions behind ↳ ⚠).
+  loopwise run/check/record FILE replay them.
 
 Induction
   Build paths (circle, rings, helix, polygon, …), give them currents with

@@ -26,6 +26,7 @@ const usage = `usage:
   loopwise check [-tol R] FILE|DIR...
                                     re-evaluate scripts and compare recorded results
                                     (relative tolerance R, default 1e-9); exit 1 on drift
+                                    or when a file holds no statement
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
   loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
@@ -216,33 +217,21 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 	status := 0
 	for _, f := range files {
 		sc, err := load(f)
-		var drifts []runtime.Drift
+		var rep runtime.CheckReport
 		if err == nil {
-			drifts, err = sc.Check(newSession(), *tol)
-		}
-		for _, d := range drifts {
-			status = 1
-			switch {
-			case d.Why != "":
-				fmt.Fprintf(stdout, "%s:%d: %s\n", f, d.Line, d.Why)
-				if d.Recorded != "" {
-					fmt.Fprintf(stdout, "    recorded: %s\n", d.Recorded)
-				}
-				if d.Now != "" {
-					fmt.Fprintf(stdout, "    now:      %s\n", d.Now)
-				}
-			default:
-				fmt.Fprintf(stdout, "%s:%d: result drifted\n    recorded: %s\n    now:      %s\n", f, d.Line, d.Recorded, d.Now)
-			}
+			rep, err = sc.Check(newSession(), *tol)
 		}
 		if err != nil {
+			if len(rep.Drifts) > 0 {
+				rep.Write(stdout, f)
+			}
 			fmt.Fprintln(stderr, err)
 			status = 1
 			continue
 		}
-		if len(drifts) == 0 {
-			n := len(sc.Stmts)
-			fmt.Fprintf(stdout, "%s: ok (%d statement%s)\n", f, n, map[bool]string{true: "", false: "s"}[n == 1])
+		rep.Write(stdout, f)
+		if len(rep.Drifts) > 0 {
+			status = 1
 		}
 	}
 	return status
@@ -265,7 +254,8 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		}
 		if err != nil {
 			var le *lang.Error
-			if !errors.As(err, &le) {
+			var none *runtime.NoStatementsError
+			if !errors.As(err, &le) && !errors.As(err, &none) {
 				err = fmt.Errorf("%s: %w (file left unchanged)", f, err)
 			}
 			fmt.Fprintln(stderr, err)

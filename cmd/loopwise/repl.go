@@ -19,7 +19,12 @@ import (
 	"loopwise/runtime"
 )
 
-const prompt = "lw> "
+const (
+	prompt = "lw> "
+	// morePrompt asks for the next line of a statement whose bracket is
+	// still open.
+	morePrompt = "..  "
+)
 
 // console evaluates what a user types; it knows nothing of terminals, so
 // tests feed it lines from any reader.
@@ -29,16 +34,61 @@ type console struct {
 	errOut io.Writer
 	n      int  // lines read so far
 	failed bool // some line gave an error
+	// pending holds the lines of a statement whose bracket is still open;
+	// start is the number of its first line.
+	pending []string
+	start   int
 }
 
 func newConsole(out, errOut io.Writer) *console {
 	return &console{s: newSession(), out: out, errOut: errOut}
 }
 
+// more reports whether a statement waits for its next line.
+func (c *console) more() bool { return len(c.pending) > 0 }
+
+// prompt is what to ask the next line with.
+func (c *console) prompt() string {
+	if c.more() {
+		return morePrompt
+	}
+	return prompt
+}
+
+// drop forgets a statement still waiting for lines (Ctrl-C).
+func (c *console) drop() { c.pending = nil }
+
+// finish evaluates a statement left open at the end of the input, which
+// reports its unclosed bracket.
+func (c *console) finish() {
+	if c.more() {
+		c.eval(strings.Join(c.pending, "\n"))
+		c.pending = nil
+	}
+}
+
 // line handles one input line; it reports whether the user asked to quit.
+// A statement continues over the following lines while a bracket is open.
 func (c *console) line(text string) (quit bool) {
 	c.n++
-	st, err := lang.ParseStatement(lang.Pos{Line: c.n, Col: 1}, text)
+	if !c.more() {
+		c.start = c.n
+		if strings.HasPrefix(strings.TrimSpace(text), ":") {
+			return c.eval(text) // commands take one line
+		}
+	}
+	c.pending = append(c.pending, text)
+	joined := strings.Join(c.pending, "\n")
+	if lang.NeedsMore(joined) {
+		return false
+	}
+	c.pending = nil
+	return c.eval(joined)
+}
+
+// eval handles one whole statement.
+func (c *console) eval(text string) (quit bool) {
+	st, err := lang.ParseStatement(lang.Pos{Line: c.start, Col: 1}, text)
 	if err != nil {
 		c.fail(err)
 		return false
@@ -176,7 +226,11 @@ func (c *console) load(st *lang.Statement) {
 	if err == nil {
 		err = sc.Run(c.s, c.out)
 	}
-	if err != nil {
+	var none *runtime.NoStatementsError
+	switch {
+	case errors.As(err, &none):
+		c.fail(err)
+	case err != nil:
 		c.fail(err)
 		fmt.Fprintln(c.errOut, "(statements before the error are kept)")
 	}
@@ -191,10 +245,12 @@ func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	sc := bufio.NewScanner(stdin)
 	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
-	for sc.Scan() {
-		if c.line(sc.Text()) {
-			break
-		}
+	quit := false
+	for !quit && sc.Scan() {
+		quit = c.line(sc.Text())
+	}
+	if !quit {
+		c.finish()
 	}
 	if err := sc.Err(); err != nil {
 		fmt.Fprintf(stderr, "loopwise: reading input: %v\n", err)
@@ -276,12 +332,14 @@ func terminalLoop(c *console) int {
 	defer saveHistory()
 	fmt.Fprintln(c.out, "Loopwise — induction calculations with units. :help for help, Ctrl-D to leave.")
 	for {
-		text, err := ln.Prompt(prompt)
+		text, err := ln.Prompt(c.prompt())
 		if errors.Is(err, liner.ErrPromptAborted) {
-			continue // Ctrl-C drops the line, keeps the session
+			c.drop() // Ctrl-C drops the line, and a statement left open, keeps the session
+			continue
 		}
 		if err != nil { // io.EOF on Ctrl-D
 			fmt.Fprintln(c.out)
+			c.finish()
 			return 0
 		}
 		if strings.TrimSpace(text) != "" {

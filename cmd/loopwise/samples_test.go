@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"loopwise/runtime"
@@ -34,16 +35,16 @@ func TestSamples(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			drifts, err := sc.Check(newSession(), runtime.DefaultTolerance)
+			rep, err := sc.Check(newSession(), runtime.DefaultTolerance)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if len(drifts) == 0 {
+			if len(rep.Drifts) == 0 {
 				return
 			}
-			for _, d := range drifts {
-				t.Errorf("%s:%d: recorded %q, now %q %s", f, d.Line, d.Recorded, d.Now, d.Why)
-			}
+			var b strings.Builder
+			rep.Write(&b, f)
+			t.Error(b.String())
 			fresh, err := sc.Record(newSession())
 			if err == nil && !bytes.Equal(fresh, data) {
 				out := f + ".new"
