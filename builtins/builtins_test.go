@@ -113,3 +113,26 @@ func TestArgumentChecks(t *testing.T) {
 		}
 	}
 }
+
+// TestSweepKeepsHertz: a sweep over cycle frequencies heads its column in
+// Hz (the SI Brochure, 9th ed., Table 4 note, keeps the hertz for periodic
+// phenomena), and a function that keeps the value a cycle frequency keeps
+// Hz in its column too; one that scales it does not.
+func TestSweepKeepsHertz(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	eval(t, s, "h(f) = f + 1 Hz")
+	eval(t, s, "g(f) = 2*pi*f")
+	for _, c := range []struct{ in, header string }{
+		{"sweep(h, 50 Hz, 1 kHz, 2)", "f [kHz]  h [kHz]"},
+		{"sweep(g, 50 Hz, 1 kHz, 2)", "f [kHz]  g [s^-1]"},
+		{"sweep(g, 0.05 s^-1, 1 s^-1, 2)", "f [s^-1]  g [s^-1]"},
+	} {
+		res, err := s.Eval(lang.Pos{Line: 9, Col: 1}, c.in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.SplitN(res.Text, "\n", 2)[0]; got != c.header {
+			t.Errorf("%s: header %q, want %q", c.in, got, c.header)
+		}
+	}
+}

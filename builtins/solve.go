@@ -223,9 +223,10 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		param = f.Params[0]
 	}
 	tab := &Table{}
+	cyc := from.Cyc && to.Cyc // a sweep over cycle frequencies stays in Hz
 	for i := 0; i < n; i++ {
 		x := from.V + (to.V-from.V)*float64(i)/float64(n-1)
-		v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: x, D: from.D}})
+		v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: x, D: from.D, Cyc: cyc}})
 		if err != nil {
 			return nil, err
 		}
@@ -234,9 +235,11 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 			case runtime.Quantity:
 				tab.Cols = []string{param, f.Name}
 				tab.Dims = []runtime.Dim{from.D, r.D}
+				tab.Cyc = []bool{cyc, r.Cyc}
 			case runtime.Vector:
 				tab.Cols = []string{param, f.Name + ".x", f.Name + ".y", f.Name + ".z", "|" + f.Name + "|"}
 				tab.Dims = []runtime.Dim{from.D, r.D, r.D, r.D, r.D}
+				tab.Cyc = []bool{cyc}
 			default:
 				return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
 			}

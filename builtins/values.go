@@ -168,7 +168,10 @@ type Table struct {
 	Title string
 	Cols  []string
 	Dims  []runtime.Dim
-	Rows  [][]float64
+	// Cyc marks columns of cycle frequencies (shown in Hz, see
+	// runtime.Quantity.Cyc); it may be shorter than Cols.
+	Cyc  []bool
+	Rows [][]float64
 }
 
 func (t *Table) Kind() string { return "a table" }
@@ -185,7 +188,11 @@ func (t *Table) columnUnits(digits int) ([]string, []float64) {
 		for _, r := range t.Rows {
 			big = math.Max(big, math.Abs(r[j]))
 		}
-		units[j], scales[j] = runtime.BestUnit(t.Dims[j], big, digits)
+		if j < len(t.Cyc) && t.Cyc[j] {
+			units[j], scales[j] = runtime.BestCycleUnit(t.Dims[j], big, digits)
+		} else {
+			units[j], scales[j] = runtime.BestUnit(t.Dims[j], big, digits)
+		}
 	}
 	return units, scales
 }

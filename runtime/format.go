@@ -466,10 +466,23 @@ func asAngleHint(x Quantity, u UnitExpr, unit, expr string, digits int) string {
 // dimension d whose largest magnitude is big (for table columns and
 // vectors): the unit Format would use for big.
 func BestUnit(d Dim, big float64, digits int) (string, float64) {
+	return bestUnit(d, false, big, digits)
+}
+
+// BestCycleUnit is BestUnit for a column of cycle frequencies (see
+// Quantity.Cyc): s^-1 is then shown in Hz with a prefix.
+func BestCycleUnit(d Dim, big float64, digits int) (string, float64) {
+	return bestUnit(d, true, big, digits)
+}
+
+func bestUnit(d Dim, cyc bool, big float64, digits int) (string, float64) {
 	if d.IsZero() {
 		return "", 1
 	}
 	ds := displayOf(d)
+	if cyc && d == dFreq {
+		ds = hzDisplay
+	}
 	if ds.atom == "" {
 		return ds.composite, 1
 	}
