@@ -148,59 +148,27 @@ var gl8x, gl8w = func() ([8]float64, [8]float64) {
 	return x, w
 }()
 
-// derivative estimates dI/dt of a current function at t: central
-// differences D(h) = (f(t+h) − f(t−h))/2h with one Richardson step
-// D1(h) = (4 D(h/2) − D(h))/3, for h = 1 ps, 10 ps, … 1 s. Going up from
-// the smallest step, it returns the first D1 that agrees with both
-// neighbours to 1e-6 relative: the plateau between rounding error (small h)
-// and truncation error (large h). Starting small matters: a periodic
-// current sampled with a step that is a whole number of periods looks
-// constant, and that false agreement only happens at large steps. If no
-// step agrees that well, the best-agreeing one is used.
+// derivative estimates dI/dt of a current function at t by the step
+// search of stepDerivative (steps 1 ps to 1 s, the first plateau going up);
+// a jump or a kink at t is an error naming t and both slopes.
 func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, error) {
-	eval := func(x float64) (float64, error) {
-		return currentAt(env, fn, f, x, true)
+	d, err := stepDerivative(func(x float64) (em.Vec, error) {
+		i, err := currentAt(env, fn, f, x, true)
+		return em.Vec{X: i}, err
+	}, t, 1, -12, true)
+	at := runtime.Format(runtime.Quantity{V: t, D: dimTime}, 6)
+	var ke *kinkError
+	switch {
+	case errors.As(err, &ke):
+		rate := dimCurrent.Div(dimTime)
+		return 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+			runtime.Format(runtime.Quantity{V: ke.before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.after.X, D: rate}, 6))
+	case errors.Is(err, errNoPlateau):
+		return 0, errorf("%s: the current function %s has no reliable derivative at t = %s (a jump there, or not defined there?); take t a little before or after", fn, f.Signature(), at)
+	case err != nil:
+		return 0, err
 	}
-	var d1 []float64
-	for e := -12; e <= 0; e++ {
-		h := math.Pow10(e)
-		var v [4]float64
-		var err error
-		for k, x := range [4]float64{t + h, t - h, t + h/2, t - h/2} {
-			if v[k], err = eval(x); err != nil {
-				break
-			}
-		}
-		if err != nil {
-			// the function fails far from t (an exponential overflowing,
-			// say): keep the steps gathered so far
-			if len(d1) >= 3 {
-				break
-			}
-			return 0, err
-		}
-		d := (v[0] - v[1]) / (2 * h)
-		dh := (v[2] - v[3]) / h
-		d1 = append(d1, (4*dh-d)/3)
-	}
-	// agree is the plateau test; roughAgree the worst agreement accepted
-	// at all (a smooth function always does far better).
-	const agree, roughAgree = 1e-6, 1e-3
-	best, bestRel := d1[1], math.Inf(1)
-	for i := 1; i+1 < len(d1); i++ {
-		diff := math.Abs(d1[i+1]-d1[i]) + math.Abs(d1[i]-d1[i-1])
-		if diff <= agree*math.Abs(d1[i]) {
-			best, bestRel = d1[i], 0
-			break
-		}
-		if rel := diff / math.Max(math.Abs(d1[i]), 1e-300); rel < bestRel {
-			best, bestRel = d1[i], rel
-		}
-	}
-	if math.IsNaN(best) || math.IsInf(best, 0) || bestRel > roughAgree {
-		return 0, errorf("%s: the current function %s has no reliable derivative at t = %g s (a jump or a kink there?); take t a little before or after", fn, f.Signature(), t)
-	}
-	return best, nil
+	return d.X, nil
 }
 
 func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
