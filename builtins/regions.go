@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"fmt"
+	"math"
 
 	"loopwise/builtins/em"
 	"loopwise/runtime"
@@ -21,6 +22,9 @@ func (r *Region) Kind() string { return "a changing-field region" }
 
 func (r *Region) Show(digits int) string {
 	s := fmt.Sprintf("region: %s, volume %s", r.R.Kind, runtime.Format(runtime.Quantity{V: r.R.Volume, D: dimVolume}, digits))
+	if math.IsInf(r.R.Volume, 0) {
+		s = fmt.Sprintf("region: %s (infinitely long)", r.R.Kind)
+	}
 	if r.R.FluxRate != 0 {
 		s += ", dΦ/dt " + runtime.Format(runtime.Quantity{V: r.R.FluxRate, D: dimVolt}, digits)
 	}
@@ -84,6 +88,25 @@ func regionFuncs() []*runtime.Func {
 				return nil, r.err
 			}
 			reg, err := em.NewSolenoidRegion(base, ax, rad, l, rate)
+			if err != nil {
+				return nil, geomErr(fn, err)
+			}
+			return &Region{reg}, nil
+		}),
+		fnc("dbdt_ideal_solenoid", []string{"center", "axis", "radius", "dBdt"}, 4, 4, &runtime.Help{
+			Signature: "dbdt_ideal_solenoid(center: position [m], axis: vector, radius: length, dBdt: T/s) -> region",
+			Summary:   "The core of an infinitely long solenoid through center along axis, where B along axis changes uniformly at dBdt; its E is exact.",
+			Method:    "closed form: E is azimuthal (right-handed about axis), −(r/2)·dBdt inside and −(R²/(2r))·dBdt outside, r the distance from the axis",
+			Example:   "e_ideal = efield(dbdt_ideal_solenoid([0, 0, 0] m, [0, 0, 1], 25 mm, 3 T/s), [10, 0, 0] mm)",
+			Reference: "Faraday's law on a circle about the axis, E azimuthal by symmetry: 2πr·E = −dΦ/dt (Griffiths, Introduction to Electrodynamics, 4th ed., 2017, §7.2); a long dbdt_solenoid tends to it (builtins/em/induced_test.go)",
+		}, func(args []runtime.Value) (runtime.Value, error) {
+			const fn = "dbdt_ideal_solenoid"
+			r := readArgs(fn, args)
+			c, ax, rad, rate := r.point(0), r.axis(1), r.positiveLength(2), r.ofDim(3, dimRate)
+			if r.err != nil {
+				return nil, r.err
+			}
+			reg, err := em.NewIdealSolenoidRegion(c, ax, rad, rate)
 			if err != nil {
 				return nil, geomErr(fn, err)
 			}
