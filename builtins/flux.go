@@ -55,14 +55,14 @@ func fluxFuncs() []*runtime.Func {
 			},
 		},
 		{
-			Name: "motional_emf", Params: []string{"loop", "velocity", "source", "t"}, MinArgs: 3, MaxArgs: 4,
+			Name: "motional_emf", Params: []string{"source", "loop", "velocity", "t"}, MinArgs: 3, MaxArgs: 4,
 			CallEnv: motionalEMF,
 			Help: &runtime.Help{
-				Signature: "motional_emf(loop: path, velocity: vector [m/s], source[, t: s]) -> V",
-				Summary:   "EMF ∮(v × B)·dl around a path moving rigidly with velocity through the source's (static) field; for an open path, the EMF between its ends.",
+				Signature: "motional_emf(source, loop: path, velocity: vector [m/s] or function of position [m/s][, t: s]) -> V",
+				Summary:   "EMF ∮(v × B)·dl along a path whose points move with the given velocity through the source's field, taken as it is at t: a uniform velocity for a path in translation, or your function v(p) for one that turns (v(p) = cross(omega, p - centre)); for an open path, the EMF from its start to its end.",
 				Method:    "adaptive Gauss–Kronrod along the path, relative 1e-10",
-				Example:   "motional_emf(segment([0, 0, 0] m, [0, 0.1, 0] m), [2, 0, 0] m/s, uniform([0, 0, 0.5] T))",
-				Reference: refFlux,
+				Example:   "v(p) = cross([0, 0, 120] / (1 s), p); motional_emf(uniform([0, 0, 0.8] T), segment([0, 0, 0] m, [0.15, 0, 0] m), v)",
+				Reference: refFlux + "; a rod turning about one end in a uniform field: ½BωR² (Faraday disc)",
 			},
 		},
 	}
@@ -206,20 +206,17 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "motional_emf"
 	r := readArgs(fn, args)
-	loop := r.path(0)
+	src, loop := r.source(0), r.path(1)
+	var vel func(x em.Vec) (em.Vec, error)
 	if r.err == nil {
-		vv, err := vector(fn, args, 1)
-		if err == nil && vv.D != dimSpeed {
-			err = errorf("%s: the velocity must be a vector in m/s, not %s", fn, vv.D.Describe())
-		}
+		var err error
+		vel, err = velocityArg(env, fn, args, 2)
 		r.fail(err)
 	}
-	src := r.source(2)
 	t, hasT := r.time(3)
 	if r.err != nil {
 		return nil, r.err
 	}
-	vv := args[1].(runtime.Vector)
 	srcs, err := src.sources(env, fn, t, hasT)
 	if err != nil {
 		return nil, err
@@ -229,18 +226,62 @@ func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		b, err := em.FieldAt(em.FieldB, srcs, x)
 		return r3.Add(b, ub), err
 	}
-	var imax float64
+	var imax, vmax float64
 	for _, s := range srcs {
 		imax = math.Max(imax, math.Abs(s.I))
 	}
+	for _, p := range pathSamples(loop) {
+		v, err := vel(p)
+		if err != nil {
+			return nil, err
+		}
+		vmax = math.Max(vmax, r3.Norm(v))
+	}
 	size := math.Max(loop.Size(), loop.Length())
-	scale := r3.Norm(toVec(vv)) * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
-	e, err := em.MotionalEMF(loop, toVec(vv), bf, em.DefaultTol, scale)
+	scale := vmax * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
+	e, err := em.MotionalEMF(loop, vel, bf, em.DefaultTol, scale)
 	if err != nil {
+		var ae *argError
+		if errors.As(err, &ae) {
+			return nil, err
+		}
 		if errors.Is(err, em.ErrOnWire) {
 			return nil, errorf("%s: the moving path touches a wire of the source", fn)
 		}
 		return nil, fieldErr(fn, err)
 	}
 	return runtime.Quantity{V: e, D: dimVolt}, nil
+}
+
+// velocityArg reads a velocity: a vector in m/s (the same everywhere) or a
+// function of position returning one.
+func velocityArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em.Vec) (em.Vec, error), error) {
+	switch v := args[i].(type) {
+	case runtime.Vector:
+		if v.D != dimSpeed {
+			return nil, errorf("%s: the velocity must be a vector in m/s, not %s", fn, v.D.Describe())
+		}
+		c := toVec(v)
+		return func(em.Vec) (em.Vec, error) { return c, nil }, nil
+	case *runtime.Func:
+		if v.MinArgs > 1 || (v.MaxArgs >= 0 && v.MaxArgs < 1) {
+			return nil, errorf("%s: a velocity function takes one argument, the position; %s does not", fn, v.Signature())
+		}
+		return func(x em.Vec) (em.Vec, error) {
+			out, err := v.Invoke(env, []runtime.Value{fromVec(x, dimLength)})
+			if err != nil {
+				return em.Vec{}, err
+			}
+			vv, ok := out.(runtime.Vector)
+			if !ok || vv.D != dimSpeed {
+				what := runtime.TypeName(out)
+				if ok {
+					what = "a vector in " + vv.D.Describe()
+				}
+				return em.Vec{}, errorf("%s: the velocity function %s must return a vector in m/s, not %s", fn, v.Signature(), what)
+			}
+			return toVec(vv), nil
+		}, nil
+	}
+	return nil, errorf("%s: the %s argument, the velocity, must be a vector in m/s or a function of position, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
 }
