@@ -49,7 +49,7 @@ func fluxFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "emf(source, loop: closed path, t: s) -> V",
 				Summary:   "EMF induced around the loop (in its circulation direction) by the source's changing currents: −dΦ/dt at time t.",
-				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, relative 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 is used (so periodic currents are not aliased); a jump or kink at t is an error",
+				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, relative 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 of the current's rate of change is used (so periodic currents are not aliased); a jump at t is an error, and so is a kink (one-sided slopes that differ at every step, as for |t| or a triangle wave at its peak), with both slopes in the message",
 				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t); emf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
 				Reference: refFlux,
 			},
