@@ -212,7 +212,8 @@ func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, 
 // steps, cannot fool it); in space the step with the smallest diff (the
 // balance of truncation and rounding). The derivative's scale is the larger
 // of |D1| and the steepest chord |g(s±h) − g(s)|/h seen at the chosen step
-// or larger ones: the rate at which the function really changes near s.
+// and up to four decades above it: the rate at which the function really
+// changes near s.
 // Measuring against |D1| alone would refuse every derivative that is zero
 // (the top of a sine, the centre of a symmetric coil), whose estimates are
 // pure rounding. An estimate is accepted when diff ≤ 1e-3 of that scale.
@@ -318,7 +319,7 @@ func newDerivLadder(g func(s float64) (em.Vec, error), s, base float64, lowest i
 			}
 			ds.chord = math.Max(ds.chord, r3.Norm(r3.Sub(x, g0))/step)
 		}
-		if !quadOK(ds.d1) {
+		if !quadOK(ds.d1) || math.IsInf(ds.chord, 0) || math.IsNaN(ds.chord) {
 			if len(st) >= 3 {
 				break
 			}
@@ -342,12 +343,14 @@ type derivPlateau struct {
 // plateau chooses the step; floor is a scale the caller knows the
 // derivative has (the other partial derivatives of a field; 0 if none).
 func (st derivLadder) plateau(firstAgree bool, floor float64) (derivPlateau, error) {
-	// scale[i]: the derivative's scale judged from steps i and larger
+	// scale[i]: the derivative's scale judged from steps i to i+4 (four
+	// decades up: far enough to see a zero derivative's neighbourhood, not
+	// so far that a function that grows fast, an exponential, swamps it)
 	scale := make([]float64, len(st))
-	for i := len(st) - 1; i >= 0; i-- {
-		scale[i] = math.Max(st[i].chord, floor)
-		if i+1 < len(st) {
-			scale[i] = math.Max(scale[i], scale[i+1])
+	for i := range st {
+		scale[i] = floor
+		for k := i; k < len(st) && k <= i+4; k++ {
+			scale[i] = math.Max(scale[i], st[k].chord)
 		}
 	}
 	diff := func(i int) float64 {

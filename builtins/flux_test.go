@@ -135,6 +135,10 @@ func TestDerivativeSmoothNoKink(t *testing.T) {
 		{"I(t) = 3 A * t / (1 us)", 0, 3e6, 3e6},
 		{"I(t) = 3 A * t / (1 us)", 5e-6, 3e6, 3e6},
 		{"I(t) = 3 A * t / (1000 s)", 4000, 3e-3, 3e-3},
+		// growing fast at the larger steps (exp(1000) overflows at 1 s)
+		{"I(t) = 1 A * exp(t/(1 ms))", 0.01, 1e3 * math.Exp(10), 1e3 * math.Exp(10)},
+		// far from t = 0, where t ± 1 ps rounds: 1e4 s has an ulp of 1.8e-12 s
+		{"I(t) = 2 A * sin(2*pi*50 Hz*t)", 1e4, 2 * 100 * math.Pi * math.Cos(100*math.Pi*1e4), 2 * 100 * math.Pi},
 	}
 	for _, c := range cases {
 		s, f := derivOf(t, c.def)
