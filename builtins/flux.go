@@ -148,22 +148,25 @@ var gl8x, gl8w = func() ([8]float64, [8]float64) {
 	return x, w
 }()
 
-// derivative estimates dI/dt of a current function at t by the step
-// search of stepDerivative (steps 1 ps to 1 s, the first plateau going up);
-// a jump or a kink at t is an error naming t and both slopes.
+// derivative estimates dI/dt of a current function at t by em.Derivative
+// (steps 1 ps to 1 s, the first plateau going up); a jump or a kink at t is
+// an error naming t (and for a kink both slopes).
 func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, error) {
-	d, err := stepDerivative(func(x float64) (em.Vec, error) {
+	d, err := em.Derivative(func(x float64) (em.Vec, error) {
 		i, err := currentAt(env, fn, f, x, true)
 		return em.Vec{X: i}, err
 	}, t, 1, -12, true)
 	at := runtime.Format(runtime.Quantity{V: t, D: dimTime}, 6)
-	var ke *kinkError
+	var ke *em.KinkError
+	var ae *argError
 	switch {
 	case errors.As(err, &ke):
 		rate := dimCurrent.Div(dimTime)
 		return 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
-			runtime.Format(runtime.Quantity{V: ke.before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.after.X, D: rate}, 6))
-	case errors.Is(err, errNoPlateau):
+			runtime.Format(runtime.Quantity{V: ke.Before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.After.X, D: rate}, 6))
+	case errors.As(err, &ae):
+		return 0, err
+	case errors.Is(err, em.ErrNoPlateau):
 		return 0, errorf("%s: the current function %s has no reliable derivative at t = %s (a jump there, or not defined there?); take t a little before or after", fn, f.Signature(), at)
 	case err != nil:
 		return 0, err

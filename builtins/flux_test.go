@@ -89,16 +89,16 @@ func TestDerivativeKink(t *testing.T) {
 			t.Errorf("%s at %g s: dI/dt = %g, want a kink error", c.def, c.at, got)
 			continue
 		}
-		var ke *kinkError
-		if _, err2 := stepDerivative(func(x float64) (em.Vec, error) {
+		var ke *em.KinkError
+		if _, err2 := em.Derivative(func(x float64) (em.Vec, error) {
 			i, err := currentAt(s, "test", f, x, true)
 			return em.Vec{X: i}, err
 		}, c.at, 1, -12, true); !errors.As(err2, &ke) {
 			t.Errorf("%s at %g s: %v, want a kink", c.def, c.at, err2)
 			continue
 		}
-		if !scalar.EqualWithinRel(ke.before.X, c.before, 1e-6) || !scalar.EqualWithinRel(ke.after.X, c.after, 1e-6) {
-			t.Errorf("%s at %g s: slopes %g, %g A/s, want %g, %g", c.def, c.at, ke.before.X, ke.after.X, c.before, c.after)
+		if !scalar.EqualWithinRel(ke.Before.X, c.before, 1e-6) || !scalar.EqualWithinRel(ke.After.X, c.after, 1e-6) {
+			t.Errorf("%s at %g s: slopes %g, %g A/s, want %g, %g", c.def, c.at, ke.Before.X, ke.After.X, c.before, c.after)
 		}
 		if !strings.Contains(err.Error(), "has a kink at t = ") || !strings.Contains(err.Error(), "just before and") {
 			t.Errorf("%s: message %q", c.def, err)
