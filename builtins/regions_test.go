@@ -69,6 +69,13 @@ func TestIdealSolenoid(t *testing.T) {
 	if !vclose(long, ideal, 1e-6, 0) {
 		t.Errorf("30 km solenoid %v, ideal %v", long, ideal)
 	}
+	// circulation of the long finite core's E around an off-axis circle
+	// inside it: −Ḃπa² up to the pole-face term πa²Ḃ·R²/(2h²) ≈ 2e-12
+	// relative (solenoidFlux in builtins/em), so the field's 1e-6
+	circ := q(t, ev("circulation(field_e(dbdt_solenoid(o - ax * 15 km, ax, 25 mm, 30 km, 3 T/s)), circle(o + u * 5 mm + w * 3 mm, ax, 10 mm))"), "V")
+	if want := -math.Pi * 0.01 * 0.01 * bdot; !scalar.EqualWithinAbsOrRel(circ, want, 0, 1e-6) {
+		t.Errorf("circulation in the 30 km core = %.12g V, want %.12g V", circ, want)
+	}
 	if s := runtime.Format(ev("reg"), 6); s != "region: ideal solenoid (infinitely long), dΦ/dt 5.89049 mV" {
 		t.Errorf("shows %q", s)
 	}

@@ -374,6 +374,18 @@ func TestRegionErrors(t *testing.T) {
 	add("solenoid negative length", r, err)
 	r, err = NewSolenoidRegion(Vec{}, Vec{Z: 1}, 1, 1, nan)
 	add("solenoid NaN rate", r, err)
+	r, err = NewIdealSolenoidRegion(Vec{}, Vec{Z: 1}, 0, 1)
+	add("ideal solenoid zero radius", r, err)
+	r, err = NewIdealSolenoidRegion(Vec{}, Vec{}, 1, 1)
+	add("ideal solenoid zero axis", r, err)
+	r, err = NewIdealSolenoidRegion(Vec{}, Vec{Z: 1}, 1, math.Inf(1))
+	add("ideal solenoid infinite rate", r, err)
+	ideal, err := NewIdealSolenoidRegion(Vec{}, Vec{Z: 1}, 1, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = RegionE(ideal, Vec{X: nan}, Tol{Rel: 1e-6})
+	cases["RegionE NaN point, ideal solenoid"] = err
 	r, err = NewCylinderRegion(Vec{}, Vec{Z: 1}, 1, 1, nil)
 	add("cylinder nil dBdt", r, err)
 	r, err = NewCylinderRegion(Vec{X: nan}, Vec{Z: 1}, 1, 1, ok)
