@@ -206,3 +206,144 @@ func TestSolveAndSweep(t *testing.T) {
 		}
 	}
 }
+
+// evalIn evaluates setup lines in a fresh session and returns an
+// evaluator for further statements, and one for statements expected to
+// fail (it returns the error).
+func evalIn(t *testing.T, setup ...string) (func(string) runtime.Value, func(string) error) {
+	t.Helper()
+	s := runtime.NewSession(builtins.Standard())
+	for i, l := range setup {
+		if _, err := s.Eval(lang.Pos{Line: i + 1, Col: 1}, l); err != nil {
+			t.Fatalf("%s: %v", l, err)
+		}
+	}
+	ev := func(in string) runtime.Value {
+		t.Helper()
+		res, err := s.Eval(lang.Pos{Line: 20, Col: 1}, in)
+		if err != nil {
+			t.Fatalf("%s: %v", in, err)
+		}
+		return res.Value
+	}
+	fail := func(in string) error {
+		t.Helper()
+		_, err := s.Eval(lang.Pos{Line: 20, Col: 1}, in)
+		if err == nil {
+			t.Fatalf("%s: no error", in)
+		}
+		return err
+	}
+	return ev, fail
+}
+
+func norm3(v [3]float64) float64 { return math.Sqrt(v[0]*v[0] + v[1]*v[1] + v[2]*v[2]) }
+
+// TestCurlNearCoil: B of a 12-ring coil (radius 20 mm, pitch 6 mm) is
+// smooth wherever it is 10 mm or more from every wire; there ∇ × B = μ0 J = 0
+// and ∇ · B = 0 (Ampère's law and Gauss's law for B in differential form,
+// e.g. Griffiths, Introduction to Electrodynamics, 4th ed., 2017, eqs. 5.50
+// and 5.55; from memory), and B = ∇ × A. The curl must be an answer, not a
+// refusal, including on the axis, at the coil's centre (where every
+// derivative of B vanishes by symmetry) and in the plane of the first ring.
+// Tolerance: the derivatives of B have the scale |B|/d, d = 10 mm the
+// distance from the wires; the Richardson central difference at the chosen
+// step balances truncation (h/d)⁴ against rounding δ/(h/d), δ ≈ 1e-14 the
+// relative rounding of the closed-form fields, so its error is of order
+// δ^{4/5} ≈ 1e-11 of |B|/d: 1e-8 of |B|/d allows a thousandfold. For
+// curl A against B, the same 1e-8 of |B|; the nested curl differentiates
+// values good to ~1e-11, so its error is ~(1e-11)^{4/5} ≈ 2e-9 of |B|/d:
+// allowed 1e-6.
+func TestCurlNearCoil(t *testing.T) {
+	ev, _ := evalIn(t,
+		"coil = source(rings([0, 0, 36] mm, [0, 0, 1], 20 mm, 72 mm, 12), 1 A)",
+		"Bc = b_field(coil)",
+		"G(p) = curl(a_field(coil), p)",
+	)
+	for _, p := range []string{"[0, 0, 3] mm", "[0, 0, 36] mm", "[10, 0, 36] mm", "[10, 5, 3] mm", "[0, 0, -30] mm", "[45, 0, 20] mm", "[0, 35, 80] mm"} {
+		b := norm3(vecOf(t, ev("b_at(coil, "+p+")")))
+		scale := b / 0.01
+		if c := vecOf(t, ev("curl(Bc, "+p+")")); norm3(c) > 1e-8*scale {
+			t.Errorf("at %s: curl B = %v T/m, want 0 (|B|/d = %g T/m)", p, c, scale)
+		}
+		if d := q(t, ev("div(Bc, "+p+")"), "T/m"); math.Abs(d) > 1e-8*scale {
+			t.Errorf("at %s: div B = %g T/m, want 0 (|B|/d = %g T/m)", p, d, scale)
+		}
+		ca, bv := vecOf(t, ev("G("+p+")")), vecOf(t, ev("b_at(coil, "+p+")"))
+		if !vclose(ca, bv, 1e-8, 0) {
+			t.Errorf("at %s: curl A = %v, B = %v", p, ca, bv)
+		}
+		if cc := vecOf(t, ev("curl(G, "+p+")")); norm3(cc) > 1e-6*scale {
+			t.Errorf("at %s: curl (curl A) = %v T/m, want 0 (|B|/d = %g T/m)", p, cc, scale)
+		}
+	}
+}
+
+// TestCurlAnalytic: curl of fields given as functions, against hand
+// calculus: F = [−yz, xz, 0]·1 T/m² has ∇×F = [−x, −y, 2z] T/m; F3 =
+// [−y³, x³, 0]·1 T/m³ has ∇×F3 = [0, 0, 3(x² + y²)] T/m and ∇×∇×F3 =
+// [6y, −6x, 0] T/m² (a nested curl). F and ∇×F3 are polynomials of degree
+// ≤ 2, on which the Richardson central difference is exact but for
+// rounding: 1e-9 relative; the nested curl differentiates those rounded
+// values: 1e-6 (as in TestCurlNearCoil).
+func TestCurlAnalytic(t *testing.T) {
+	ev, _ := evalIn(t,
+		"F(p) = [-p.y*p.z, p.x*p.z, 0] * 1 T/m^2",
+		"F3(p) = [-p.y^3, p.x^3, 0] * 1 T/m^3",
+		"G(p) = curl(F3, p)",
+	)
+	for _, c := range []struct {
+		in   string
+		want [3]float64
+		rel  float64
+	}{
+		{"curl(F, [1, 2, 3] m)", [3]float64{-1, -2, 6}, 1e-9},
+		{"curl(F, [0, 0, 0.5] m)", [3]float64{0, 0, 1}, 1e-9},
+		{"curl(F, [3, -1, 0] mm)", [3]float64{-3e-3, 1e-3, 0}, 1e-9},
+		{"curl(F3, [1, 2, 3] m)", [3]float64{0, 0, 15}, 1e-9},
+		{"curl(G, [1, 2, 3] m)", [3]float64{12, -6, 0}, 1e-6},
+		{"curl(G, [0.1, -0.3, 2] m)", [3]float64{-1.8, -0.6, 0}, 1e-6},
+	} {
+		if got := vecOf(t, ev(c.in)); !vclose(got, c.want, c.rel, 0) {
+			t.Errorf("%s = %v, want %v", c.in, got, c.want)
+		}
+	}
+}
+
+// TestDerivativeKinks: a field with a kink at the point has no derivative
+// there; curl and ddt say so instead of averaging the two sides. The E of
+// an ideal solenoid (dbdt_ideal_solenoid) has ∂E_y/∂x = −½·dB/dt inside and
+// +½·dB/dt·R²/r²·… outside; on the boundary r = R along x the two sides are
+// −1.5 T/s and +1.5 T/s for dB/dt = 3 T/s (from E_φ = −(r/2)Ḃ inside and
+// −(R²/2r)Ḃ outside, Griffiths 4th ed. §7.2; from memory). Just inside the
+// curl is −Ḃ along the axis and just outside 0 (curl E = −∂B/∂t, Faraday);
+// the field is linear in position inside, so 1e-9 relative, and outside
+// its curl is 0 to 1e-8 of Ḃ (as TestCurlNearCoil). A current |t| has a
+// kink at 0.
+func TestDerivativeKinks(t *testing.T) {
+	ev, fail := evalIn(t,
+		"reg = dbdt_ideal_solenoid([0, 0, 0] m, [0, 0, 1], 25 mm, 3 T/s)",
+		"E = e_field(reg)",
+		"I(t) = 2 A * abs(t/(1 ms))",
+		"Bt = b_field(source(circle([0, 0, 0] m, [0, 0, 1], 20 mm), I))",
+	)
+	err := fail("curl(E, [25, 0, 0] mm)")
+	want := "curl: the field has a kink at this point along x (on a region boundary or a wire?): its derivative along x is [0, -1.5, 0] T/s on the − side and [0, 1.5, 0] T/s on the + side"
+	if !strings.Contains(err.Error(), want) {
+		t.Errorf("error %q, want %q", err, want)
+	}
+	if c := vecOf(t, ev("curl(E, [24, 0, 0] mm)")); !vclose(c, [3]float64{0, 0, -3}, 1e-9, 0) {
+		t.Errorf("curl E just inside = %v, want [0, 0, -3] T/s", c)
+	}
+	if c := vecOf(t, ev("curl(E, [26, 0, 0] mm)")); norm3(c) > 1e-8*3 {
+		t.Errorf("curl E just outside = %v, want 0", c)
+	}
+	err = fail("ddt(Bt, [0, 0, 5] mm, 0 s)")
+	if !strings.Contains(err.Error(), "ddt: the field has a kink in time at t = 0 s: its rate of change is") {
+		t.Errorf("ddt at the kink: %v", err)
+	}
+	err = fail("emf(source(circle([0, 0, 0] m, [0, 0, 1], 20 mm), I), circle([0, 0, 5] mm, [0, 0, 1], 10 mm), 0 s)")
+	if !strings.Contains(err.Error(), "emf: the current function I(t) has a kink at t = 0 s: its slope is -2 kA/s just before and 2 kA/s just after") {
+		t.Errorf("emf at the kink: %v", err)
+	}
+}

@@ -49,20 +49,20 @@ func fluxFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "emf(source, loop: closed path, t: s) -> V",
 				Summary:   "EMF induced around the loop (in its circulation direction) by the source's changing currents: −dΦ/dt at time t.",
-				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, asked for relative error 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 is used (so periodic currents are not aliased); a jump or kink at t is an error",
+				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, asked for relative error 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 of the current's rate of change is used (so periodic currents are not aliased); a jump at t is an error, and so is a kink (one-sided slopes that differ at every step, as for |t| or a triangle wave at its peak), with both slopes in the message",
 				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t)\nemf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)",
 				Reference: refFlux,
 			},
 		},
 		{
-			Name: "motional_emf", Params: []string{"loop", "velocity", "source", "t"}, MinArgs: 3, MaxArgs: 4,
+			Name: "motional_emf", Params: []string{"source", "loop", "velocity", "t"}, MinArgs: 3, MaxArgs: 4,
 			CallEnv: motionalEMF,
 			Help: &runtime.Help{
-				Signature: "motional_emf(loop: path, velocity: vector [m/s], source[, t: s]) -> V",
-				Summary:   "EMF ∮(v × B)·dl around a path moving rigidly with velocity through the source's (static) field; for an open path, the EMF between its ends.",
+				Signature: "motional_emf(source, loop: path, velocity: vector [m/s] or function of position [m/s][, t: s]) -> V",
+				Summary:   "EMF ∮(v × B)·dl along a path whose points move with the given velocity through the source's field, taken as it is at t: a uniform velocity for a path in translation, or your function v(p) for one that turns (v(p) = cross(omega, p - centre), with omega in rad/s or s^-1: its m*rad/s is read as m/s); for an open path, the EMF from its start to its end.",
 				Method:    "adaptive Gauss–Kronrod along the path, asked for relative error 1e-10",
-				Example:   "motional_emf(segment([0, 0, 0] m, [0, 0.1, 0] m), [2, 0, 0] m/s, uniform([0, 0, 0.5] T))",
-				Reference: refFlux,
+				Example:   "v(p) = cross([0, 0, 120] / (1 s), p)\nmotional_emf(uniform([0, 0, 0.8] T), segment([0, 0, 0] m, [0.15, 0, 0] m), v)",
+				Reference: refFlux + "; a rod turning about one end in a uniform field: ½BωR² (Faraday disc)",
 			},
 		},
 	}
@@ -148,59 +148,30 @@ var gl8x, gl8w = func() ([8]float64, [8]float64) {
 	return x, w
 }()
 
-// derivative estimates dI/dt of a current function at t: central
-// differences D(h) = (f(t+h) − f(t−h))/2h with one Richardson step
-// D1(h) = (4 D(h/2) − D(h))/3, for h = 1 ps, 10 ps, … 1 s. Going up from
-// the smallest step, it returns the first D1 that agrees with both
-// neighbours to 1e-6 relative: the plateau between rounding error (small h)
-// and truncation error (large h). Starting small matters: a periodic
-// current sampled with a step that is a whole number of periods looks
-// constant, and that false agreement only happens at large steps. If no
-// step agrees that well, the best-agreeing one is used.
+// derivative estimates dI/dt of a current function at t by em.Derivative
+// (steps 1 ps to 1 s, the first plateau going up); a jump or a kink at t is
+// an error naming t (and for a kink both slopes).
 func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, error) {
-	eval := func(x float64) (float64, error) {
-		return currentAt(env, fn, f, x, true)
+	d, err := em.Derivative(func(x float64) (em.Vec, error) {
+		i, err := currentAt(env, fn, f, x, true)
+		return em.Vec{X: i}, err
+	}, t, 1, -12, true)
+	at := runtime.Format(runtime.Quantity{V: t, D: dimTime}, 6)
+	var ke *em.KinkError
+	var ae *argError
+	switch {
+	case errors.As(err, &ke):
+		rate := dimCurrent.Div(dimTime)
+		return 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+			runtime.Format(runtime.Quantity{V: ke.Before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.After.X, D: rate}, 6))
+	case errors.As(err, &ae):
+		return 0, err
+	case errors.Is(err, em.ErrNoPlateau):
+		return 0, errorf("%s: the current function %s has no reliable derivative at t = %s (a jump there, or not defined there?); take t a little before or after", fn, f.Signature(), at)
+	case err != nil:
+		return 0, err
 	}
-	var d1 []float64
-	for e := -12; e <= 0; e++ {
-		h := math.Pow10(e)
-		var v [4]float64
-		var err error
-		for k, x := range [4]float64{t + h, t - h, t + h/2, t - h/2} {
-			if v[k], err = eval(x); err != nil {
-				break
-			}
-		}
-		if err != nil {
-			// the function fails far from t (an exponential overflowing,
-			// say): keep the steps gathered so far
-			if len(d1) >= 3 {
-				break
-			}
-			return 0, err
-		}
-		d := (v[0] - v[1]) / (2 * h)
-		dh := (v[2] - v[3]) / h
-		d1 = append(d1, (4*dh-d)/3)
-	}
-	// agree is the plateau test; roughAgree the worst agreement accepted
-	// at all (a smooth function always does far better).
-	const agree, roughAgree = 1e-6, 1e-3
-	best, bestRel := d1[1], math.Inf(1)
-	for i := 1; i+1 < len(d1); i++ {
-		diff := math.Abs(d1[i+1]-d1[i]) + math.Abs(d1[i]-d1[i-1])
-		if diff <= agree*math.Abs(d1[i]) {
-			best, bestRel = d1[i], 0
-			break
-		}
-		if rel := diff / math.Max(math.Abs(d1[i]), 1e-300); rel < bestRel {
-			best, bestRel = d1[i], rel
-		}
-	}
-	if math.IsNaN(best) || math.IsInf(best, 0) || bestRel > roughAgree {
-		return 0, errorf("%s: the current function %s has no reliable derivative at t = %g s (a jump or a kink there?); take t a little before or after", fn, f.Signature(), t)
-	}
-	return best, nil
+	return d.X, nil
 }
 
 func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -238,20 +209,17 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "motional_emf"
 	r := readArgs(fn, args)
-	loop := r.path(0)
+	src, loop := r.source(0), r.path(1)
+	var vel func(x em.Vec) (em.Vec, error)
 	if r.err == nil {
-		vv, err := vector(fn, args, 1)
-		if err == nil && vv.D != dimSpeed {
-			err = errorf("%s: the velocity must be a vector in m/s, not %s", fn, vv.D.Describe())
-		}
+		var err error
+		vel, err = velocityArg(env, fn, args, 2)
 		r.fail(err)
 	}
-	src := r.source(2)
 	t, hasT := r.time(3)
 	if r.err != nil {
 		return nil, r.err
 	}
-	vv := args[1].(runtime.Vector)
 	srcs, err := src.sources(env, fn, t, hasT)
 	if err != nil {
 		return nil, err
@@ -261,18 +229,71 @@ func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		b, err := em.FieldAt(em.FieldB, srcs, x)
 		return r3.Add(b, ub), err
 	}
-	var imax float64
+	var imax, vmax float64
 	for _, s := range srcs {
 		imax = math.Max(imax, math.Abs(s.I))
 	}
+	for _, p := range pathSamples(loop) {
+		v, err := vel(p)
+		if err != nil {
+			return nil, err
+		}
+		vmax = math.Max(vmax, r3.Norm(v))
+	}
 	size := math.Max(loop.Size(), loop.Length())
-	scale := r3.Norm(toVec(vv)) * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
-	e, err := em.MotionalEMF(loop, toVec(vv), bf, em.DefaultTol, scale)
+	scale := vmax * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
+	e, err := em.MotionalEMF(loop, vel, bf, em.DefaultTol, scale)
 	if err != nil {
+		var ae *argError
+		if errors.As(err, &ae) {
+			return nil, err
+		}
 		if errors.Is(err, em.ErrOnWire) {
 			return nil, errorf("%s: the moving path touches a wire of the source", fn)
 		}
 		return nil, fieldErr(fn, err)
 	}
 	return runtime.Quantity{V: e, D: dimVolt}, nil
+}
+
+// dimTangential is the unit of ω × r written with an angular velocity in
+// rad/s: m*rad/s. Its radian is the one of the arc length s = r·θ, so it
+// is read as a velocity in m/s.
+var dimTangential = dimSpeed.Mul(dimAngle)
+
+// isVelocity accepts m/s and the m*rad/s of ω × r.
+func isVelocity(d runtime.Dim) bool { return d == dimSpeed || d == dimTangential }
+
+// velocityArg reads a velocity: a vector in m/s (the same everywhere) or a
+// function of position returning one; m*rad/s, the unit of ω × r with ω in
+// rad/s, is taken as m/s.
+func velocityArg(env runtime.Env, fn string, args []runtime.Value, i int) (func(x em.Vec) (em.Vec, error), error) {
+	switch v := args[i].(type) {
+	case runtime.Vector:
+		if !isVelocity(v.D) {
+			return nil, errorf("%s: the velocity must be a vector in m/s, not %s", fn, v.D.Describe())
+		}
+		c := toVec(v)
+		return func(em.Vec) (em.Vec, error) { return c, nil }, nil
+	case *runtime.Func:
+		if v.MinArgs > 1 || (v.MaxArgs >= 0 && v.MaxArgs < 1) {
+			return nil, errorf("%s: a velocity function takes one argument, the position; %s does not", fn, v.Signature())
+		}
+		return func(x em.Vec) (em.Vec, error) {
+			out, err := v.Invoke(env, []runtime.Value{fromVec(x, dimLength)})
+			if err != nil {
+				return em.Vec{}, err
+			}
+			vv, ok := out.(runtime.Vector)
+			if !ok || !isVelocity(vv.D) {
+				what := runtime.TypeName(out)
+				if ok {
+					what = "a vector in " + vv.D.Describe()
+				}
+				return em.Vec{}, errorf("%s: the velocity function %s must return a vector in m/s, not %s", fn, v.Signature(), what)
+			}
+			return toVec(vv), nil
+		}, nil
+	}
+	return nil, errorf("%s: the %s argument, the velocity, must be a vector in m/s or a function of position, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
 }

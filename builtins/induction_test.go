@@ -1,6 +1,7 @@
 package builtins_test
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -77,9 +78,38 @@ func TestLanguageInduction(t *testing.T) {
 
 	// Sliding bar: EMF = B·L·v (Griffiths 4th ed. §7.1.3, motional EMF),
 	// sign by ∮(v×B)·dl along the bar's direction.
-	e := q(t, run(t, "motional_emf(segment([0,0,0] m, [0,0.25,0] m), [3,0,0] m/s, uniform([0,0,0.4] T))"), "V")
+	e := q(t, run(t, "motional_emf(uniform([0,0,0.4] T), segment([0,0,0] m, [0,0.25,0] m), [3,0,0] m/s)"), "V")
 	if !scalar.EqualWithinAbsOrRel(e, -0.4*0.25*3, 0, 1e-12) {
 		t.Errorf("sliding bar EMF %g V, want %g V", e, -0.3)
+	}
+
+	// A rod turning about one end in a uniform field, velocity ω × p: EMF
+	// ½BωR² from the axis to the rim (Faraday disc; Griffiths 4th ed.,
+	// 2017, Ex. 7.4, from memory): ½·0.8·120·0.15² = 1.08 V. The integrand
+	// is linear along the rod: exact to rounding, 1e-12.
+	e = q(t, run(t, "v(p) = cross([0, 0, 120] / (1 s), p)",
+		"motional_emf(uniform([0, 0, 0.8] T), segment([0, 0, 0] m, [0.15, 0, 0] m), v)"), "V")
+	if !scalar.EqualWithinAbsOrRel(e, 0.5*0.8*120*0.15*0.15, 0, 1e-12) {
+		t.Errorf("turning rod EMF %g V, want %g V", e, 1.08)
+	}
+	// The same rod with ω written in rad/s (ω × r is then in m*rad/s, the
+	// radian of the arc length s = rθ) and in rpm: 120 rad/s is
+	// 120·60/2π rpm (NIST SP 811: 1 r/min = 2π/60 rad/s).
+	for _, w := range []string{"[0, 0, 120] * 1 rad/s", fmt.Sprintf("[0, 0, %.17g] * 1 rpm", 120*60/(2*math.Pi))} {
+		e = q(t, run(t, "v(p) = cross("+w+", p)",
+			"motional_emf(uniform([0, 0, 0.8] T), segment([0, 0, 0] m, [0.15, 0, 0] m), v)"), "V")
+		if !scalar.EqualWithinAbsOrRel(e, 0.5*0.8*120*0.15*0.15, 0, 1e-12) {
+			t.Errorf("turning rod, ω = %s: EMF %g V, want %g V", w, e, 1.08)
+		}
+	}
+	// A 40 mm × 30 mm loop turning about z in B along x, at the instant
+	// its plane holds B: the peak EMF NBAω = 0.8·1.2e-3·120 = 0.1152 V
+	// (N = 1; the AC generator, flux rule, Griffiths §7.1.3), sign −: its
+	// normal s1 × s2 = −ŷ turns towards +x̂, so the flux grows.
+	e = q(t, run(t, "v(p) = cross([0, 0, 120] / (1 s), p)",
+		"motional_emf(uniform([0.8, 0, 0] T), rectangle([-20, 0, -15] mm, [40, 0, 0] mm, [0, 0, 30] mm), v)"), "V")
+	if !scalar.EqualWithinAbsOrRel(e, -0.8*0.04*0.03*120, 0, 1e-12) {
+		t.Errorf("turning loop EMF %g V, want %g V", e, -0.1152)
 	}
 
 	// EMF of a sinusoidal current at its zero crossing: −M·I0·ω (Faraday's

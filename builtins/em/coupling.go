@@ -411,15 +411,21 @@ func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 	return r3.Scale(i2, sum), nil
 }
 
-// MotionalEMF returns ∮ (v × B)·dl around a path moving with velocity v
-// through the field bfield (a function of position).
-func MotionalEMF(loop Path, v Vec, bfield func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
+// MotionalEMF returns ∮ (v × B)·dl along a path whose points move with
+// velocity v(x) (uniform for a path in translation, ω × (x − c) for one
+// rotating about c) through the static field bfield (a function of
+// position); errors of v or bfield are passed on.
+func MotionalEMF(loop Path, v, bfield func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
 	return lineIntegral(loop, func(x Vec) (Vec, error) {
 		b, err := bfield(x)
 		if err != nil {
 			return Vec{}, err
 		}
-		return r3.Cross(v, b), nil
+		vx, err := v(x)
+		if err != nil {
+			return Vec{}, err
+		}
+		return r3.Cross(vx, b), nil
 	}, tol, scale)
 }
 

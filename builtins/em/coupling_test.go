@@ -868,7 +868,7 @@ func TestMotionalEMF(t *testing.T) {
 	uniform := func(Vec) (Vec, error) { return Vec{X: 0.1, Y: -0.3, Z: B0}, nil }
 	scale := v * B0 * h
 	for _, vel := range []Vec{{X: v}, {X: 0.3, Y: -v, Z: 1}} {
-		e, err := MotionalEMF(loop, vel, uniform, Tol{Rel: 1e-12}, scale)
+		e, err := MotionalEMF(loop, constVel(vel), uniform, Tol{Rel: 1e-12}, scale)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -885,7 +885,7 @@ func TestMotionalEMF(t *testing.T) {
 	for _, c := range []struct {
 		vx, want float64
 	}{{v, B0 * h * v}, {-v, -B0 * h * v}} {
-		e, err := MotionalEMF(loop, Vec{X: c.vx}, half, Tol{Rel: 1e-12}, scale)
+		e, err := MotionalEMF(loop, constVel(Vec{X: c.vx}), half, Tol{Rel: 1e-12}, scale)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -898,7 +898,7 @@ func TestMotionalEMF(t *testing.T) {
 	x0, s1, s2 := Vec{X: 0.12, Y: 0.03, Z: 0.05}, Vec{X: 0.05, Z: 0.01}, Vec{Y: 0.04, Z: -0.02}
 	vel := Vec{X: 0.7, Y: -0.2, Z: 0.4}
 	bf := func(x Vec) (Vec, error) { return FieldAt(FieldB, src, x) }
-	emf, err := MotionalEMF(cpRect(t, x0, s1, s2), vel, bf, Tol{Rel: 1e-11}, 1e-6)
+	emf, err := MotionalEMF(cpRect(t, x0, s1, s2), constVel(vel), bf, Tol{Rel: 1e-11}, 1e-6)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -979,5 +979,64 @@ func BenchmarkMaxwellFast(b *testing.B) {
 	}
 	if math.IsNaN(sink) {
 		b.Fatal("NaN")
+	}
+}
+
+func constVel(v Vec) func(Vec) (Vec, error) { return func(Vec) (Vec, error) { return v, nil } }
+
+// TestMotionalEMFRotating: paths rotating with angular velocity ω about an
+// axis through the origin, v(x) = ω × x, in a uniform field.
+//
+//   - A radial rod from r1 to r2 turning about ẑ in B ẑ (the Faraday disc,
+//     Griffiths, Introduction to Electrodynamics, 4th ed., 2017, Ex. 7.4;
+//     from memory): EMF = ½Bω(r2² − r1²) from the inner end
+//     to the outer, ½BωR² for a rod from the axis to R.
+//   - A rectangle of area A (N = 1 and N = 3 turns) with one side along ẑ,
+//     turning about ẑ in B x̂, at angle θ between its first side and x̂:
+//     its normal s1 × s2 makes Φ = NBA sin θ, so the EMF around it is
+//     −dΦ/dt = −NBAω cos θ, peak NBAω (the AC generator; the flux rule of
+//     Griffiths, 4th ed., 2017, §7.1.3; from memory).
+//
+// The integrand (ω × x) × B is linear along each straight piece, which
+// the 15-point Kronrod rule integrates exactly: tolerance 1e-13 relative.
+func TestMotionalEMFRotating(t *testing.T) {
+	const B, omega = 0.8, 120.0
+	w := Vec{Z: omega}
+	spin := func(x Vec) (Vec, error) { return r3.Cross(w, x), nil }
+	uniformZ := func(Vec) (Vec, error) { return Vec{Z: B}, nil }
+	for _, c := range []struct{ r1, r2, ang float64 }{{0, 0.15, 0}, {0.02, 0.15, 0.7}, {0.05, 0.3, -2}} {
+		s, co := math.Sincos(c.ang)
+		rod := Path{Prims: []Prim{cpMust(t)(NewSegment(Vec{X: c.r1 * co, Y: c.r1 * s, Z: 0.01}, Vec{X: c.r2 * co, Y: c.r2 * s, Z: 0.01}))}}
+		want := 0.5 * B * omega * (c.r2*c.r2 - c.r1*c.r1)
+		e, err := MotionalEMF(rod, spin, uniformZ, Tol{Rel: 1e-12}, want)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(e-want) > 1e-13*want {
+			t.Errorf("rod %g..%g m: EMF %.15g V, want ½Bω(r2²−r1²) = %.15g V", c.r1, c.r2, e, want)
+		}
+	}
+	const a, b = 0.04, 0.03
+	uniformX := func(Vec) (Vec, error) { return Vec{X: B}, nil }
+	for _, n := range []int{1, 3} {
+		for _, th := range []float64{0, 0.5, math.Pi / 2, 2.5} {
+			s, co := math.Sincos(th)
+			s1, s2 := Vec{X: a * co, Y: a * s}, Vec{Z: b}
+			x0 := r3.Scale(-0.5, r3.Add(s1, s2))
+			one := cpRect(t, x0, s1, s2)
+			var loop Path
+			for k := 0; k < n; k++ {
+				loop.Prims = append(loop.Prims, one.Prims...)
+			}
+			peak := float64(n) * B * a * b * omega
+			want := -peak * co
+			e, err := MotionalEMF(loop, spin, uniformX, Tol{Rel: 1e-12}, peak)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(e-want) > 1e-13*peak {
+				t.Errorf("N=%d rectangle at θ=%g: EMF %.15g V, want −NBAω cos θ = %.15g V", n, th, e, want)
+			}
+		}
 	}
 }

@@ -1,7 +1,9 @@
 // Package em holds the numerical core of Loopwise's induction builtins:
 // current paths made of exact primitives (straight segments, circular arcs
 // and helices), their magnetic flux density B and vector potential A by
-// the Biot–Savart law, flux, mutual and self inductance, EMF and forces.
+// the Biot–Savart law, flux, mutual and self inductance, EMF and forces,
+// the induced E of regions where ∂B/∂t is given, and numerical derivatives
+// of fields and currents.
 //
 // All quantities are in coherent SI units (m, A, T, Wb, H, N) and all
 // fields are for the current carried by the path, given separately. The

@@ -278,3 +278,84 @@ func TestReversal(t *testing.T) {
 		t.Errorf("reversed helix: %v vs %v", hb1, hb2)
 	}
 }
+
+// TestOnWireLocal: whether a point lies on a straight wire is judged by the
+// geometry near the point, not by the segment's length. Off the wire, B of
+// a segment on its perpendicular bisector at distance ρ is
+// μ0I/(4πρ)·2h/√(h² + ρ²) and A is μ0I/(4π)·2·asinh(h/ρ), h the half-length
+// (Griffiths, Introduction to Electrodynamics, 4th ed., 2017, Ex. 5.5 and
+// Prob. 5.25 type; from memory). Tolerance: the coordinates of ends 10⁹ m
+// from the origin carry rounding of 1.1e-16·1e9 ≈ 1.1e-7 m, 3e-6 of a 35 mm
+// distance, so 1e-5 for the huge segment; 1e-12 for the others (the
+// closed form's own rounding near the wire, as in TestSegmentClosedForm).
+// Points genuinely on a wire (the midpoint, a point a + t(b − a), an end)
+// still give ErrOnWire, through SegmentB, SegmentA and the field kernel.
+func TestOnWireLocal(t *testing.T) {
+	cases := []struct {
+		name string
+		a, b Vec
+		h    float64 // half-length
+		x    Vec     // on the perpendicular bisector at distance rho
+		rho  float64
+		rel  float64
+	}{
+		{"huge segment, 35 mm off", Vec{}, Vec{X: 2e9}, 1e9, Vec{X: 1e9, Y: 0.035}, 0.035, 1e-5},
+		{"huge segment, 1 mm off", Vec{X: -1e9}, Vec{X: 1e9}, 1e9, Vec{Z: 1e-3}, 1e-3, 1e-5},
+		{"tiny segment, 1 fm off", Vec{X: -1e-9}, Vec{X: 1e-9}, 1e-9, Vec{Y: 1e-15}, 1e-15, 1e-12},
+		{"1 m segment, 1 nm off", Vec{X: -0.5}, Vec{X: 0.5}, 0.5, Vec{Y: 1e-9}, 1e-9, 1e-12},
+	}
+	for _, c := range cases {
+		b, err := SegmentB(c.a, c.b, c.x)
+		if err != nil {
+			t.Errorf("%s: SegmentB: %v", c.name, err)
+			continue
+		}
+		want := k0 / c.rho * 2 * c.h / math.Hypot(c.h, c.rho)
+		if math.Abs(r3.Norm(b)-want) > c.rel*want {
+			t.Errorf("%s: |B| = %.12g T, want %.12g", c.name, r3.Norm(b), want)
+		}
+		av, err := SegmentA(c.a, c.b, c.x)
+		if wantA := k0 * 2 * math.Asinh(c.h/c.rho); err != nil || math.Abs(r3.Norm(av)-wantA) > c.rel*wantA {
+			t.Errorf("%s: |A| = %.12g, %v; want %.12g", c.name, r3.Norm(av), err, wantA)
+		}
+		kb, err := FieldAt(FieldB, []Source{{Path: Path{Prims: []Prim{mustSeg(t, c.a, c.b)}}, I: 1}}, c.x)
+		if err != nil || math.Abs(r3.Norm(kb)-want) > c.rel*want {
+			t.Errorf("%s: kernel |B| = %.12g, %v; want %.12g", c.name, r3.Norm(kb), err, want)
+		}
+	}
+	on := []struct {
+		name string
+		a, b Vec
+		x    Vec
+	}{
+		{"huge segment, midpoint", Vec{}, Vec{X: 2e9}, Vec{X: 1e9}},
+		{"huge oblique segment, a + 0.3(b − a)", Vec{X: 1, Y: 2, Z: 3}, Vec{X: 2e9, Y: -7e8, Z: 3e8}, Vec{}},
+		{"huge segment, an end", Vec{}, Vec{X: 2e9}, Vec{X: 2e9}},
+		{"tiny segment, midpoint", Vec{X: -1e-9}, Vec{X: 1e-9}, Vec{}},
+		{"tiny oblique segment, a + 0.3(b − a)", Vec{X: 1e-9, Y: 2e-9}, Vec{X: -3e-9, Y: 5e-9, Z: 1e-9}, Vec{}},
+	}
+	for _, c := range on {
+		x := c.x
+		if x == (Vec{}) {
+			x = r3.Add(c.a, r3.Scale(0.3, r3.Sub(c.b, c.a)))
+		}
+		if _, err := SegmentB(c.a, c.b, x); !errors.Is(err, ErrOnWire) {
+			t.Errorf("%s: SegmentB: %v, want ErrOnWire", c.name, err)
+		}
+		if _, err := SegmentA(c.a, c.b, x); !errors.Is(err, ErrOnWire) {
+			t.Errorf("%s: SegmentA: %v, want ErrOnWire", c.name, err)
+		}
+		if _, err := FieldAt(FieldB, []Source{{Path: Path{Prims: []Prim{mustSeg(t, c.a, c.b)}}, I: 1}}, x); !errors.Is(err, ErrOnWire) {
+			t.Errorf("%s: kernel: %v, want ErrOnWire", c.name, err)
+		}
+	}
+}
+
+func mustSeg(t *testing.T, a, b Vec) Prim {
+	t.Helper()
+	p, err := NewSegment(a, b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}

@@ -101,7 +101,7 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 			cx, cy, cz := r1y*dz-r1z*dy, r1z*dx-r1x*dz, r1x*dy-r1y*dx // r1 × (b − a)
 			nn := n1 * n2
 			s := sumTerm(nn, r1x*r2x+r1y*r2y+r1z*r2z, cx*cx+cy*cy+cz*cz)
-			tl := onWireRel * c.l[i]
+			tl := nearLineRel * c.l[i]
 			if s <= tl*tl {
 				b, err := SegmentB(c.a[i], c.b[i], x) // rare: on or near the line
 				if err != nil {
