@@ -135,9 +135,13 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 		case strings.ContainsRune(badChars, c):
 			return nil, errAt(i, 1, "unexpected character %q", c)
 		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
-			if c != '.' && i > 0 && r[i-1] == '.' && (i < 2 || r[i-2] != '.') {
+			k := i - 1 // the '.' before the number, spaces allowed: "v. 0"
+			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r') {
+				k--
+			}
+			if c != '.' && k >= 0 && r[k] == '.' && (k < 1 || r[k-1] != '.') {
 				// "v.0": a component is named .x, .y or .z
-				return nil, errAt(i-1, 2, "a number cannot follow '.' here; vector components are .x, .y and .z")
+				return nil, errAt(k, i-k+1, "a number cannot follow '.' here; vector components are .x, .y and .z")
 			}
 			j := scanNumber(r, i)
 			num := strings.ReplaceAll(string(r[i:j]), "_", "")

@@ -156,6 +156,12 @@ func TestRewriteErrors(t *testing.T) {
 			"t.lw:1:3: the unit \"kg\" is followed by \"**\" and nothing else: a unit or a value is missing\n    5 kg**\n      ^^^^"},
 		{"(1 + 2) mm/ ",
 			"t.lw:1:9: the unit \"mm\" is followed by \"/\" and nothing else: a unit or a value is missing\n    (1 + 2) mm/ \n            ^^^"},
+		// a number after a member dot, with or without a space: never a
+		// placeholder name in a message
+		{"x = 2 m. 5 A",
+			"t.lw:1:8: a number cannot follow '.' here; vector components are .x, .y and .z\n    x = 2 m. 5 A\n           ^^^"},
+		{"v.0",
+			"t.lw:1:2: a number cannot follow '.' here; vector components are .x, .y and .z\n    v.0\n     ^^"},
 		{"2and 3",
 			"t.lw:1:1: a number must be followed by a space or an operator here\n    2and 3\n    ^^"},
 	}
