@@ -163,14 +163,14 @@ func geometryFuncs() []*runtime.Func {
 		}),
 		fnc("toroid_rect", []string{"center", "axis", "r_in", "r_out", "height", "turns"}, 6, 6, &runtime.Help{
 			Signature: "toroid_rect(center: position [m], axis: vector, r_in: length, r_out: length, height: length, turns: whole number) -> path",
-			Summary:   "A toroidal winding of turns rectangular loops on a core of rectangular cross-section (r_in to r_out, height), evenly spaced in angle, in meridian planes.",
+			Summary:   "A toroidal winding, placed by its centre (on its axis, midway through the height), of turns rectangular loops on a core of rectangular cross-section (r_in to r_out, height), evenly spaced in angle, in meridian planes.",
 			Method:    "each turn is four straight pieces; the winding's one-turn circumferential advance is not modelled",
 			Example:   "toroid_rect([0, 0, 0] m, [0, 0, 1], 20 mm, 30 mm, 10 mm, 200)",
 			Reference: refGeom,
 		}, toroidRect),
 		fnc("toroid_round", []string{"center", "axis", "major_radius", "minor_radius", "turns"}, 5, 5, &runtime.Help{
 			Signature: "toroid_round(center: position [m], axis: vector, major_radius: length, minor_radius: length, turns: whole number) -> path",
-			Summary:   "A toroidal winding of turns circular loops of minor_radius on a ring core of major_radius, evenly spaced, in meridian planes.",
+			Summary:   "A toroidal winding, placed by its centre, of turns circular loops of minor_radius on a ring core of major_radius, evenly spaced, in meridian planes.",
 			Method:    "each turn is an exact circle",
 			Example:   "toroid_round([0, 0, 0] m, [0, 0, 1], 25 mm, 5 mm, 200)",
 			Reference: refGeom,

@@ -117,7 +117,7 @@ func regionFuncs() []*runtime.Func {
 		}),
 		fnc("dfluxdt_toroid", []string{"center", "axis", "r_in", "r_out", "height", "dPhi_dt"}, 6, 6, &runtime.Help{
 			Signature: "dfluxdt_toroid(center: position [m], axis: vector, r_in: length, r_out: length, height: length, dPhi_dt: Wb/s) -> region",
-			Summary:   "A toroidal core of rectangular section whose flux changes at dPhi_dt (B ∝ 1/r across the section, along +φ right-handed about axis).",
+			Summary:   "A toroidal core of rectangular section, placed by its centre (on its axis, midway through the height), whose flux changes at dPhi_dt (B ∝ 1/r across the section, along +φ right-handed about axis).",
 			Example:   "dfluxdt_toroid([0, 0, 0] m, [0, 0, 1], 20 mm, 30 mm, 10 mm, 5 V)",
 			Reference: refRegions,
 		}, func(args []runtime.Value) (runtime.Value, error) {
