@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"unicode/utf8"
 
 	"loopwise/lang"
@@ -62,6 +63,22 @@ type Session struct {
 	depth      int
 	tooDeep    bool // the nesting limit was hit in the current statement
 	progress   ProgressFunc
+	// interrupted is set by Interrupt (from another goroutine, such as a
+	// signal handler) and cleared when the next statement starts.
+	interrupted atomic.Bool
+}
+
+// Interrupt asks the running statement to stop: long builtins see it
+// through Env.Err and return ErrInterrupted. It is safe to call from any
+// goroutine; the next statement starts afresh.
+func (s *Session) Interrupt() { s.interrupted.Store(true) }
+
+// Err implements Env.
+func (s *Session) Err() error {
+	if s.interrupted.Load() {
+		return ErrInterrupted
+	}
+	return nil
 }
 
 // NewSession starts a session with the given library.
@@ -137,6 +154,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		}
 	}()
 	s.depth, s.tooDeep = 0, false
+	s.interrupted.Store(false)
 	switch st.Kind {
 	case lang.Empty:
 		return &Result{Stmt: st}, nil

@@ -1,6 +1,7 @@
 package runtime
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -64,7 +65,14 @@ type Env interface {
 	// Progress reports work done on a long computation; the prompt shows
 	// it when the work takes more than a second.
 	Progress(label string, done, total int)
+	// Err is nil while the running statement may go on, and
+	// ErrInterrupted once it has been interrupted (Session.Interrupt, the
+	// prompt's Ctrl-C). Long work polls it and returns the error it gives.
+	Err() error
 }
+
+// ErrInterrupted is the error of work stopped by Session.Interrupt.
+var ErrInterrupted = errors.New("interrupted")
 
 // Func is a callable value: a builtin or a user-defined function. Functions
 // are first-class: they can be passed to builtins that integrate or
