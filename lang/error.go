@@ -3,6 +3,7 @@ package lang
 import (
 	"errors"
 	"strings"
+	"unicode"
 	"unicode/utf8"
 )
 
@@ -30,12 +31,47 @@ func (e *Error) Error() string {
 	b.WriteString(": ")
 	b.WriteString(e.Msg)
 	if e.Source != "" && e.Pos.Col >= 1 {
+		src, col, width := window(e.Source, e.Pos.Col, e.Width)
 		b.WriteString("\n    ")
-		b.WriteString(strings.ReplaceAll(e.Source, "\t", " "))
+		b.WriteString(src)
 		b.WriteString("\n    ")
-		b.WriteString(Caret(e.Source, e.Pos.Col, e.Width))
+		b.WriteString(Caret(src, col, width))
 	}
 	return b.String()
+}
+
+// ShowWidth is the most characters of a source line an error shows; a
+// longer line is shown as a window around the caret, with … marking what
+// is left out on either side.
+const ShowWidth = 120
+
+// window returns the part of src an error shows, with control characters
+// (tabs, a stray carriage return) as spaces so the caret lines up, and the
+// caret's column and width in it.
+func window(src string, col, width int) (string, int, int) {
+	r := []rune(src)
+	for i, c := range r {
+		if unicode.IsControl(c) {
+			r[i] = ' '
+		}
+	}
+	if len(r) <= ShowWidth {
+		return string(r), col, width
+	}
+	width = min(max(width, 1), ShowWidth/2)
+	start := max(0, col-1-ShowWidth/3)
+	end := min(len(r), start+ShowWidth)
+	start = max(0, min(start, end-ShowWidth))
+	out := string(r[start:end])
+	col -= start
+	if start > 0 {
+		out = Ellipsis + out
+		col++
+	}
+	if end < len(r) {
+		out += Ellipsis
+	}
+	return out, col, width
 }
 
 // Caret returns the caret line for column col (1-based, runes) of src, with

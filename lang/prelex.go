@@ -132,6 +132,8 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			copyRange(i, j)
 			i = j
+		case c == '\r':
+			return nil, errAt(i, 1, "a carriage return (CR) in the middle of a line; lines end with LF or CR LF")
 		case strings.ContainsRune(badChars, c):
 			return nil, errAt(i, 1, "unexpected character %q", c)
 		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
@@ -155,7 +157,7 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 					return nil, errAt(i, j-i+1, "a number must be followed by a space or an operator here")
 				}
 				if _, err := strconv.ParseFloat(num, 64); err != nil {
-					return nil, errAt(i, j-i, "number %q is too large", num)
+					return nil, errAt(i, j-i, "number %q is too large", Abbrev(num, 40))
 				}
 				if c == '.' {
 					emit("0", i)
@@ -166,11 +168,11 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			word := string(r[us:ue])
 			if !units.IsUnit(firstAtom(word)) {
-				msg := fmt.Sprintf("unknown unit %q after a number", word)
+				msg := fmt.Sprintf("unknown unit %q after a number", Abbrev(word, 40))
 				if sug := units.SuggestUnit(word); sug != "" {
 					msg += fmt.Sprintf("; did you mean %q?", sug)
 				} else {
-					msg += fmt.Sprintf(" (to multiply by a name, write %s*%s)", num, word)
+					msg += fmt.Sprintf(" (to multiply by a name, write %s*%s)", Abbrev(num, 20), Abbrev(word, 40))
 				}
 				return nil, errAt(us, ue-us, "%s", msg)
 			}
@@ -214,10 +216,24 @@ func unitTail(r []rune, us, ue int, num string, errAt func(off, width int, forma
 		return nil
 	}
 	unit := string(r[us:ue])
+	if isIdentPart(r[ue]) || r[ue] == '°' {
+		// "5 m^2x", "5 mm^1e9": text glued to the unit would be glued to
+		// its placeholder and read as one unknown name
+		g := ue
+		for g < len(r) && (isIdentPart(r[g]) || r[g] == '°') {
+			g++
+		}
+		msg := fmt.Sprintf("the unit %q runs into %q: put a space or an operator after a unit", Abbrev(unit, 40), Abbrev(string(r[ue:g]), 40))
+		if strings.ContainsRune(unit, '^') && unicode.IsDigit(r[ue-1]) {
+			msg += "; a unit power is a whole number, as in m^2"
+		}
+		return errAt(us, g-us, "%s", msg)
+	}
 	if r[ue] == '^' {
+		unit := Abbrev(unit, 40)
 		msg := fmt.Sprintf("after the unit %q, ^ needs a whole power written with it, as in %s^2 or %s^-1", unit, unit, unit)
 		if num != "" {
-			msg += fmt.Sprintf("; to raise the whole quantity, write (%s %s)^...", num, unit)
+			msg += fmt.Sprintf("; to raise the whole quantity, write (%s %s)^...", Abbrev(num, 20), unit)
 		}
 		return errAt(us, ue-us+1, "%s", msg)
 	}
@@ -232,7 +248,7 @@ func unitTail(r []rune, us, ue int, num string, errAt func(off, width int, forma
 		k++
 	}
 	if strings.TrimSpace(string(r[k:])) == "" {
-		return errAt(us, k-us, "the unit %q is followed by %q and nothing else: a unit or a value is missing", unit, string(r[ue:k]))
+		return errAt(us, k-us, "the unit %q is followed by %q and nothing else: a unit or a value is missing", Abbrev(unit, 40), string(r[ue:k]))
 	}
 	return nil
 }
@@ -300,15 +316,18 @@ func safe(r []rune, i int) rune {
 //	unit   = factor { ("*" | "/") factor }
 //	factor = (atom | "(" unit ")") [ "^" ["-"] digits ]
 func scanUnit(r []rune, k int, units UnitNames) int {
-	end, ok := scanUnitSeq(r, k, units)
+	end, ok := scanUnitSeq(r, k, units, 0)
 	if !ok {
 		return k
 	}
 	return end
 }
 
-func scanUnitSeq(r []rune, k int, units UnitNames) (int, bool) {
-	e, ok := scanFactor(r, k, units)
+func scanUnitSeq(r []rune, k int, units UnitNames, depth int) (int, bool) {
+	if depth > MaxNesting {
+		return k, false // ParseStatement refuses this before; never recurse without end
+	}
+	e, ok := scanFactor(r, k, units, depth)
 	if !ok {
 		return k, false
 	}
@@ -316,7 +335,7 @@ func scanUnitSeq(r []rune, k int, units UnitNames) (int, bool) {
 		if e+1 < len(r) && r[e+1] == r[e] {
 			break // "**" is power in the expression syntax, "//" a comment
 		}
-		n, ok := scanFactor(r, e+1, units)
+		n, ok := scanFactor(r, e+1, units, depth)
 		if !ok {
 			break
 		}
@@ -325,14 +344,14 @@ func scanUnitSeq(r []rune, k int, units UnitNames) (int, bool) {
 	return e, true
 }
 
-func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
+func scanFactor(r []rune, k int, units UnitNames, depth int) (int, bool) {
 	if k >= len(r) {
 		return k, false
 	}
 	var e int
 	switch {
 	case r[k] == '(':
-		n, ok := scanUnitSeq(r, k+1, units)
+		n, ok := scanUnitSeq(r, k+1, units, depth+1)
 		if !ok || n >= len(r) || r[n] != ')' {
 			return k, false
 		}

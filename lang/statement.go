@@ -95,7 +95,13 @@ func (s *Statement) Errorf(off, width int, format string, args ...any) *Error {
 // strings and comments: the statement continues on the next line. A closing
 // bracket that matches nothing ends the statement, so the parser can report
 // it.
+//
+// Text already longer than MaxStatementLen never needs more: ParseStatement
+// refuses it.
 func NeedsMore(text string) bool {
+	if len(text) > MaxLineBytes || strings.Count(text, "\n") >= MaxStatementLines {
+		return false
+	}
 	r := []rune(text)
 	depth := 0
 	for i := 0; i < len(r); i++ {
@@ -133,6 +139,9 @@ func NeedsMore(text string) bool {
 func ParseStatement(base Pos, text string) (*Statement, error) {
 	s := &Statement{Base: base, Text: text}
 	runes := []rune(text)
+	if err := checkLimits(s, runes); err != nil {
+		return nil, err
+	}
 	sc, err := scanTop(s, runes)
 	if err != nil {
 		return nil, err

@@ -10,6 +10,7 @@ import (
 
 	"github.com/expr-lang/expr"
 	"github.com/expr-lang/expr/ast"
+	"github.com/expr-lang/expr/builtin"
 	"github.com/expr-lang/expr/file"
 	"github.com/expr-lang/expr/vm"
 
@@ -26,6 +27,35 @@ const (
 	fnBool = "__bool"
 	fnCond = "__cond"
 )
+
+// engineNames are the function names the patcher inserts; no other name
+// starting with "__" may reach the engine.
+var engineNames = func() map[string]bool {
+	m := map[string]bool{fnCall: true, fnArg: true, fnVec: true, fnComp: true, fnBool: true, fnCond: true, "__neg": true}
+	for _, fn := range binaryOps {
+		m[fn] = true
+	}
+	return m
+}()
+
+// reservedCalls are the names the expression engine's parser reads as its
+// own list operations whenever they are followed by "(" (sum(...),
+// map(...), count(...)...), even with its builtins disabled. A function of
+// such a name could never be called, so none may be defined. The list
+// comes from the engine itself: its builtins that take a predicate.
+var reservedCalls = func() map[string]bool {
+	m := map[string]bool{}
+	for _, f := range builtin.Builtins {
+		if f.Predicate {
+			m[f.Name] = true
+		}
+	}
+	return m
+}()
+
+// ReservedCall reports whether name cannot be called as a function because
+// the expression syntax reserves name(...).
+func ReservedCall(name string) bool { return reservedCalls[name] }
 
 var binaryOps = map[string]string{
 	"+": "__add", "-": "__sub", "*": "__mul", "/": "__div", "%": "__mod",
@@ -139,6 +169,9 @@ func (v *patcher) Visit(node *ast.Node) {
 			return
 		}
 		if strings.HasPrefix(n.Value, "__") {
+			if !engineNames[n.Value] {
+				v.fail(n, "internal error (please report): a unit literal was not understood here")
+			}
 			return // engine function names
 		}
 		if i, ok := v.params[n.Value]; ok {
@@ -194,6 +227,9 @@ func (v *patcher) Visit(node *ast.Node) {
 		ast.Patch(node, call(fnVec, n.Nodes...))
 	case *ast.CallNode:
 		if id, ok := n.Callee.(*ast.IdentifierNode); ok && strings.HasPrefix(id.Value, "__") {
+			if !engineNames[id.Value] {
+				v.fail(n, "internal error (please report): a unit literal was not understood here")
+			}
 			return
 		}
 		args := append([]ast.Node{n.Callee}, n.Arguments...)
@@ -212,13 +248,15 @@ func (v *patcher) Visit(node *ast.Node) {
 		}
 		ast.Patch(node, call(fnComp, n.Node, &ast.ConstantNode{Value: i}))
 	case *ast.ConstantNode, *ast.BoolNode, *ast.StringNode:
+	case *ast.BuiltinNode:
+		v.fail(n, "%s(...) is reserved by the expression syntax and cannot be called here", n.Name)
 	default:
 		v.fail(*node, "this syntax is not part of the Loopwise language")
 	}
 }
 
 func unknownNameMsg(name string, v *patcher) string {
-	msg := fmt.Sprintf("unknown name %q", name)
+	msg := fmt.Sprintf("unknown name %q", lang.Abbrev(name, 40))
 	if (UnitTable{}).IsUnit(name) {
 		return msg + fmt.Sprintf(" (%s is a unit: write a number before it, as in 1 %s)", name, name)
 	}
@@ -321,7 +359,27 @@ func (p *program) engineError(err error, compile bool) error {
 	} else if compile {
 		msg = "syntax error: " + tidySyntax(msg)
 	}
-	return p.errorAt(fe.Location, msg)
+	return p.errorAt(fe.Location, p.publicNames(msg))
+}
+
+// placeholderName matches an identifier the pre-lexer or the patcher made.
+var placeholderName = regexp.MustCompile(`__[A-Za-z0-9_]*`)
+
+// publicNames rewrites names of our own making in an engine message: a
+// unit literal's placeholder becomes the literal as written ("2 m"); any
+// other such name is an internal one and is left out.
+func (p *program) publicNames(msg string) string {
+	if !strings.Contains(msg, "__") {
+		return msg
+	}
+	return placeholderName.ReplaceAllStringFunc(msg, func(m string) string {
+		for _, l := range p.rw.Lits {
+			if strings.TrimSpace(l.Placeholder) == m {
+				return strings.TrimSpace(l.Number + " " + l.Unit)
+			}
+		}
+		return "…"
+	})
 }
 
 // tidySyntax rewrites the engine's token names into plain words.
@@ -334,9 +392,12 @@ func tidySyntax(msg string) string {
 		if kind == "" {
 			kind = strings.ToLower(sub[1])
 		}
-		return kind + " " + strconv.Quote(sub[2])
+		if strings.HasPrefix(sub[2], lang.PlaceholderPrefix) {
+			return "\"" + sub[2] + "\"" // publicNames writes the literal
+		}
+		return kind + " " + strconv.Quote(lang.Abbrev(sub[2], 40))
 	})
-	return strings.ReplaceAll(msg, lang.PlaceholderPrefix, "unit literal ")
+	return msg
 }
 
 // tokenName matches the engine's token notation, such as Bracket(")").
@@ -347,6 +408,11 @@ func (s *Session) run(p *program) (Value, error) {
 	out, err := expr.Run(p.prog, s.vars)
 	if err != nil {
 		return nil, p.engineError(err, false)
+	}
+	if out == nil {
+		// every operator, literal and builtin makes a value; nil means a
+		// name reached the engine unchecked
+		return nil, p.st.Errorf(p.off, max(1, utf8.RuneCountInString(p.st.Expr)), "internal error (please report): this expression gave no value")
 	}
 	return normalize(out), nil
 }

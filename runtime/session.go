@@ -3,6 +3,7 @@ package runtime
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -171,6 +172,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := checkResult(st, v); err != nil {
+		return nil, err
+	}
 	v = markCycles(v, st.As)
 	unit := st.As
 	note := ""
@@ -220,6 +224,31 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	return res, nil
 }
 
+// checkResult is the last guard before a value is shown, assigned or
+// recorded: a statement gives a value, and a number in it is finite. The
+// operators and builtins make sure of both, so failing here is a bug.
+func checkResult(st *lang.Statement, v Value) error {
+	bad := ""
+	switch x := v.(type) {
+	case nil:
+		bad = "gave no value"
+	case Quantity:
+		if math.IsNaN(x.V) || math.IsInf(x.V, 0) {
+			bad = "gave a number that is not finite"
+		}
+	case Vector:
+		for _, c := range x.V {
+			if math.IsNaN(c) || math.IsInf(c, 0) {
+				bad = "gave a vector with a component that is not finite"
+			}
+		}
+	}
+	if bad == "" {
+		return nil
+	}
+	return st.Errorf(st.ExprOff, max(1, utf8.RuneCountInString(st.Expr)), "internal error (please report): this expression %s", bad)
+}
+
 // show formats v, in unit when one is given.
 func (s *Session) show(st *lang.Statement, v Value, unit string, digits int) (string, error) {
 	if unit == "" {
@@ -258,6 +287,9 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 	name := st.Name
 	if err := s.checkAssignable(st); err != nil {
 		return err
+	}
+	if _, ok := v.(*Func); ok && reservedCalls[name] {
+		return reservedErr(st)
 	}
 	decl := st.Declared
 	if decl == "" {
@@ -298,10 +330,19 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 	return nil
 }
 
+// reservedErr refuses a function named like one of the expression syntax's
+// list operations (sum, map, count...): sum(...) would never call it.
+func reservedErr(st *lang.Statement) error {
+	return st.Errorf(0, utf8.RuneCountInString(st.Name), "%s cannot name a function: the expression syntax reserves %s(...) for itself, so it could never be called; choose another name, such as %s_of", st.Name, st.Name, st.Name)
+}
+
 // define handles "name(params) = body".
 func (s *Session) define(st *lang.Statement) (*Result, error) {
 	if err := s.checkAssignable(st); err != nil {
 		return nil, err
+	}
+	if reservedCalls[st.Name] {
+		return nil, reservedErr(st)
 	}
 	note := s.shadowNote(st.Name)
 	frame := &frameStack{}

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"sync"
 	"unicode"
+	"unicode/utf8"
 
 	"loopwise/lang"
 )
@@ -249,14 +250,15 @@ func ParseUnit(text string) (UnitExpr, error) {
 		return UnitExpr{}, err
 	}
 	if p.i < len(p.r) {
-		return UnitExpr{}, &UnitError{p.i, len(p.r) - p.i, fmt.Sprintf("unexpected %q in unit %q", string(p.r[p.i:]), text)}
+		return UnitExpr{}, &UnitError{p.i, len(p.r) - p.i, fmt.Sprintf("unexpected %q in unit %q", lang.Abbrev(string(p.r[p.i:]), 40), lang.Abbrev(text, 40))}
 	}
 	return u, nil
 }
 
 type unitParser struct {
-	r []rune
-	i int
+	r     []rune
+	i     int
+	depth int // open parentheses, bounded by lang.MaxNesting
 }
 
 func (p *unitParser) product() (UnitExpr, error) {
@@ -296,8 +298,13 @@ func (p *unitParser) factor() (UnitExpr, error) {
 	case p.i >= len(p.r):
 		return u, &UnitError{p.i, 1, "a unit is missing"}
 	case p.r[p.i] == '(':
+		if p.depth >= lang.MaxNesting {
+			return u, &UnitError{p.i, 1, fmt.Sprintf("parentheses in a unit nest deeper than %d levels", lang.MaxNesting)}
+		}
 		p.i++
+		p.depth++
 		v, err := p.product()
+		p.depth--
 		if err != nil {
 			return u, err
 		}
@@ -317,7 +324,7 @@ func (p *unitParser) factor() (UnitExpr, error) {
 		sym := string(p.r[start:p.i])
 		v, ok := lookupAtom(sym)
 		if !ok {
-			msg := fmt.Sprintf("unknown unit %q", sym)
+			msg := fmt.Sprintf("unknown unit %q", lang.Abbrev(sym, 40))
 			if s := (UnitTable{}).SuggestUnit(sym); s != "" {
 				msg += fmt.Sprintf("; did you mean %q?", s)
 			}
@@ -363,11 +370,15 @@ func offsetErr(r []rune, at int) error {
 func LiteralValue(number string, u UnitExpr) (float64, error) {
 	mant, exp := number, 0
 	if i := strings.IndexAny(number, "eE"); i >= 0 {
+		mant = number[:i]
 		e, err := strconv.Atoi(number[i+1:])
-		if err != nil {
-			return 0, fmt.Errorf("bad exponent in %q", number)
+		if err != nil && !isRangeErr(err) {
+			return 0, fmt.Errorf("bad exponent in %q", lang.Abbrev(number, 40))
 		}
-		mant, exp = number[:i], e
+		// Clamp the exponent far beyond any float64 (1e±400 is already
+		// out of range) so that adding the unit's power of ten cannot wrap
+		// around: 1e9223372036854775805 km is too large, not 0 m.
+		exp = max(-maxLiteralExp, min(e, maxLiteralExp))
 	}
 	v, err := strconv.ParseFloat(fmt.Sprintf("%se%d", mant, exp+u.Exp10), 64)
 	if err != nil && !isRangeErr(err) {
@@ -379,11 +390,16 @@ func LiteralValue(number string, u UnitExpr) (float64, error) {
 	if u.Offset != 0 {
 		v = offsetValue(mant, exp+u.Exp10, u)
 	}
-	if math.IsInf(v, 0) {
-		return 0, fmt.Errorf("number %q is too large", number)
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, fmt.Errorf("number %q is too large", lang.Abbrev(number, 40))
 	}
 	return v, nil
 }
+
+// maxLiteralExp bounds the decimal exponent of a literal before the unit's
+// power of ten is added; any larger exponent gives the same float64 (zero
+// or infinity, or zero when the digits are all zeros).
+const maxLiteralExp = 1_000_000
 
 // offsetValue is mant×10^exp × Factor + Offset rounded once, so that
 // "20 °C" is exactly the float64 nearest 293.15, as "293.15 K" is.
@@ -408,7 +424,14 @@ func isRangeErr(err error) bool {
 // enough to be a plausible misspelling.
 func nearest(name string, cands []string) string {
 	best, bestD := "", 1<<30
+	n := utf8.RuneCountInString(name)
 	for _, c := range cands {
+		if abs(n-utf8.RuneCountInString(c)) > 2 {
+			// the edit distance is at least the difference in length,
+			// and no suggestion is further than 2 edits: this keeps the
+			// search linear for a huge unknown name
+			continue
+		}
 		d := editDistance(name, c)
 		if d < bestD || (d == bestD && sharesFirst(name, c) && !sharesFirst(name, best)) {
 			best, bestD = c, d
@@ -425,6 +448,13 @@ func nearest(name string, cands []string) string {
 		return best
 	}
 	return ""
+}
+
+func abs(n int) int {
+	if n < 0 {
+		return -n
+	}
+	return n
 }
 
 func editDistance(a, b string) int {
