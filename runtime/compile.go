@@ -103,7 +103,12 @@ var opOptions = []expr.Option{
 	expr.Env(map[string]any{}),
 	expr.AllowUndefinedVariables(),
 	expr.DisableAllBuiltins(),
+	expr.MaxNodes(MaxExprNodes),
 }
+
+// MaxExprNodes is the most parts (numbers, names, operators, calls) one
+// expression may have; the engine counts them as it parses.
+const MaxExprNodes = 10_000
 
 // program is a compiled expression with what is needed to report errors
 // against the statement it came from.
@@ -357,7 +362,7 @@ func (p *program) engineError(err error, compile bool) error {
 	if fe.Prev != nil {
 		msg = fe.Prev.Error()
 	} else if compile {
-		msg = "syntax error: " + tidySyntax(msg)
+		msg = tidySyntax(msg)
 	}
 	return p.errorAt(fe.Location, p.publicNames(msg))
 }
@@ -382,8 +387,12 @@ func (p *program) publicNames(msg string) string {
 	})
 }
 
-// tidySyntax rewrites the engine's token names into plain words.
+// tidySyntax rewrites a syntax error of the engine: its token names become
+// plain words.
 func tidySyntax(msg string) string {
+	if strings.Contains(msg, "exceeds maximum allowed nodes") {
+		return fmt.Sprintf("this expression has more than %d parts (numbers, names, operators), the most one statement may have; split it into several statements", MaxExprNodes)
+	}
 	msg = strings.ReplaceAll(msg, "unexpected token EOF", "the expression ends too early")
 	msg = strings.ReplaceAll(msg, "unexpected token ", "unexpected ")
 	msg = tokenName.ReplaceAllStringFunc(msg, func(m string) string {
@@ -397,7 +406,7 @@ func tidySyntax(msg string) string {
 		}
 		return kind + " " + strconv.Quote(lang.Abbrev(sub[2], 40))
 	})
-	return msg
+	return "syntax error: " + msg
 }
 
 // tokenName matches the engine's token notation, such as Bracket(")").

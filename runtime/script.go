@@ -70,7 +70,14 @@ type Script struct {
 	// unclosed is the 0-based line of a fence of another language that is
 	// never closed (so the rest of the file is inside it), or -1.
 	unclosed int
+	// bom tells whether the file started with a byte-order mark, which is
+	// skipped when reading and kept when recording.
+	bom bool
 }
+
+// ByteOrderMark is the UTF-8 encoding of U+FEFF, which some editors write
+// at the start of a text file.
+const ByteOrderMark = "\ufeff"
 
 // ScriptStmt is one statement of a script and its recorded result lines.
 type ScriptStmt struct {
@@ -178,6 +185,7 @@ func (f fenceLine) isStatementFence() bool {
 func ParseScript(path string, data []byte) (*Script, error) {
 	text := string(data)
 	sc := &Script{Path: path, unclosed: -1}
+	text, sc.bom = strings.CutPrefix(text, ByteOrderMark)
 	if text != "" {
 		sc.finalEOL = strings.HasSuffix(text, "\n")
 		sc.Lines = strings.Split(strings.TrimSuffix(text, "\n"), "\n")
@@ -793,6 +801,9 @@ func (sc *Script) Record(s *Session) ([]byte, error) {
 	out := b.Bytes()
 	if !sc.finalEOL && len(sc.Lines) > 0 {
 		out = bytes.TrimSuffix(out, []byte(eol(len(sc.Lines)-1)))
+	}
+	if sc.bom {
+		out = append([]byte(ByteOrderMark), out...)
 	}
 	return out, nil
 }

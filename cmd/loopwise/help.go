@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+	"unicode/utf8"
 
+	"loopwise/lang"
 	"loopwise/runtime"
 )
 
@@ -64,8 +66,8 @@ Safety
   exposure limits or the judgement of a licensed professional.
 `
 
-func (c *console) help(arg string) {
-	arg = strings.TrimSpace(arg)
+func (c *console) help(st *lang.Statement) {
+	arg := strings.TrimSpace(st.Args)
 	if arg == "" {
 		fmt.Fprint(c.out, generalHelp)
 		c.listBuiltins()
@@ -93,7 +95,9 @@ func (c *console) help(arg string) {
 		}
 		return
 	}
-	fmt.Fprintf(c.out, "no help for %q; :help lists the builtins, :units the units\n", arg)
+	// an unknown name is a failed line, like any other mistake
+	lead := utf8.RuneCountInString(st.Text) - utf8.RuneCountInString(strings.TrimLeft(st.Text, " \t"))
+	c.fail(st.Errorf(lead, utf8.RuneCountInString(strings.TrimSpace(st.Text)), "no help for %q; :help lists the builtins, :units the units", lang.Abbrev(arg, 40)))
 }
 
 func (c *console) showHelp(name string, h *runtime.Help) {

@@ -157,12 +157,15 @@ func expand(cmd string, args []string, stderr io.Writer) ([]string, int) {
 	return files, 0
 }
 
+// load reads a script named on the command line (runtime.ReadScript: a
+// regular file under the size cap).
 func load(path string) (*runtime.Script, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, err
+	sc, err := runtime.ReadScript(path)
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		err = fmt.Errorf("%s: %v", pe.Path, pe.Err)
 	}
-	return runtime.ParseScript(path, data)
+	return sc, err
 }
 
 func runFiles(args []string, stdout, stderr io.Writer) int {
@@ -206,7 +209,7 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 		files = append(files, fs.Arg(0))
 		args = fs.Args()[1:]
 	}
-	if *tol < 0 || *tol >= 1 {
+	if !(*tol >= 0 && *tol < 1) { // also refuses NaN
 		fmt.Fprintf(stderr, "loopwise check: -tol must be at least 0 and below 1, got %g\n", *tol)
 		return 2
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -98,7 +99,7 @@ func (c *console) eval(text string) (quit bool) {
 		case "quit", "exit":
 			return true
 		case "help":
-			c.help(st.Args)
+			c.help(st)
 			return false
 		case "vars":
 			c.vars()
@@ -217,12 +218,11 @@ func (c *console) load(st *lang.Statement) {
 		c.fail(st.Errorf(0, 5, ":load needs a file name, as in :load coil.lw"))
 		return
 	}
-	data, err := os.ReadFile(path)
-	if err != nil {
+	sc, err := load(path)
+	if err != nil && !isLangError(err) {
 		c.fail(st.Errorf(0, 5, "cannot load: %v", err))
 		return
 	}
-	sc, err := runtime.ParseScript(path, data)
 	if err == nil {
 		err = sc.Run(c.s, c.out)
 	}
@@ -236,6 +236,11 @@ func (c *console) load(st *lang.Statement) {
 	}
 }
 
+func isLangError(err error) bool {
+	_, ok := lang.AsError(err)
+	return ok
+}
+
 // repl runs the interactive prompt, or reads statements line by line when
 // stdin is not a terminal.
 func repl(stdin io.Reader, stdout, stderr io.Writer) int {
@@ -243,23 +248,87 @@ func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
 		return terminalLoop(c)
 	}
-	sc := bufio.NewScanner(stdin)
-	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
+	lr := newLineReader(stdin)
 	quit := false
-	for !quit && sc.Scan() {
-		quit = c.line(sc.Text())
+	for !quit {
+		text, tooLong, err := lr.next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			fmt.Fprintf(stderr, "loopwise: reading input: %v\n", err)
+			return 1
+		}
+		if tooLong {
+			c.tooLong(text)
+			continue
+		}
+		quit = c.line(text)
 	}
 	if !quit {
 		c.finish()
-	}
-	if err := sc.Err(); err != nil {
-		fmt.Fprintf(stderr, "loopwise: reading input: %v\n", err)
-		return 1
 	}
 	if c.failed {
 		return 1
 	}
 	return 0
+}
+
+// lineReader reads input lines of any length without holding more than
+// lang.MaxLineBytes of one: a longer line cannot be a statement, and is
+// reported and skipped. A byte-order mark before the first line is
+// skipped; a line's ending (LF or CR LF) is removed.
+type lineReader struct {
+	r    *bufio.Reader
+	read bool // a line has been read
+}
+
+func newLineReader(r io.Reader) *lineReader {
+	return &lineReader{r: bufio.NewReaderSize(r, 64*1024)}
+}
+
+// next returns the next line, whether it was too long (then line holds
+// its first lang.MaxLineBytes bytes), or io.EOF after the last line.
+func (lr *lineReader) next() (line string, tooLong bool, err error) {
+	var buf []byte
+	any := false
+	for {
+		frag, err := lr.r.ReadSlice('\n')
+		any = any || len(frag) > 0
+		if !tooLong {
+			if len(buf)+len(frag) > lang.MaxLineBytes+2 { // +2: the line ending
+				frag = frag[:max(0, lang.MaxLineBytes-len(buf))]
+				tooLong = true
+			}
+			buf = append(buf, frag...)
+		}
+		if err == bufio.ErrBufferFull {
+			continue
+		}
+		if err != nil && (err != io.EOF || !any) {
+			return "", false, err
+		}
+		break
+	}
+	if !tooLong {
+		buf = bytes.TrimSuffix(buf, []byte("\n"))
+		buf = bytes.TrimSuffix(buf, []byte("\r"))
+	}
+	if !lr.read {
+		buf = bytes.TrimPrefix(buf, []byte(runtime.ByteOrderMark))
+		lr.read = true
+	}
+	return string(buf), tooLong, nil
+}
+
+// tooLong reports an input line longer than a statement may be; the line
+// is skipped, and a statement it continued is dropped with it.
+func (c *console) tooLong(text string) {
+	c.finish() // a statement left open reports its own error first
+	c.n++
+	e := lang.TooLongError(lang.Pos{Line: c.n, Col: 1}, text)
+	e.Msg += "; the line was skipped"
+	c.fail(e)
 }
 
 // isTerminal asks the terminal driver (golang.org/x/term), not the file
