@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 	"unicode"
+	"unicode/utf8"
 
 	"loopwise/builtins"
 	"loopwise/lang"
@@ -318,6 +319,57 @@ var errorCases = []errorCase{
 	{name: "condition that is a quantity", in: "gap ? 1 : 2", col: 1,
 		msg:   `the condition before "?" must be true or false, not length (m)`,
 		caret: "^^^"},
+
+	// Text glued to a unit: each of these once evaluated to no value at
+	// all (the glued text joined the literal's placeholder into a name the
+	// engine did not know). The caret covers the unit and what follows it.
+	{name: "unit power runs into an exponent", in: "5 mm^1e9", col: 3,
+		msg:   `the unit "mm^1" runs into "e9": put a space or an operator after a unit; a unit power is a whole number, as in m^2`,
+		caret: "  ^^^^^^"},
+	{name: "unit power runs into a name", in: "5 m^2x", col: 3,
+		msg:   `the unit "m^2" runs into "x": put a space or an operator after a unit; a unit power is a whole number, as in m^2`,
+		caret: "  ^^^^"},
+	{name: "unit power runs into a unit", in: "0A^0A", col: 2,
+		msg:   `the unit "A^0" runs into "A": put a space or an operator after a unit; a unit power is a whole number, as in m^2`,
+		caret: " ^^^^"},
+	{name: "unit after a bracket runs into a letter", in: "(1) m^2e", col: 5,
+		msg:   `the unit "m^2" runs into "e": put a space or an operator after a unit; a unit power is a whole number, as in m^2`,
+		caret: "    ^^^^"},
+	{name: "unit runs into a name after a parenthesis", in: "5 m/(s)x", col: 3,
+		msg:   `the unit "m/(s)" runs into "x": put a space or an operator after a unit`,
+		caret: "  ^^^^^^"},
+	// The decimal exponent once wrapped around when the unit's power of
+	// ten (km: 10^3) was added, giving 0 m.
+	{name: "exponent near the int64 limit", in: "1e9223372036854775805 km", col: 1,
+		msg:   `number "1e9223372036854775805" is too large`,
+		caret: "^^^^^^^^^^^^^^^^^^^^^^^^"},
+	{name: "exponent beyond int64", in: "2e99999999999999999999 mm", col: 1,
+		msg:   `number "2e99999999999999999999" is too large`,
+		caret: "^^^^^^^^^^^^^^^^^^^^^^^^^"},
+	// A lone carriage return is not a line ending; it is shown as a space.
+	{name: "lone carriage return", in: "1 m\r2 m", col: 4,
+		msg:   `a carriage return (CR) in the middle of a line; lines end with LF or CR LF`,
+		caret: "   ^"},
+	// The engine's message names a literal as it was written, not by its
+	// placeholder.
+	{name: "two literals without an operator", in: "1 m 2 m", col: 5,
+		msg:   `syntax error: unexpected "2 m"`,
+		caret: "    ^"},
+	// The engine reads name(...) as its own list operation for these
+	// names (the list is the engine's builtins that take a predicate).
+	{name: "function named like a list operation", in: "sum(x) = x", col: 1,
+		msg:   `sum cannot name a function: the expression syntax reserves sum(...) for itself, so it could never be called; choose another name, such as sum_of`,
+		caret: "^^^"},
+	{name: "function value named like a list operation", in: "map = sin", col: 1,
+		msg:   `map cannot name a function: the expression syntax reserves map(...) for itself, so it could never be called; choose another name, such as map_of`,
+		caret: "^^^"},
+	{name: "call of a list operation", in: "count(2)", col: 1,
+		msg:   `count(...) is reserved by the expression syntax and cannot be called here`,
+		caret: "^^^^^"},
+	// Limits of one statement (lang.MaxNesting).
+	{name: "prefix operators beyond the limit", in: strings.Repeat("-", 201) + "1", col: 1,
+		msg:   `more than 200 prefix operators (- + ! not) follow one another, the most Loopwise allows`,
+		caret: strings.Repeat("^", 60)},
 }
 
 // leaks are texts that must never reach a user: signs of a Go panic, Go
@@ -379,7 +431,15 @@ func TestErrorMessages(t *testing.T) {
 			if le.Pos != wantPos {
 				t.Errorf("Eval(%q) position %v, want %v", tc.in, le.Pos, wantPos)
 			}
-			src := strings.ReplaceAll(tc.in, "\t", " ")
+			src := strings.Map(func(c rune) rune {
+				if unicode.IsControl(c) {
+					return ' '
+				}
+				return c
+			}, tc.in)
+			if n := utf8.RuneCountInString(src); n > lang.ShowWidth {
+				src = string([]rune(src)[:lang.ShowWidth]) + lang.Ellipsis
+			}
 			want := fmt.Sprintf("t.lw:3:%d: %s\n    %s\n    %s", tc.col, tc.msg, src, tc.caret)
 			if got := err.Error(); got != want {
 				t.Errorf("Eval(%q) error\n got: %s\nwant: %s", tc.in, got, want)

@@ -45,6 +45,12 @@ var validStatements = []string{
 	"5 °C/s",
 	"5 m^",
 	"1 Qm + 1 qm",
+	"5 mm^1e9",
+	"0A^0A",
+	"(1) m^2e",
+	"1e9223372036854775805 km",
+	"1 m\r2 m",
+	"count = 3",
 }
 
 // FuzzEval checks that Eval never panics and that every error it returns is
@@ -61,8 +67,18 @@ func FuzzEval(f *testing.F) {
 	f.Fuzz(func(t *testing.T, in string) {
 		s := newTestSession(t, nil)
 		base := lang.Pos{File: "t.lw", Line: 3, Col: 1}
-		_, err := s.Eval(base, in)
-		if err == nil || errors.Is(err, runtime.ErrNotSessionCommand) {
+		res, err := s.Eval(base, in)
+		if err == nil {
+			// a statement gives a value or an error, never nothing
+			if k := res.Stmt.Kind; (k == lang.Expr || k == lang.Assign) && res.Value == nil {
+				t.Fatalf("Eval(%q) gave no value and no error", in)
+			}
+			if k := res.Stmt.Kind; (k == lang.Expr || k == lang.Assign) && strings.Contains(res.Text, "nil") {
+				t.Fatalf("Eval(%q) shows %q", in, res.Text)
+			}
+			return
+		}
+		if errors.Is(err, runtime.ErrNotSessionCommand) {
 			return
 		}
 		var le *lang.Error
@@ -70,7 +86,10 @@ func FuzzEval(f *testing.F) {
 			t.Fatalf("Eval(%q) error %T %q is not a *lang.Error", in, err, err)
 		}
 		if strings.Contains(le.Msg, "internal error") {
-			t.Fatalf("Eval(%q) recovered a panic: %v", in, err)
+			t.Fatalf("Eval(%q) recovered a panic or met a guard: %v", in, err)
+		}
+		if leaksName(le.Msg) {
+			t.Fatalf("Eval(%q) message shows an internal __ name: %v", in, err)
 		}
 		// A statement continued over lines (it holds newlines) reports on
 		// the line where the error is, counted from base.
