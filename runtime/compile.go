@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"regexp"
+	"sort"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -53,9 +54,16 @@ var reservedCalls = func() map[string]bool {
 	return m
 }()
 
-// ReservedCall reports whether name cannot be called as a function because
-// the expression syntax reserves name(...).
-func ReservedCall(name string) bool { return reservedCalls[name] }
+// ReservedCalls lists, sorted, the names that cannot name a function
+// because the expression syntax reserves name(...) for itself.
+func ReservedCalls() []string {
+	out := make([]string, 0, len(reservedCalls))
+	for n := range reservedCalls {
+		out = append(out, n)
+	}
+	sort.Strings(out)
+	return out
+}
 
 var binaryOps = map[string]string{
 	"+": "__add", "-": "__sub", "*": "__mul", "/": "__div", "%": "__mod",
@@ -254,6 +262,9 @@ func (v *patcher) Visit(node *ast.Node) {
 		ast.Patch(node, call(fnComp, n.Node, &ast.ConstantNode{Value: i}))
 	case *ast.ConstantNode, *ast.BoolNode, *ast.StringNode:
 	case *ast.BuiltinNode:
+		// the cause of any error met in its arguments (a predicate's
+		// closure, say), so it replaces that error
+		v.err = nil
 		v.fail(n, "%s(...) is reserved by the expression syntax and cannot be called here", n.Name)
 	default:
 		v.fail(*node, "this syntax is not part of the Loopwise language")

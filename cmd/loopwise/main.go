@@ -258,7 +258,7 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		if err != nil {
 			var le *lang.Error
 			var none *runtime.NoStatementsError
-			if !errors.As(err, &le) && !errors.As(err, &none) {
+			if !errors.As(err, &le) && !errors.As(err, &none) && !strings.HasPrefix(err.Error(), f+": ") {
 				err = fmt.Errorf("%s: %w (file left unchanged)", f, err)
 			}
 			fmt.Fprintln(stderr, err)

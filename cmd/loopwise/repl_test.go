@@ -2,7 +2,12 @@ package main
 
 import (
 	"bytes"
+	"slices"
+	"strings"
 	"testing"
+
+	"loopwise/lang"
+	"loopwise/runtime"
 )
 
 // TestConsoleContinuation: a line that leaves a bracket open switches to the
@@ -38,5 +43,42 @@ func TestConsoleContinuation(t *testing.T) {
 	c.line("  4 m, 0 m]")
 	if got := out.String(); got != "w = 2 m\nu = [3, 4, 0] m\n" {
 		t.Errorf("printed %q", got)
+	}
+}
+
+// TestPipeLongLines: piped input is read line by line whatever the length
+// of a line (a line longer than the reader's buffer once stopped reading
+// with "token too long" and ignored every later line). A line longer than
+// a statement may be is reported with its line number and skipped, and
+// reading goes on; a byte-order mark before the first line is skipped.
+func TestPipeLongLines(t *testing.T) {
+	in := runtime.ByteOrderMark + "x = 1 m\r\n" +
+		strings.Repeat("(", 500_000) + "1" + strings.Repeat(")", 500_000) + "\n" +
+		"y = 2*x\n" +
+		strings.Repeat("-", 1_000_000) + "1\n" +
+		"v = [1 m,\n" + strings.Repeat("a", 3*lang.MaxLineBytes) + "\n" +
+		"z = " + strings.Repeat("b", 99_000) + "\n" +
+		"x + y" // no line ending at the end
+	var out, errOut bytes.Buffer
+	code := run(nil, strings.NewReader(in), &out, &errOut)
+	if code != 1 {
+		t.Errorf("exit status %d, want 1 (lines failed)", code)
+	}
+	if got, want := out.String(), "x = 1 m\ny = 2 m\n3 m\n"; got != want {
+		t.Errorf("stdout %q, want %q", got, want)
+	}
+	var at []string
+	for _, l := range strings.Split(errOut.String(), "\n") {
+		if i := strings.Index(l, ": "); i > 0 && !strings.HasPrefix(l, " ") {
+			at = append(at, l[:i])
+		}
+	}
+	// line 2 and 4: too long; line 5 opens a vector that line 6 (too long)
+	// cuts off, so it reports its open bracket; line 7: an unknown name.
+	if want := []string{"2:100001", "4:100001", "5:5", "6:100001", "7:5"}; !slices.Equal(at, want) {
+		t.Errorf("errors at %v, want %v:\n%s", at, want, errOut.String())
+	}
+	if n := errOut.Len(); n > 3000 {
+		t.Errorf("%d bytes of messages for five errors", n)
 	}
 }
