@@ -96,8 +96,8 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 		}
 		e := unitWordEnd(r, k)
 		word := string(r[k:e])
-		if Keywords[word] {
-			return -1, -1, nil
+		if Keywords[word] || strings.HasPrefix(word, "__") {
+			return -1, -1, nil // "__" names are refused where they stand
 		}
 		if !units.IsUnit(word) {
 			return k, e, nil // caller decides

@@ -382,11 +382,13 @@ var leaks = []string{
 
 // leaksName reports whether msg shows a name starting with "__" (a
 // placeholder such as __L0 or an engine function such as __add). The
-// message about reserved names quotes the bare prefix "__", which is fine.
+// message about reserved names quotes the bare prefix "__", which is fine,
+// and so is a user's name with "__" inside it (A__0).
 func leaksName(msg string) bool {
+	isWord := func(c byte) bool { return c == '_' || unicode.IsLetter(rune(c)) || unicode.IsDigit(rune(c)) }
 	for i := strings.Index(msg, "__"); i >= 0; {
 		rest := msg[i+2:]
-		if rest != "" && (rest[0] == '_' || unicode.IsLetter(rune(rest[0])) || unicode.IsDigit(rune(rest[0]))) {
+		if rest != "" && isWord(rest[0]) && (i == 0 || !isWord(msg[i-1])) {
 			return true
 		}
 		j := strings.Index(rest, "__")

@@ -219,3 +219,39 @@ func TestByteOrderMark(t *testing.T) {
 		t.Errorf("Record = %q, want %q", out, want)
 	}
 }
+
+// TestWriteErrorNamesTheFile: an error of writing a script names the file,
+// never the temporary file it is written through.
+func TestWriteErrorNamesTheFile(t *testing.T) {
+	dir := t.TempDir()
+	target := filepath.Join(dir, "adir.lw")
+	if err := os.Mkdir(target, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	err := runtime.WriteFileAtomic(target, []byte("x"))
+	if err == nil {
+		t.Fatal("writing over a directory succeeded")
+	}
+	if msg := err.Error(); !strings.HasPrefix(msg, "write "+target+": ") || strings.Contains(msg, ".tmp") {
+		t.Errorf("error %q, want it to name %s only", msg, target)
+	}
+	err = runtime.WriteFileAtomic(filepath.Join(dir, "missing", "x.lw"), []byte("x"))
+	if err == nil || strings.Contains(err.Error(), ".tmp") || strings.Contains(err.Error(), "*") {
+		t.Errorf("error %v names a temporary file", err)
+	}
+}
+
+// TestExpressionParts: the engine's node limit (runtime.MaxExprNodes) is
+// reported in words, without the engine's wording.
+func TestExpressionParts(t *testing.T) {
+	s := newTestSession(t, nil)
+	_, err := s.Eval(lang.Pos{File: "t.lw", Line: 3, Col: 1}, strings.Repeat("1+", runtime.MaxExprNodes)+"1")
+	if err == nil || !strings.Contains(err.Error(), "this expression has more than 10000 parts (numbers, names, operators), the most one statement may have") {
+		t.Errorf("got %v", err)
+	}
+	// well below the limit
+	res, err := s.Eval(lang.Pos{File: "t.lw", Line: 3, Col: 1}, strings.Repeat("1+", 1000)+"1")
+	if err != nil || res.Text != "1001" {
+		t.Errorf("a sum of 1001 ones: %v, %v", res, err)
+	}
+}

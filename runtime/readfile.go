@@ -1,6 +1,7 @@
 package runtime
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"io/fs"
@@ -92,4 +93,20 @@ func mib(n int64) string {
 		return fmt.Sprintf("%d MiB", n>>20)
 	}
 	return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
+}
+
+// hideTempName rewrites an error of writing path through a temporary file
+// so that it names path: the temporary name is ours, not the user's.
+func hideTempName(path string, err error) error {
+	var pe *fs.PathError
+	var le *os.LinkError
+	switch {
+	case err == nil:
+		return nil
+	case errors.As(err, &pe):
+		return &fs.PathError{Op: "write", Path: path, Err: pe.Err}
+	case errors.As(err, &le):
+		return &fs.PathError{Op: "write", Path: path, Err: le.Err}
+	}
+	return err
 }

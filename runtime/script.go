@@ -823,7 +823,7 @@ func WriteFileAtomic(path string, data []byte) error {
 	}
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
 	if err != nil {
-		return err
+		return hideTempName(path, err)
 	}
 	name := tmp.Name()
 	_, werr := tmp.Write(data)
@@ -840,7 +840,7 @@ func WriteFileAtomic(path string, data []byte) error {
 	if werr != nil {
 		os.Remove(name)
 	}
-	return werr
+	return hideTempName(path, werr)
 }
 
 // ExpandPaths turns a list of files and directories into script files:

@@ -3,8 +3,12 @@ package main
 import (
 	"bytes"
 	"os"
+	"slices"
+	"sort"
 	"strings"
 	"testing"
+
+	"loopwise/runtime"
 )
 
 // TestReadmeTour replays the prompt transcript in README.md's tour, so the
@@ -38,5 +42,29 @@ func TestReadmeTour(t *testing.T) {
 	}
 	if got.String() != want.String() {
 		t.Errorf("README tour differs from the program.\n--- README\n%s--- program\n%s", want.String(), got.String())
+	}
+}
+
+// TestReadmeReservedNames: the README lists exactly the names the
+// expression syntax reserves for calls (taken from the engine).
+func TestReadmeReservedNames(t *testing.T) {
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, after, ok := strings.Cut(string(data), "The names `all`")
+	if !ok {
+		t.Fatal("README does not list the reserved names")
+	}
+	para, _, _ := strings.Cut("`all`"+after, "\n\n")
+	var listed []string
+	for _, f := range strings.Split(para, "`")[1:] {
+		if f != "" && !strings.ContainsAny(f, " ,\n") {
+			listed = append(listed, f)
+		}
+	}
+	sort.Strings(listed)
+	if want := runtime.ReservedCalls(); !slices.Equal(listed, want) {
+		t.Errorf("README lists %v, the engine reserves %v", listed, want)
 	}
 }
