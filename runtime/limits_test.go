@@ -255,3 +255,17 @@ func TestExpressionParts(t *testing.T) {
 		t.Errorf("a sum of 1001 ones: %v, %v", res, err)
 	}
 }
+
+// TestParseUnitNesting: the unit parser stops at lang.MaxNesting levels of
+// parentheses on its own (it is also called for :help and "as" units).
+func TestParseUnitNesting(t *testing.T) {
+	deep := func(n int) string { return "m/" + strings.Repeat("(", n) + "s" + strings.Repeat(")", n) }
+	if _, err := runtime.ParseUnit(deep(lang.MaxNesting)); err != nil {
+		t.Errorf("%d levels: %v", lang.MaxNesting, err)
+	}
+	_, err := runtime.ParseUnit(deep(2_000_000))
+	var ue *runtime.UnitError
+	if !errors.As(err, &ue) || ue.Off != 2+lang.MaxNesting || ue.Msg != "parentheses in a unit nest deeper than 200 levels" {
+		t.Errorf("2 000 000 levels: %#v", err)
+	}
+}
