@@ -54,6 +54,23 @@ var reservedCalls = func() map[string]bool {
 	return m
 }()
 
+// reservedCallAt finds a reserved name followed by "(" in rewritten text.
+var reservedCallAt = func() *regexp.Regexp {
+	return regexp.MustCompile(`(^|[^\p{L}\p{N}_.])(` + strings.Join(ReservedCalls(), "|") + `)\s*\(`)
+}()
+
+// reservedCall reports the first call of a reserved name in the program's
+// text, or nil.
+func (p *program) reservedCall() *lang.Error {
+	m := reservedCallAt.FindStringSubmatchIndex(p.rw.Src)
+	if m == nil {
+		return nil
+	}
+	name := p.rw.Src[m[4]:m[5]]
+	from := utf8.RuneCountInString(p.rw.Src[:m[4]])
+	return p.errorAt(file.Location{From: from, To: from + len(name)}, fmt.Sprintf("%s(...) is reserved by the expression syntax and cannot be called here", name))
+}
+
 // ReservedCalls lists, sorted, the names that cannot name a function
 // because the expression syntax reserves name(...) for itself.
 func ReservedCalls() []string {
@@ -352,6 +369,9 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 		return nil, pt.err
 	}
 	if err != nil {
+		if e := p.reservedCall(); e != nil {
+			return nil, e // the parser's own complaint about sum(...) would puzzle
+		}
 		return nil, p.engineError(err, true)
 	}
 	p.prog = prog

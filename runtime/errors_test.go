@@ -366,6 +366,10 @@ var errorCases = []errorCase{
 	{name: "call of a list operation", in: "count(2)", col: 1,
 		msg:   `count(...) is reserved by the expression syntax and cannot be called here`,
 		caret: "^^^^^"},
+	// The engine's parser would say "expected at least 2 arguments".
+	{name: "call of a list operation with one argument", in: "2 m + map (gap)", col: 7,
+		msg:   `map(...) is reserved by the expression syntax and cannot be called here`,
+		caret: "      ^^^"},
 	// Limits of one statement (lang.MaxNesting).
 	{name: "prefix operators beyond the limit", in: strings.Repeat("-", 201) + "1", col: 1,
 		msg:   `more than 200 prefix operators (- + ! not) follow one another, the most Loopwise allows`,
