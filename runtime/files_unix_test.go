@@ -40,4 +40,3 @@ func TestWriteFileKeepsOwner(t *testing.T) {
 		t.Errorf("owner %d:%d, want 4321:4322", st.Uid, st.Gid)
 	}
 }
-
