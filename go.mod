@@ -3,6 +3,7 @@ module loopwise
 go 1.26.8
 
 require (
+	github.com/creack/pty v1.1.24
 	github.com/expr-lang/expr v1.17.8
 	github.com/peterh/liner v1.2.3
 	github.com/rogpeppe/go-internal v1.16.0
@@ -12,7 +13,6 @@ require (
 
 require (
 	github.com/clipperhouse/uax29/v2 v2.7.0 // indirect
-	github.com/creack/pty v1.1.24 // indirect
 	github.com/mattn/go-runewidth v0.0.31 // indirect
 	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/tools v0.30.0 // indirect

@@ -17,7 +17,13 @@ var update = flag.Bool("update", false, "rewrite the golden files in testdata/cl
 
 // TestMain registers the command so scripts can run it as "loopwise": the
 // test binary re-executes itself under that name.
+//
+// With runMainEnv set the test binary is the command itself: the terminal
+// tests start it on a pseudo-terminal that way.
 func TestMain(m *testing.M) {
+	if os.Getenv(runMainEnv) == "1" {
+		os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+	}
 	testscript.Main(m, map[string]func(){
 		"loopwise": func() { os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)) },
 	})
