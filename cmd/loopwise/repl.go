@@ -230,7 +230,7 @@ func (c *console) save(st *lang.Statement) {
 		c.fail(st.Errorf(0, 5, "cannot save: %v", errors.Unwrap(err)))
 		return
 	}
-	fmt.Fprintf(c.out, "saved %d statements to %s\n", len(c.s.Transcript), path)
+	fmt.Fprintf(c.out, "saved %d statement%s to %s\n", len(c.s.Transcript), plural(len(c.s.Transcript)), path)
 }
 
 // fileArg reads the file name given to :save or :load: quotes around it

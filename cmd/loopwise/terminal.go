@@ -165,18 +165,9 @@ func openHistory(ln *liner.State, dir string) *history {
 	}
 	path := filepath.Join(dir, "history")
 	if data, err := os.ReadFile(path); err == nil {
-		all := strings.Split(strings.TrimSuffix(string(data), "\n"), "\n")
-		var kept []string
-		for _, l := range all {
-			if l != "" && len(l) <= maxHistoryLine && utf8.ValidString(l) {
-				kept = append(kept, l)
-			}
-		}
-		if len(kept) > liner.HistoryLimit {
-			kept = kept[len(kept)-liner.HistoryLimit:]
-		}
+		kept, changed := historyLines(string(data))
 		ln.ReadHistory(strings.NewReader(strings.Join(kept, "\n")))
-		if len(kept) != len(all) {
+		if changed {
 			runtime.WriteFileAtomic(path, []byte(strings.Join(kept, "\n")+"\n"))
 		}
 	}
@@ -185,6 +176,21 @@ func openHistory(ln *liner.State, dir string) *history {
 	}
 	h.f, _ = os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_APPEND, 0o600)
 	return h
+}
+
+// historyLines keeps the last liner.HistoryLimit lines of a history file
+// that liner can read back; changed says the file should be rewritten.
+func historyLines(data string) (kept []string, changed bool) {
+	all := strings.Split(strings.TrimSuffix(data, "\n"), "\n")
+	for _, l := range all {
+		if l != "" && len(l) <= maxHistoryLine && utf8.ValidString(l) {
+			kept = append(kept, l)
+		}
+	}
+	if len(kept) > liner.HistoryLimit {
+		kept = kept[len(kept)-liner.HistoryLimit:]
+	}
+	return kept, len(kept) != len(all)
 }
 
 func (h *history) add(line string) {
