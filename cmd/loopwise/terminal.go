@@ -78,8 +78,10 @@ func terminalLoop(c *console) int {
 			c.drop() // Ctrl-C drops the line, and a statement left open, keeps the session
 			continue
 		}
-		if err != nil { // io.EOF on Ctrl-D
-			fmt.Fprintln(c.out)
+		if err != nil { // io.EOF on Ctrl-D, and when the terminal hangs up
+			if _, werr := fmt.Fprintln(c.out); werr != nil {
+				return 129 // the terminal is gone: not a clean exit, keep the journal
+			}
 			c.finish()
 			jr.remove()
 			return 0

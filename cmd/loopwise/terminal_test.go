@@ -275,3 +275,34 @@ func TestPromptRestoreAfterKill(t *testing.T) {
 		t.Errorf("set aside:\n%s\nwant it to end with\n%s", aside, want)
 	}
 }
+
+// TestPromptHangupKeepsJournal: a terminal that goes away (its window
+// closed) is not a clean exit: the journal stays for the next start.
+func TestPromptHangupKeepsJournal(t *testing.T) {
+	dir, state := t.TempDir(), t.TempDir()
+	tm := startTerm(t, state, dir)
+	tm.expect(`lw> `)
+	tm.send("kept = 3 V\r")
+	tm.expect(`kept = 3 V\n`)
+	tm.expect(`lw> `)
+	// What the terminal driver sends when the terminal goes away. (The
+	// master side of the pseudo-terminal cannot be closed here
+	// while the reader goroutine blocks on it.)
+	if err := tm.cmd.Process.Signal(syscall.SIGHUP); err != nil {
+		t.Fatal(err)
+	}
+	if code := tm.exitCode(); code == 0 {
+		t.Errorf("after a hangup the exit status is 0, as for a clean exit")
+	}
+	j := journals(t, state)
+	if len(j) != 1 {
+		t.Fatalf("journals after a hangup: %v, want one", j)
+	}
+	data, err := os.ReadFile(j[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := journalStatements(string(data)); len(got) != 1 || got[0] != "kept = 3 V" {
+		t.Errorf("the journal holds %q", got)
+	}
+}
