@@ -2,8 +2,10 @@ package main
 
 import (
 	"fmt"
+	"os"
 	"reflect"
 	"strings"
+	"syscall"
 	"testing"
 
 	"github.com/peterh/liner"
@@ -48,5 +50,29 @@ func TestHistoryLines(t *testing.T) {
 	}
 	if _, changed := historyLines("a = 1 m\nc = 2 m\n"); changed {
 		t.Errorf("a short clean history would be rewritten")
+	}
+}
+
+// TestInterrupter: Ctrl-C outside a statement does nothing (at the prompt
+// it is a key); during one, the first stops it, the second stops and
+// warns, the third leaves; a new statement counts afresh; SIGTERM leaves.
+func TestInterrupter(t *testing.T) {
+	var ir interrupter
+	if a := ir.on(os.Interrupt); a != ignore {
+		t.Errorf("at the prompt: %v, want ignore", a)
+	}
+	ir.begin()
+	for i, want := range []sigAction{stop, stopAndWarn, leave} {
+		if a := ir.on(os.Interrupt); a != want {
+			t.Errorf("Ctrl-C number %d: %v, want %v", i+1, a, want)
+		}
+	}
+	ir.end()
+	ir.begin()
+	if a := ir.on(os.Interrupt); a != stop {
+		t.Errorf("first Ctrl-C of the next statement: %v, want stop", a)
+	}
+	if a := ir.on(syscall.SIGTERM); a != leave {
+		t.Errorf("SIGTERM: %v, want leave", a)
 	}
 }

@@ -13,6 +13,9 @@ import (
 	"github.com/rogpeppe/go-internal/testscript"
 )
 
+// runMainEnv makes the test binary run the command (see TestMain).
+const runMainEnv = "LOOPWISE_TEST_RUN_MAIN"
+
 var update = flag.Bool("update", false, "rewrite the golden files in testdata/cli from the actual output")
 
 // TestMain registers the command so scripts can run it as "loopwise": the

@@ -42,33 +42,28 @@ func terminalLoop(c *console) int {
 	jr := &journal{dir: dir}
 	offerRestore(ln, c, jr)
 
-	var running atomic.Bool
-	var presses atomic.Int32
+	var ir interrupter
 	sigs := make(chan os.Signal, 8)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
 	defer signal.Stop(sigs)
 	go func() {
 		for sig := range sigs {
-			if sig == os.Interrupt {
-				if !running.Load() {
-					continue // at the prompt Ctrl-C is a key, not a signal
-				}
+			switch ir.on(sig) {
+			case ignore:
+			case stop:
 				c.s.Interrupt()
-				n := presses.Add(1)
-				if n == leaveAfter-1 {
-					fmt.Fprintf(c.errOut, "\nstill stopping; Ctrl-C once more leaves Loopwise (the journal keeps this session)\n")
+			case stopAndWarn:
+				c.s.Interrupt()
+				fmt.Fprintf(c.errOut, "\nstill stopping; Ctrl-C once more leaves Loopwise (the journal keeps this session)\n")
+			case leave:
+				ln.Close() // give the terminal back as it was
+				fmt.Fprintf(c.errOut, "\nloopwise: %v; the journal keeps this session for the next start\n", sig)
+				code := 128 + 2
+				if s, ok := sig.(syscall.Signal); ok {
+					code = 128 + int(s)
 				}
-				if n < leaveAfter {
-					continue
-				}
+				os.Exit(code)
 			}
-			ln.Close() // give the terminal back as it was
-			fmt.Fprintf(c.errOut, "\nloopwise: %v; the journal keeps this session for the next start\n", sig)
-			code := 128 + 2
-			if s, ok := sig.(syscall.Signal); ok {
-				code = 128 + int(s)
-			}
-			os.Exit(code)
 		}
 	}()
 
@@ -89,10 +84,9 @@ func terminalLoop(c *console) int {
 		if strings.TrimSpace(text) != "" {
 			hist.add(text)
 		}
-		presses.Store(0)
-		running.Store(true)
+		ir.begin()
 		quit := c.line(text)
-		running.Store(false)
+		ir.end()
 		if err := jr.update(c.s.Transcript); err != nil {
 			fmt.Fprintln(c.errOut, "loopwise:", err)
 		}
@@ -101,6 +95,43 @@ func terminalLoop(c *console) int {
 			return 0
 		}
 	}
+}
+
+// interrupter decides what a signal does: at the prompt liner reads
+// Ctrl-C as a key, so SIGINT only comes from outside and is ignored; while
+// a statement runs the first Ctrl-C stops it, the second also warns, and
+// the leaveAfter-th leaves. Any other signal leaves.
+type interrupter struct {
+	running atomic.Bool
+	presses atomic.Int32
+}
+
+type sigAction int
+
+const (
+	ignore sigAction = iota
+	stop
+	stopAndWarn
+	leave
+)
+
+func (ir *interrupter) begin() { ir.presses.Store(0); ir.running.Store(true) }
+func (ir *interrupter) end()   { ir.running.Store(false) }
+
+func (ir *interrupter) on(sig os.Signal) sigAction {
+	if sig != os.Interrupt {
+		return leave
+	}
+	if !ir.running.Load() {
+		return ignore
+	}
+	switch n := ir.presses.Add(1); {
+	case n >= leaveAfter:
+		return leave
+	case n == leaveAfter-1:
+		return stopAndWarn
+	}
+	return stop
 }
 
 // offerRestore asks, for each journal a crashed prompt left, whether to

@@ -18,9 +18,6 @@ import (
 	"github.com/creack/pty"
 )
 
-// runMainEnv makes the test binary run the command (see TestMain).
-const runMainEnv = "LOOPWISE_TEST_RUN_MAIN"
-
 // hangGuard bounds every wait on the terminal. It only keeps a broken
 // prompt from hanging the test; nothing here measures speed.
 const hangGuard = 30 * time.Second
@@ -249,6 +246,10 @@ func TestPromptRestoreAfterKill(t *testing.T) {
 	tm.expect(`extra = 5 A\n`)
 	if j := journals(t, state); len(j) != 1 {
 		t.Fatalf("after restoring, journals %v, want only the new one", j)
+	}
+	// A prompt that runs beside this one is not offered its journal.
+	if s := staleJournals(state); len(s) != 0 {
+		t.Errorf("the running prompt's journal is offered: %v", s)
 	}
 	tm.cmd.Process.Signal(syscall.SIGKILL)
 	tm.exitCode()
