@@ -203,11 +203,14 @@ func journalStatements(text string) []string {
 	return out
 }
 
-// restore evaluates a journal's statements quietly into the session; it
-// returns how many succeeded and the first error.
-func restore(s *runtime.Session, stmts []string) (ok int, first error) {
+// restore evaluates a journal's statements quietly into the session, until
+// stopped says to stop; it returns how many succeeded and the first error.
+func restore(s *runtime.Session, stmts []string, stopped func() bool) (ok int, first error) {
 	line := 1
 	for _, text := range stmts {
+		if stopped() {
+			break
+		}
 		st, err := lang.ParseStatement(lang.Pos{File: "journal", Line: line, Col: 1}, text)
 		if err == nil {
 			_, err = s.Exec(st)

@@ -40,8 +40,6 @@ func terminalLoop(c *console) int {
 	defer hist.close()
 	fmt.Fprintln(c.out, "Loopwise — induction calculations with units. :help for help, Ctrl-D to leave.")
 	jr := &journal{dir: dir}
-	offerRestore(ln, c, jr)
-
 	var ir interrupter
 	sigs := make(chan os.Signal, 8)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
@@ -66,6 +64,7 @@ func terminalLoop(c *console) int {
 			}
 		}
 	}()
+	offerRestore(ln, c, jr, &ir)
 
 	for {
 		text, err := ln.Prompt(c.prompt())
@@ -118,6 +117,9 @@ const (
 func (ir *interrupter) begin() { ir.presses.Store(0); ir.running.Store(true) }
 func (ir *interrupter) end()   { ir.running.Store(false) }
 
+// stopped reports whether Ctrl-C came since begin.
+func (ir *interrupter) stopped() bool { return ir.presses.Load() > 0 }
+
 func (ir *interrupter) on(sig os.Signal) sigAction {
 	if sig != os.Interrupt {
 		return leave
@@ -136,7 +138,8 @@ func (ir *interrupter) on(sig os.Signal) sigAction {
 
 // offerRestore asks, for each journal a crashed prompt left, whether to
 // restore it into this session.
-func offerRestore(ln *liner.State, c *console, jr *journal) {
+// Ctrl-C stops a restore; the journal is then set aside whole.
+func offerRestore(ln *liner.State, c *console, jr *journal, ir *interrupter) {
 	for _, old := range staleJournals(jr.dir) {
 		fmt.Fprintf(c.errOut, "A session of %s did not end cleanly; its journal holds %d statement%s.\n",
 			old.mod.Format("2006-01-02 15:04"), len(old.stmts), plural(len(old.stmts)))
@@ -148,9 +151,20 @@ func offerRestore(ln *liner.State, c *console, jr *journal) {
 			}
 			switch strings.ToLower(strings.TrimSpace(answer)) {
 			case "y", "yes":
-				n, first := restore(c.s, old.stmts)
+				ir.begin()
+				n, first := restore(c.s, old.stmts, ir.stopped)
+				ir.end()
 				if err := jr.update(c.s.Transcript); err != nil {
 					fmt.Fprintln(c.errOut, "loopwise:", err)
+				}
+				if ir.stopped() {
+					fmt.Fprintf(c.errOut, "restoring stopped by Ctrl-C after %d of %d statements\n", n, len(old.stmts))
+					if p, err := setAside(jr.dir, old); err != nil {
+						fmt.Fprintf(c.errOut, "loopwise: %v; the journal stays for the next start\n", err)
+					} else {
+						fmt.Fprintf(c.errOut, "the whole journal is set aside as %s\n", p)
+					}
+					return
 				}
 				os.Remove(old.path)
 				if first != nil {

@@ -4,6 +4,7 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"io"
 	"os"
 	"os/exec"
@@ -305,5 +306,44 @@ func TestPromptHangupKeepsJournal(t *testing.T) {
 	}
 	if got := journalStatements(string(data)); len(got) != 1 || got[0] != "kept = 3 V" {
 		t.Errorf("the journal holds %q", got)
+	}
+}
+
+// TestPromptRestoreStoppedByCtrlC: Ctrl-C during a long restore stops it
+// after the statements done so far, and the whole journal is set aside as
+// a script rather than lost.
+func TestPromptRestoreStoppedByCtrlC(t *testing.T) {
+	dir, state := t.TempDir(), t.TempDir()
+	ended := exec.Command(os.Args[0], "-test.run=^$")
+	if err := ended.Run(); err != nil {
+		t.Skip("cannot start a process:", err)
+	}
+	name := filepath.Join(state, fmt.Sprintf("%s%d-1%s", journalPrefix, ended.Process.Pid, journalExt))
+	body := journalHeader + "a = 1 m\nfib(n) = n < 2 ? n : fib(n-1) + fib(n-2)\nslow = fib(40)\nb = 2 m\n"
+	if err := os.WriteFile(name, []byte(body), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	tm := startTerm(t, state, dir)
+	tm.expect(`its journal holds 4 statements\.`)
+	tm.send("y\r")
+	time.Sleep(300 * time.Millisecond)
+	tm.send("\x03")
+	tm.expect(`restoring stopped by Ctrl-C after 2 of 4 statements`)
+	tm.expect(`the whole journal is set aside as .*declined\.lw`)
+	tm.expect(`lw> `)
+	tm.send("a\r")
+	tm.expect(`\n1 m\n`)
+	tm.send("b\r")
+	tm.expect(`unknown name`)
+	tm.send("\x04")
+	if code := tm.exitCode(); code != 0 {
+		t.Errorf("Ctrl-D: exit %d", code)
+	}
+	aside, err := os.ReadFile(filepath.Join(state, declinedName))
+	if err != nil || !strings.Contains(string(aside), "slow = fib(40)\nb = 2 m\n```\n") {
+		t.Errorf("set aside: %q, %v", aside, err)
+	}
+	if j := journals(t, state); len(j) != 0 {
+		t.Errorf("journals left: %v", j)
 	}
 }
