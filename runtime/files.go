@@ -114,6 +114,12 @@ func WriteFile(path string, data []byte, overwrite bool) error {
 			werr = os.Link(name, path)
 			if errors.Is(werr, fs.ErrExist) {
 				werr = ErrExists
+			} else if werr != nil {
+				// a file system without hard links: check, then rename
+				werr = ErrExists
+				if _, err := os.Lstat(path); errors.Is(err, fs.ErrNotExist) {
+					werr = os.Rename(name, path)
+				}
 			}
 		}
 	}
