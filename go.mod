@@ -3,6 +3,7 @@ module loopwise
 go 1.26.8
 
 require (
+	github.com/creack/pty v1.1.24
 	github.com/expr-lang/expr v1.17.8
 	github.com/peterh/liner v1.2.3
 	github.com/rogpeppe/go-internal v1.16.0

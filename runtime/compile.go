@@ -476,6 +476,9 @@ func (s *Session) callFunc(p ...any) (any, error) {
 	for i, a := range p[1:] {
 		args[i] = normalize(a)
 	}
+	if err := s.Err(); err != nil { // interrupted: stop between calls
+		return nil, err
+	}
 	s.depth++
 	defer func() { s.depth-- }()
 	if s.depth > maxDepth {

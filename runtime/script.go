@@ -808,41 +808,6 @@ func (sc *Script) Record(s *Session) ([]byte, error) {
 	return out, nil
 }
 
-// WriteFileAtomic writes data to path through a temporary file in the same
-// directory and a rename, so the file is either old or new, never half. An
-// existing file keeps its permissions; a symbolic link stays a link and its
-// target is written.
-func WriteFileAtomic(path string, data []byte) error {
-	if target, err := filepath.EvalSymlinks(path); err == nil {
-		path = target
-	}
-	dir := filepath.Dir(path)
-	mode := fs.FileMode(0o644)
-	if fi, err := os.Stat(path); err == nil {
-		mode = fi.Mode().Perm()
-	}
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return hideTempName(path, err)
-	}
-	name := tmp.Name()
-	_, werr := tmp.Write(data)
-	cerr := tmp.Close()
-	if werr == nil {
-		werr = cerr
-	}
-	if werr == nil {
-		werr = os.Chmod(name, mode)
-	}
-	if werr == nil {
-		werr = os.Rename(name, path)
-	}
-	if werr != nil {
-		os.Remove(name)
-	}
-	return hideTempName(path, werr)
-}
-
 // ExpandPaths turns a list of files and directories into script files:
 // directories are searched recursively for *.lw files, in name order.
 func ExpandPaths(args []string) ([]string, error) {

@@ -169,6 +169,10 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		return nil, err
 	}
 	v, err := s.run(p)
+	if err != nil && s.interrupted.Load() {
+		// One short message instead of the chain of calls it stopped in.
+		return nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "interrupted; nothing was changed")
+	}
 	if err != nil {
 		return nil, err
 	}

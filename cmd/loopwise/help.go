@@ -39,9 +39,11 @@ Commands
   :vars           list your variables and functions
   :units [text]   list the units (optionally only those matching text)
   :digits N       show N significant digits (default 6)
-  :save FILE      save this session as a script that replays (statements and results)
+  :save FILE      save this session as a script that replays (statements and
+                  results) in a new file; :save! FILE replaces an existing one
   :load FILE      evaluate a script into this session
-  :quit           leave (Ctrl-D also leaves; Ctrl-C clears the line)
+  :quit           leave (Ctrl-D also leaves; Ctrl-C clears the line, and
+                  stops a statement that is running)
   A statement continues on the next line while a bracket ( [ { is open; the
   prompt then shows "..  " and Ctrl-C drops the whole statement.
 

@@ -253,7 +253,12 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 			data, err = sc.Record(newSession())
 		}
 		if err == nil {
-			err = runtime.WriteFileAtomic(f, data)
+			if werr := runtime.WriteFileAtomic(f, data); werr != nil {
+				// the message names f, never the temporary file
+				fmt.Fprintf(stderr, "loopwise record: %v\n%s: left unchanged\n", werr, f)
+				status = 1
+				continue
+			}
 		}
 		if err != nil {
 			var le *lang.Error

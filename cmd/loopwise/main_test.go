@@ -13,11 +13,20 @@ import (
 	"github.com/rogpeppe/go-internal/testscript"
 )
 
+// runMainEnv makes the test binary run the command (see TestMain).
+const runMainEnv = "LOOPWISE_TEST_RUN_MAIN"
+
 var update = flag.Bool("update", false, "rewrite the golden files in testdata/cli from the actual output")
 
 // TestMain registers the command so scripts can run it as "loopwise": the
 // test binary re-executes itself under that name.
+//
+// With runMainEnv set the test binary is the command itself: the terminal
+// tests start it on a pseudo-terminal that way.
 func TestMain(m *testing.M) {
+	if os.Getenv(runMainEnv) == "1" {
+		os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+	}
 	testscript.Main(m, map[string]func(){
 		"loopwise": func() { os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)) },
 	})

@@ -47,3 +47,52 @@ func TestRecordFileHandling(t *testing.T) {
 		t.Errorf("check after record exited %d: %s%s", code, out.String(), errOut.String())
 	}
 }
+
+// TestRecordRefusesReadOnlyAndHardLink: record leaves a read-only file and
+// a file with a second hard link as they were, says why without naming a
+// temporary file, and leaves no temporary file behind.
+func TestRecordRefusesReadOnlyAndHardLink(t *testing.T) {
+	dir := t.TempDir()
+	src := "```lw\nN = 10 turns\n```\n"
+	ro := filepath.Join(dir, "ro.lw")
+	if err := os.WriteFile(ro, []byte(src), 0o444); err != nil {
+		t.Fatal(err)
+	}
+	a, b := filepath.Join(dir, "a.lw"), filepath.Join(dir, "b.lw")
+	if err := os.WriteFile(a, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	linked := os.Link(a, b) == nil
+	for _, c := range []struct {
+		path, why string
+	}{
+		{ro, "the file is read-only (make it writable first if it should change)"},
+		{a, "the file has 2 hard links, and replacing it would cut it from the others (write a copy, or remove the other links first)"},
+	} {
+		if c.path == a && !linked {
+			continue
+		}
+		var out, errOut bytes.Buffer
+		if code := run([]string{"record", c.path}, nil, &out, &errOut); code != 1 {
+			t.Errorf("record %s exited %d, want 1", c.path, code)
+		}
+		want := "loopwise record: cannot write " + c.path + ": " + c.why + "\n" + c.path + ": left unchanged\n"
+		if errOut.String() != want {
+			t.Errorf("stderr %q\nwant   %q", errOut.String(), want)
+		}
+		if got, _ := os.ReadFile(c.path); string(got) != src {
+			t.Errorf("%s changed to %q", c.path, got)
+		}
+	}
+	if linked {
+		fa, _ := os.Stat(a)
+		fb, _ := os.Stat(b)
+		if !os.SameFile(fa, fb) {
+			t.Errorf("the hard link was broken")
+		}
+	}
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 3 {
+		t.Errorf("directory holds %d entries, want the 3 files alone", len(ents))
+	}
+}

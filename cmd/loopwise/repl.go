@@ -195,31 +195,84 @@ func pow10(n int) float64 {
 	return x
 }
 
+// save writes the session as a script. ":save FILE" writes a new file and
+// refuses one that exists; ":save! FILE" replaces it. The name may be
+// quoted, may start with ~ for the home directory, and gets .lw when it has
+// no extension; a directory is refused.
 func (c *console) save(st *lang.Statement) {
-	path := strings.TrimSpace(st.Args)
+	overwrite := strings.HasPrefix(strings.TrimSpace(st.Text), ":save!")
+	arg := st.Args
+	if overwrite {
+		arg = strings.TrimSpace(strings.TrimPrefix(arg, "!"))
+	}
+	path, err := fileArg(arg)
+	if err != nil {
+		c.fail(st.Errorf(0, 5, "%v", err))
+		return
+	}
 	if path == "" {
 		c.fail(st.Errorf(0, 5, ":save needs a file name, as in :save coil.lw"))
+		return
+	}
+	if fi, err := os.Stat(path); (err == nil && fi.IsDir()) || strings.HasSuffix(path, "/") || strings.HasSuffix(path, string(filepath.Separator)) {
+		c.fail(st.Errorf(0, 5, "cannot save: %s is a directory; name a file in it, as in :save %s", path, filepath.Join(path, "session"+runtime.ScriptExt)))
 		return
 	}
 	if filepath.Ext(path) == "" {
 		path += runtime.ScriptExt
 	}
 	title := "Loopwise session of " + time.Now().Format("2006-01-02 15:04")
-	if err := runtime.WriteFileAtomic(path, runtime.SessionScript(title, c.s.Transcript)); err != nil {
-		c.fail(st.Errorf(0, 5, "cannot save: %v", err))
+	err = runtime.WriteFile(path, runtime.SessionScript(title, c.s.Transcript), overwrite)
+	if errors.Is(err, runtime.ErrExists) {
+		c.fail(st.Errorf(0, 5, "cannot save: %s exists; :save! %s replaces it", path, quoteArg(path)))
 		return
 	}
-	fmt.Fprintf(c.out, "saved %d statements to %s\n", len(c.s.Transcript), path)
+	if err != nil {
+		c.fail(st.Errorf(0, 5, "cannot save: %v", errors.Unwrap(err)))
+		return
+	}
+	fmt.Fprintf(c.out, "saved %d statement%s to %s\n", len(c.s.Transcript), plural(len(c.s.Transcript)), path)
+}
+
+// fileArg reads the file name given to :save or :load: quotes around it
+// are removed and a leading ~ is the home directory.
+func fileArg(arg string) (string, error) {
+	arg = strings.TrimSpace(arg)
+	if n := len(arg); n >= 2 && (arg[0] == '"' || arg[0] == '\'') && arg[n-1] == arg[0] {
+		arg = arg[1 : n-1]
+	} else if n >= 1 && (arg[0] == '"' || arg[0] == '\'') {
+		return "", fmt.Errorf("the file name's quote %c is not closed", arg[0])
+	}
+	if arg == "~" || strings.HasPrefix(arg, "~/") || strings.HasPrefix(arg, "~"+string(filepath.Separator)) {
+		home, err := os.UserHomeDir()
+		if err != nil {
+			return "", fmt.Errorf("cannot find the home directory for ~: %v", err)
+		}
+		arg = filepath.Join(home, arg[1:])
+	}
+	return arg, nil
+}
+
+// quoteArg quotes a file name that holds a space, as :save and :load read it.
+func quoteArg(path string) string {
+	if strings.ContainsAny(path, " \t") {
+		return `"` + path + `"`
+	}
+	return path
 }
 
 func (c *console) load(st *lang.Statement) {
-	path := strings.TrimSpace(st.Args)
+	path, err := fileArg(st.Args)
+	if err != nil {
+		c.fail(st.Errorf(0, 5, "%v", err))
+		return
+	}
 	if path == "" {
 		c.fail(st.Errorf(0, 5, ":load needs a file name, as in :load coil.lw"))
 		return
 	}
 	sc, err := load(path)
-	if err != nil && !isLangError(err) {
+	if _, positioned := lang.AsError(err); err != nil && !positioned {
 		c.fail(st.Errorf(0, 5, "cannot load: %v", err))
 		return
 	}
@@ -234,11 +287,6 @@ func (c *console) load(st *lang.Statement) {
 		c.fail(err)
 		fmt.Fprintln(c.errOut, "(statements before the error are kept)")
 	}
-}
-
-func isLangError(err error) bool {
-	_, ok := lang.AsError(err)
-	return ok
 }
 
 // repl runs the interactive prompt, or reads statements line by line when
@@ -337,14 +385,6 @@ func isTerminal(f *os.File) bool {
 	return term.IsTerminal(int(f.Fd()))
 }
 
-func historyPath() string {
-	dir, err := os.UserConfigDir()
-	if err != nil {
-		return ""
-	}
-	return filepath.Join(dir, "loopwise", "history")
-}
-
 // progressPrinter reports a long computation on w once it has run for a
 // second, rewriting one line, and clears it when done.
 func progressPrinter(w io.Writer) runtime.ProgressFunc {
@@ -367,56 +407,6 @@ func progressPrinter(w io.Writer) runtime.ProgressFunc {
 		}
 		shown = true
 		fmt.Fprintf(w, "\r%s: %d of %d points (%d%%)", label, done, total, 100*done/max(total, 1))
-	}
-}
-
-func terminalLoop(c *console) int {
-	c.s.SetProgress(progressPrinter(os.Stderr))
-	ln := liner.NewLiner()
-	defer ln.Close()
-	ln.SetCtrlCAborts(true)
-	ln.SetTabCompletionStyle(liner.TabPrints)
-	ln.SetWordCompleter(func(line string, pos int) (string, []string, string) {
-		return complete(c.s, line, pos)
-	})
-	hist := historyPath()
-	if hist != "" {
-		if f, err := os.Open(hist); err == nil {
-			ln.ReadHistory(f)
-			f.Close()
-		}
-	}
-	saveHistory := func() {
-		if hist == "" {
-			return
-		}
-		if err := os.MkdirAll(filepath.Dir(hist), 0o755); err != nil {
-			return
-		}
-		if f, err := os.Create(hist); err == nil {
-			ln.WriteHistory(f)
-			f.Close()
-		}
-	}
-	defer saveHistory()
-	fmt.Fprintln(c.out, "Loopwise — induction calculations with units. :help for help, Ctrl-D to leave.")
-	for {
-		text, err := ln.Prompt(c.prompt())
-		if errors.Is(err, liner.ErrPromptAborted) {
-			c.drop() // Ctrl-C drops the line, and a statement left open, keeps the session
-			continue
-		}
-		if err != nil { // io.EOF on Ctrl-D
-			fmt.Fprintln(c.out)
-			c.finish()
-			return 0
-		}
-		if strings.TrimSpace(text) != "" {
-			ln.AppendHistory(text)
-		}
-		if c.line(text) {
-			return 0
-		}
 	}
 }
 

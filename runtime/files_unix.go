@@ -1,0 +1,35 @@
+//go:build unix
+
+package runtime
+
+import (
+	"errors"
+	"io/fs"
+	"os"
+	"syscall"
+)
+
+func linkCount(fi fs.FileInfo) uint64 {
+	if st, ok := fi.Sys().(*syscall.Stat_t); ok {
+		return uint64(st.Nlink)
+	}
+	return 1
+}
+
+func keepOwner(name string, fi fs.FileInfo) {
+	if st, ok := fi.Sys().(*syscall.Stat_t); ok {
+		if os.Chown(name, int(st.Uid), int(st.Gid)) != nil {
+			os.Chown(name, -1, int(st.Gid)) // a member of the group may keep it
+		}
+	}
+}
+
+// ProcessAlive reports whether a process with this id runs (signal 0
+// checks without sending anything; EPERM means it runs as someone else).
+func ProcessAlive(pid int) bool {
+	if pid <= 0 {
+		return false
+	}
+	err := syscall.Kill(pid, 0)
+	return err == nil || errors.Is(err, syscall.EPERM)
+}
