@@ -24,6 +24,10 @@ type Field struct {
 	dim     runtime.Dim // zero and user == true: found on first evaluation
 	user    bool
 	timeDep bool
+	// pointCost is about the cost of the field at one point, in
+	// elementary evaluations, besides the calls of user functions (which
+	// are counted as they happen).
+	pointCost float64
 	// prepare returns an evaluator for time t (hasT says whether t was
 	// given).
 	prepare func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error)
@@ -102,8 +106,13 @@ func sourceField(which em.Which, src *Source) *Field {
 	if which == em.FieldA {
 		d, name = dimVpot, "A"
 	}
+	w := 0.0
+	for _, t := range src.terms {
+		w += pathWeight(t.path)
+	}
 	return &Field{
-		desc:    name + " of " + src.Show(6),
+		pointCost: w,
+		desc:      name + " of " + src.Show(6),
 		sym:     name,
 		src:     src,
 		which:   which,
@@ -132,7 +141,12 @@ func sourceField(which em.Which, src *Source) *Field {
 
 // inducedField makes E = −∂A/∂t = −Σ Aₖ(per ampere)·dIₖ/dt of a source.
 func inducedField(src *Source) *Field {
+	w := 0.0
+	for _, t := range src.terms {
+		w += pathWeight(t.path)
+	}
 	return &Field{
+		pointCost: w,
 		desc:    "E of " + src.Show(6),
 		sym:     "E",
 		dim:     dimEfield,
@@ -194,8 +208,11 @@ func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, 
 	if _, err := eval(pts[0]); err != nil {
 		return runtime.Quantity{}, fieldErr(fn, err)
 	}
+	if err := charge(env, fn, f.pointCost*nodes(p)); err != nil {
+		return runtime.Quantity{}, err
+	}
 	scale := scaleOf(eval, pts) * math.Max(p.Length(), p.Size())
-	v, err := em.LineIntegral(p, eval, em.DefaultTol, scale)
+	v, err := em.LineIntegral(p, eval, control(env, fn, em.DefaultTol), scale)
 	if err != nil {
 		return runtime.Quantity{}, fieldErr(fn, err)
 	}
@@ -363,6 +380,9 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 	if err != nil {
 		return nil, err
 	}
+	if err := charge(env, fn, f.pointCost*surfaceNodes); err != nil {
+		return nil, err
+	}
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
 		return nil, err
@@ -377,7 +397,7 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 		return nil, fieldErr(fn, err)
 	}
 	scale := scaleOf(eval, pts) * s.S.Area
-	v, err := em.SurfaceIntegral(s.S, eval, em.DefaultTol, scale)
+	v, err := em.SurfaceIntegral(s.S, eval, control(env, fn, em.DefaultTol), scale)
 	if err != nil {
 		return nil, fieldErr(fn, err)
 	}

@@ -158,8 +158,10 @@ const chunk = 32
 // fixed order, so results do not depend on the number of workers. If any
 // point fails, the error of the lowest-numbered failing point is returned.
 // progress, if not nil, is called now and then with the number of points
-// done (from one goroutine at a time).
-func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress func(done int)) error {
+// done (from one goroutine at a time). stop, if not nil, is polled by every
+// worker before each chunk of points; once it returns an error all workers
+// end after their current chunk and Fields returns that error.
+func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress func(done int), stop func() error) error {
 	if len(out) != len(pts) {
 		return fmt.Errorf("em.Fields: %d points but %d outputs", len(pts), len(out))
 	}
@@ -172,12 +174,22 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 	var next, done atomic.Int64
 	var mu sync.Mutex
 	firstErr := &PointError{Index: -1}
+	var stopErr atomic.Pointer[error]
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for {
+				if stopErr.Load() != nil {
+					return
+				}
+				if stop != nil {
+					if err := stop(); err != nil {
+						stopErr.CompareAndSwap(nil, &err)
+						return
+					}
+				}
 				k := int(next.Add(1)) - 1
 				if k >= nChunks {
 					return
@@ -205,6 +217,9 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 		}()
 	}
 	wg.Wait()
+	if e := stopErr.Load(); e != nil {
+		return *e
+	}
 	if firstErr.Index >= 0 {
 		return firstErr
 	}
