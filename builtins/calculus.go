@@ -113,11 +113,11 @@ func sourceField(which em.Which, src *Source) *Field {
 	return &Field{
 		pointCost: w,
 		desc:      name + " of " + src.Show(6),
-		sym:     name,
-		src:     src,
-		which:   which,
-		dim:     d,
-		timeDep: src.timeDependent(),
+		sym:       name,
+		src:       src,
+		which:     which,
+		dim:       d,
+		timeDep:   src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			srcs, err := src.sources(env, fn, t, hasT)
 			if err != nil {
@@ -147,10 +147,10 @@ func inducedField(src *Source) *Field {
 	}
 	return &Field{
 		pointCost: w,
-		desc:    "E of " + src.Show(6),
-		sym:     "E",
-		dim:     dimEfield,
-		timeDep: src.timeDependent(),
+		desc:      "E of " + src.Show(6),
+		sym:       "E",
+		dim:       dimEfield,
+		timeDep:   src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			var rates []em.Source
 			for _, term := range src.terms {

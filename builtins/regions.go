@@ -39,8 +39,8 @@ func regionField(r *Region) *Field {
 	return &Field{
 		pointCost: r.R.PointCost(),
 		desc:      "E of " + r.Show(6),
-		sym:  "E",
-		dim:  dimEfield,
+		sym:       "E",
+		dim:       dimEfield,
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			tol := control(env, fn, regionTol)
 			tol.Progress = nil // one point: no progress of its own

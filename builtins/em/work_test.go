@@ -47,7 +47,7 @@ func stopAfter(d time.Duration) func() error {
 // is a guard against a hang, not a speed claim.
 func TestFieldsStop(t *testing.T) {
 	coil := cpPolyCoil(t, 0.02, 0, 0.02, 1000, 10) // 10⁴ segments
-	pts := make([]Vec, 1_000_000)                 // 10¹⁰ evaluations
+	pts := make([]Vec, 1_000_000)                  // 10¹⁰ evaluations
 	for i := range pts {
 		pts[i] = Vec{X: 0.05, Y: 0, Z: 1e-7 * float64(i)}
 	}
