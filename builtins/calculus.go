@@ -124,6 +124,9 @@ func sourceField(which em.Which, src *Source) *Field {
 				return nil, err
 			}
 			ev := em.NewEvaluator(which, srcs)
+			if env != nil {
+				ev.SetStop(env.Err)
+			}
 			ub := src.uniformB()
 			return func(x em.Vec) (em.Vec, error) {
 				v, err := ev.At(x)
@@ -168,6 +171,9 @@ func inducedField(src *Source) *Field {
 				rates = append(rates, em.Source{Path: term.path, I: -didt})
 			}
 			ev := em.NewEvaluator(em.FieldA, rates)
+			if env != nil {
+				ev.SetStop(env.Err)
+			}
 			return ev.At, nil
 		},
 	}

@@ -22,9 +22,10 @@ const (
 	EvalsPerSecond = 1e8
 	// CallEvals is what one call of a user function is charged, in
 	// elementary evaluations: BenchmarkUserCalls in runtime measures about
-	// 3.3 µs per call of a small recursive function on the same machines,
-	// the time of about 300 evaluations.
-	CallEvals = 300
+	// 3.3 µs per call of a small recursive function on the same machines
+	// (deeper recursion, as in fib(40), costs up to about 5 µs), the time
+	// of about 300 to 500 evaluations.
+	CallEvals = 500
 	// DefaultBudget is the budget of a new session, in seconds of work
 	// (the prompt's default).
 	DefaultBudget = 5.0

@@ -109,6 +109,7 @@ func FluxThroughLoop(srcs []Source, loop Path, tol Tol) (float64, error) {
 		return 0, ErrOpenPath
 	}
 	c := compile(srcs)
+	c.stop = tol.Stop
 	// scale: flux of the largest current through a loop of this size
 	var imax float64
 	for _, s := range srcs {
@@ -241,6 +242,7 @@ func NewSpanned(path Path) (Surface, error) {
 // quadrature.
 func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
 	c := compile(srcs)
+	c.stop = tol.Stop
 	var ferr error
 	f := func(u, v float64) float64 {
 		if ferr != nil {
@@ -386,6 +388,7 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 		return sum, nil
 	}
 	c := compile([]Source{{Path: p1, I: 1}})
+	c.stop = tol.Stop
 	scale := Mu0 * math.Min(p1.Size(), p2.Size())
 	v, err := lineIntegral(Path{Prims: rest}, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
 	if err != nil {
@@ -402,6 +405,7 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 // adaptive quadrature along path 2.
 func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 	c := compile(srcs)
+	c.stop = tol.Stop
 	var sum Vec
 	var ferr error
 	for _, p := range p2.Prims {
@@ -489,6 +493,7 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 	scale := path.scale()
 	nb := touchingPairs(path.Prims, scale)
 	all := compile([]Source{{Path: path, I: 1}})
+	all.stop = tol.Stop
 	terms := make([]float64, n)
 	errs := make([]error, n)
 	var next, done atomic.Int64

@@ -50,6 +50,8 @@ type compiledSources struct {
 	// segIdx and othIdx number each entry by its place among all the
 	// primitives of all the sources, for masking (see atMasked).
 	segIdx, othIdx []int
+	// stop, if not nil, is polled by the numerical integrals of helices.
+	stop func() error
 }
 
 func compile(srcs []Source) *compiledSources {
@@ -137,9 +139,9 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 		var v Vec
 		var err error
 		if which == FieldB {
-			v, err = PrimB(p, x)
+			v, err = primB(p, x, c.stop)
 		} else {
-			v, err = PrimA(p, x)
+			v, err = primA(p, x, c.stop)
 		}
 		if err != nil {
 			return Vec{}, err
@@ -166,6 +168,7 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 		return fmt.Errorf("em.Fields: %d points but %d outputs", len(pts), len(out))
 	}
 	c := compile(srcs)
+	c.stop = stop
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -196,6 +199,12 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 				}
 				lo, hi := k*chunk, min((k+1)*chunk, len(pts))
 				for i := lo; i < hi; i++ {
+					if stop != nil && i > lo {
+						if err := stop(); err != nil {
+							stopErr.CompareAndSwap(nil, &err)
+							return
+						}
+					}
 					v, err := c.at(which, pts[i])
 					if err != nil {
 						mu.Lock()
@@ -242,6 +251,10 @@ type Evaluator struct {
 func NewEvaluator(which Which, srcs []Source) *Evaluator {
 	return &Evaluator{which: which, c: compile(srcs)}
 }
+
+// SetStop makes the numerical integrals of the evaluator's helices poll
+// stop and end with its error.
+func (e *Evaluator) SetStop(stop func() error) { e.c.stop = stop }
 
 // At returns the field at x.
 func (e *Evaluator) At(x Vec) (Vec, error) { return e.c.at(e.which, x) }
