@@ -275,7 +275,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "line_integral(field, path[, t: s]) -> field unit*m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
-				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10",
+				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
 			},
@@ -299,7 +299,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "surface_flux(field, surface[, t: s]) -> field unit*m^2",
 				Summary:   "∬ F·dA over a surface, oriented by its normal.",
-				Method:    "adaptive 2-D Gauss–Kronrod, asked for relative error 1e-10; the tests find ∬B·dA and ∮A·dl within 2e-9 of each other",
+				Method:    "adaptive 2-D Gauss–Kronrod, asked for relative error 1e-10; the tests find ∬B·dA and ∮A·dl within 2e-9 of each other; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "surface_flux(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refCalculus,
 			},

@@ -108,7 +108,7 @@ func sourceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sample_line(field, from: position [m], to: position [m], n: whole number[, t: s]) -> table",
 				Summary:   "A field (b_field, a_field or e_field of a source or region, or your own F(p)) at n evenly spaced points from one point to another, as a table (s along the line, x, y, z, then the field's components and magnitude: Bx, By, Bz, |B| for B; A… or E…; Fx… for your own).",
-				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points); the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "sample_line(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [0, 0, -50] mm, [0, 0, 50] mm, 5)",
 				Reference: refFields,
 			},
@@ -119,7 +119,7 @@ func sourceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sample_plane(field, origin: position [m], side1: vector [m], side2: vector [m], n1, n2: whole numbers[, t: s]) -> table",
 				Summary:   "A field (b_field, a_field or e_field, or your own F(p)) on an n1 × n2 grid over the parallelogram origin + u·side1 + v·side2, as a table (u, v, x, y, z, then the field's components and magnitude, e.g. Bx, By, Bz, |B|).",
-				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points); the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "sample_plane(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 3, 3)",
 				Reference: refFields,
 			},

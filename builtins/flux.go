@@ -38,7 +38,7 @@ func fluxFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "flux(source, target: closed path or surface[, t: s]) -> Wb",
 				Summary:   "Magnetic flux of the source through a closed loop (oriented by its circulation, right-hand rule) or a surface (oriented by its normal).",
-				Method:    "loop: ∮A·dl with the closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10; surface: ∬B·dA by adaptive 2-D Gauss–Kronrod, the same; the tests find the two within 2e-9 of each other and within 1e-9 of Maxwell's formula for coaxial circles",
+				Method:    "loop: ∮A·dl with the closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10; surface: ∬B·dA by adaptive 2-D Gauss–Kronrod, the same; the tests find the two within 2e-9 of each other and within 1e-9 of Maxwell's formula for coaxial circles; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "flux(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refFlux,
 			},

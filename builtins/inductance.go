@@ -16,7 +16,7 @@ func inductanceFuncs() []*runtime.Func {
 		fncEnv("mutual", []string{"path1", "path2"}, 2, 2, &runtime.Help{
 			Signature: "mutual(path1, path2) -> H",
 			Summary:   "Mutual inductance of two paths (for open paths, e.g. coils without leads, the partial mutual inductance).",
-			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself",
+			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself; the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "mutual(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 			Reference: refInductance,
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -54,7 +54,7 @@ func inductanceFuncs() []*runtime.Func {
 		fncEnv("inductance", []string{"path", "wire_radius"}, 2, 2, &runtime.Help{
 			Signature: "inductance(path, wire_radius: length) -> H",
 			Summary:   "Low-frequency self-inductance of a path of round wire (uniform current); for an open path, e.g. a coil without its leads, the partial self-inductance.",
-			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores",
+			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores; the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)",
 			Reference: refInductance + "; circular loop μ0R(ln(8R/a) − 7/4)",
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -75,7 +75,7 @@ func inductanceFuncs() []*runtime.Func {
 		fncEnv("coupling", []string{"path1", "path2", "wire_radius1", "wire_radius2"}, 4, 4, &runtime.Help{
 			Signature: "coupling(path1, path2, wire_radius1: length, wire_radius2: length) -> dimensionless",
 			Summary:   "Coupling coefficient k = M/√(L1·L2) of two paths of round wire.",
-			Method:    "mutual() and inductance()",
+			Method:    "mutual() and inductance(); the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "coupling(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0.3 mm, 0.3 mm)",
 			Reference: refInductance,
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -108,7 +108,7 @@ func inductanceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "force(source, path, current: A or function of time[, t: s]) -> vector [N]",
 				Summary:   "Force on a path carrying current in the source's field: F = I ∮ dl × B (Lorentz force on the wire).",
-				Method:    "adaptive Gauss–Kronrod along the path, asked for relative error 1e-10",
+				Method:    "adaptive Gauss–Kronrod along the path, asked for relative error 1e-10; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "force(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 10 A), circle([0, 0, 10] mm, [0, 0, 1], 25 mm), 10 A)",
 				Reference: "Lorentz force dF = I dl × B; checked against I1·I2·dM/dz from Maxwell's formula",
 			},

@@ -53,6 +53,7 @@ func solveFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sweep(f: function of one quantity, from, to: unit of f's argument, n: whole number) -> table",
 				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result or four for a vector: x, y, z, norm).",
+				Method:    "f at (1 − s)·from + s·to for s = 0, 1/(n−1), …, 1; every value must be finite (an infinity or NaN is an error naming its argument); the whole sweep's work is estimated from the first call and refused beyond the work budget (:budget)",
 				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nsweep(k, 0 mm, 20 mm, 5)",
 				Reference: "evaluation at evenly spaced points",
 			},
