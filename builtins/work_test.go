@@ -242,3 +242,36 @@ func TestSweepFinite(t *testing.T) {
 		}
 	}
 }
+
+// TestProgress: long builtins report their progress through the session,
+// labelled with their name, ending with all of their work done.
+func TestProgress(t *testing.T) {
+	s := evalLines(t,
+		"coil = rings([0,0,0] m, [0,0,1], 10 mm, 50 mm, 300)",
+		"h = join(helix([0,0,0] m, [0,0,1], 20 mm, 50 mm, 20), segment([20,0,25] mm, [20,0,-25] mm))",
+		"g(x) = 2 * x",
+	)
+	type report struct{ done, total int }
+	got := map[string][]report{}
+	s.SetProgress(func(label string, done, total int) { got[label] = append(got[label], report{done, total}) })
+	for _, c := range []struct{ fn, in string }{
+		{"inductance", "inductance(coil, 0.02 mm)"},
+		{"sample_line", "sample_line(b_field(source(coil, 1 A)), [0,0,0] m, [0,0,1] m, 1000)"},
+		{"flux", "flux(source(coil, 1 A), h)"},
+		{"mutual", "mutual(coil, h)"},
+		{"sweep", "sweep(g, 0 m, 1 m, 100)"},
+	} {
+		if _, err := s.Eval(lang.Pos{Line: 9, Col: 1}, c.in); err != nil {
+			t.Errorf("%s: %v", c.in, err)
+			continue
+		}
+		r := got[c.fn]
+		if len(r) < 2 {
+			t.Errorf("%s: %d progress reports labelled %s", c.in, len(r), c.fn)
+			continue
+		}
+		if last := r[len(r)-1]; last.done != last.total {
+			t.Errorf("%s: last report %d of %d", c.in, last.done, last.total)
+		}
+	}
+}

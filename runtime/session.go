@@ -466,10 +466,10 @@ func (s *Session) CompileExpr(base lang.Pos, text string) (*Compiled, error) {
 	return &Compiled{s: s, p: p}, nil
 }
 
-// Eval evaluates the compiled expression. The work it does is charged
-// to the session's current statement (a new one starts with Exec).
+// Eval evaluates the compiled expression, with a work budget of its own
+// (as a statement has).
 func (c *Compiled) Eval() (Value, error) {
-	c.s.depth, c.s.tooDeep = 0, false
+	c.s.depth, c.s.tooDeep, c.s.work = 0, false, 0
 	return c.s.run(c.p)
 }
 
