@@ -408,7 +408,7 @@ func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 	c.stop = tol.Stop
 	var sum Vec
 	var ferr error
-	for _, p := range p2.Prims {
+	for k, p := range p2.Prims {
 		p := p
 		f := func(t float64) Vec {
 			if ferr != nil {
@@ -429,6 +429,9 @@ func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 			return Vec{}, err
 		}
 		sum = r3.Add(sum, v)
+		if tol.Progress != nil {
+			tol.Progress(k+1, len(p2.Prims))
+		}
 	}
 	return r3.Scale(i2, sum), nil
 }
