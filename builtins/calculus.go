@@ -433,6 +433,11 @@ func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Valu
 	if err != nil {
 		return nil, err
 	}
+	// the field at the point and at 4 points a step for 10 steps along
+	// each axis (em.Jacobian)
+	if err := charge(env, fn, f.pointCost*121); err != nil {
+		return nil, err
+	}
 	eval, x, _, err := evalAtPoint(env, fn, f, args)
 	if err != nil {
 		return nil, err
@@ -471,6 +476,10 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	x, t := r.point(1), r.ofDim(2, dimTime)
 	if r.err != nil {
 		return nil, r.err
+	}
+	// the field at t and at 4 times a step for 13 steps (em.Derivative)
+	if err := charge(env, fn, f.pointCost*54); err != nil {
+		return nil, err
 	}
 	g := func(s float64) (em.Vec, error) {
 		eval, err := f.prepare(env, fn, s, true)
