@@ -17,15 +17,16 @@ import (
 const (
 	// EvalsPerSecond is about how many elementary evaluations one core
 	// does in a second: BenchmarkElementaryEval in builtins/em measures
-	// about 11 ns each (about 9e7 a second) on the two-core x86-64 virtual
-	// machines Loopwise is developed on; rounded to 1e8.
+	// about 11 ns each (about 9e7 a second) on an idle two-core x86-64
+	// virtual machine of the kind Loopwise is developed on, rounded to
+	// 1e8; two to five times slower when the machine is busy.
 	EvalsPerSecond = 1e8
 	// CallEvals is what one call of a user function is charged, in
 	// elementary evaluations: BenchmarkUserCalls in runtime measures about
-	// 3.3 µs per call of a small recursive function on the same machines
-	// (deeper recursion, as in fib(40), costs up to about 5 µs), the time
-	// of about 300 to 500 evaluations.
-	CallEvals = 500
+	// 1.4 µs per call of a small recursive function on the same machine
+	// when idle (up to 4.5 µs when busy), the time of about 150
+	// evaluations.
+	CallEvals = 150
 	// DefaultBudget is the budget of a new session, in seconds of work
 	// (the prompt's default).
 	DefaultBudget = 5.0
