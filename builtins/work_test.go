@@ -40,11 +40,15 @@ func TestBudgetRefuses(t *testing.T) {
 		{"mutual of two 1000-turn helices", "mutual(helix([0,0,0] m, [0,0,1], 10 mm, 1 m, 1000), helix([0,0,0] m, [0,0,1], 20 mm, 1 m, 1000))"},
 		{"sample_line of a 100000-turn helix", "sample_line(b_field(source(helix([0,0,0] m, [0,0,1], 10 mm, 1 m, 100000), 1 A)), [0,0,0] m, [0,0,1] m, 1000)"},
 		{"sweep of a heavy function", "sweep(heavy, 1 A, 2 A, 100000)"},
+		{"sample_line of a slow field function", "sample_line(slow, [0,0,0] m, [0,0,1] m, 20000)"},
+		{"sample_line of a region's E", "sample_line(e_field(dfluxdt_toroid([0,0,0] m, [0,0,1], 20 mm, 30 mm, 10 mm, 5 V)), [0,0,0] m, [0,0,1] m, 20000)"},
+		{"curl of a 100000-turn helix's field", "curl(b_field(source(helix([0,0,0] m, [0,0,1], 10 mm, 1 m, 100000), 1 A)), [0,0,0.1] m)"},
 	}
 	s := evalLines(t,
 		"src = source(circle([0,0,0] m, [0,0,1], 5 mm), 1 A)",
 		"heavy(i) = flux(source(rings([0,0,0] m, [0,0,1], 10 mm, 100 mm, 50), i), circle([0,0,0] m, [0,0,1], 20 mm))",
 		"fib(n) = n < 2 ? n : fib(n-1) + fib(n-2)",
+		"slow(p) = [0, 0, fib(15)] T",
 	)
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
