@@ -101,10 +101,10 @@ var (
 
 // Limits that keep absurd requests from exhausting memory or time.
 const (
-	maxPrims  = 200_000        // pieces in one path
-	maxPoints = 1_000_000      // field points in one request
-	maxWork   = 20_000_000_000 // points × piece weight in one request (~minutes)
-	maxTurns  = 100_000        // turns of one helix, ring set or toroid
+	maxPrims  = 200_000   // pieces in one path
+	maxPoints = 1_000_000 // field points in one request
+	maxTurns  = 100_000   // turns of one helix, ring set or toroid
+	maxTerms  = 10_000    // currents (paths with their current) in one source
 )
 
 func toVec(v runtime.Vector) em.Vec { return em.Vec{X: v.V[0], Y: v.V[1], Z: v.V[2]} }

@@ -24,6 +24,10 @@ type Field struct {
 	dim     runtime.Dim // zero and user == true: found on first evaluation
 	user    bool
 	timeDep bool
+	// pointCost is about the cost of the field at one point, in
+	// elementary evaluations, besides the calls of user functions (which
+	// are counted as they happen).
+	pointCost float64
 	// prepare returns an evaluator for time t (hasT says whether t was
 	// given).
 	prepare func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error)
@@ -102,19 +106,27 @@ func sourceField(which em.Which, src *Source) *Field {
 	if which == em.FieldA {
 		d, name = dimVpot, "A"
 	}
+	w := 0.0
+	for _, t := range src.terms {
+		w += pathWeight(t.path)
+	}
 	return &Field{
-		desc:    name + " of " + src.Show(6),
-		sym:     name,
-		src:     src,
-		which:   which,
-		dim:     d,
-		timeDep: src.timeDependent(),
+		pointCost: w,
+		desc:      name + " of " + src.Show(6),
+		sym:       name,
+		src:       src,
+		which:     which,
+		dim:       d,
+		timeDep:   src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			srcs, err := src.sources(env, fn, t, hasT)
 			if err != nil {
 				return nil, err
 			}
 			ev := em.NewEvaluator(which, srcs)
+			if env != nil {
+				ev.SetStop(env.Err)
+			}
 			ub := src.uniformB()
 			return func(x em.Vec) (em.Vec, error) {
 				v, err := ev.At(x)
@@ -132,11 +144,16 @@ func sourceField(which em.Which, src *Source) *Field {
 
 // inducedField makes E = −∂A/∂t = −Σ Aₖ(per ampere)·dIₖ/dt of a source.
 func inducedField(src *Source) *Field {
+	w := 0.0
+	for _, t := range src.terms {
+		w += pathWeight(t.path)
+	}
 	return &Field{
-		desc:    "E of " + src.Show(6),
-		sym:     "E",
-		dim:     dimEfield,
-		timeDep: src.timeDependent(),
+		pointCost: w,
+		desc:      "E of " + src.Show(6),
+		sym:       "E",
+		dim:       dimEfield,
+		timeDep:   src.timeDependent(),
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 			var rates []em.Source
 			for _, term := range src.terms {
@@ -154,6 +171,9 @@ func inducedField(src *Source) *Field {
 				rates = append(rates, em.Source{Path: term.path, I: -didt})
 			}
 			ev := em.NewEvaluator(em.FieldA, rates)
+			if env != nil {
+				ev.SetStop(env.Err)
+			}
 			return ev.At, nil
 		},
 	}
@@ -194,8 +214,11 @@ func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, 
 	if _, err := eval(pts[0]); err != nil {
 		return runtime.Quantity{}, fieldErr(fn, err)
 	}
+	if err := charge(env, fn, f.pointCost*nodes(p)); err != nil {
+		return runtime.Quantity{}, err
+	}
 	scale := scaleOf(eval, pts) * math.Max(p.Length(), p.Size())
-	v, err := em.LineIntegral(p, eval, em.DefaultTol, scale)
+	v, err := em.LineIntegral(p, eval, control(env, fn, em.DefaultTol), scale)
 	if err != nil {
 		return runtime.Quantity{}, fieldErr(fn, err)
 	}
@@ -252,7 +275,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "line_integral(field, path[, t: s]) -> field unit*m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
-				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10",
+				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
 			},
@@ -276,7 +299,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "surface_flux(field, surface[, t: s]) -> field unit*m^2",
 				Summary:   "∬ F·dA over a surface, oriented by its normal.",
-				Method:    "adaptive 2-D Gauss–Kronrod, asked for relative error 1e-10; the tests find ∬B·dA and ∮A·dl within 2e-9 of each other",
+				Method:    "adaptive 2-D Gauss–Kronrod, asked for relative error 1e-10; the tests find ∬B·dA and ∮A·dl within 2e-9 of each other; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "surface_flux(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), disk([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refCalculus,
 			},
@@ -363,6 +386,9 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 	if err != nil {
 		return nil, err
 	}
+	if err := charge(env, fn, f.pointCost*surfaceNodes); err != nil {
+		return nil, err
+	}
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
 		return nil, err
@@ -377,7 +403,7 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 		return nil, fieldErr(fn, err)
 	}
 	scale := scaleOf(eval, pts) * s.S.Area
-	v, err := em.SurfaceIntegral(s.S, eval, em.DefaultTol, scale)
+	v, err := em.SurfaceIntegral(s.S, eval, control(env, fn, em.DefaultTol), scale)
 	if err != nil {
 		return nil, fieldErr(fn, err)
 	}
@@ -405,6 +431,11 @@ func evalAtPoint(env runtime.Env, fn string, f *Field, args []runtime.Value) (ev
 func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Value, error) {
 	f, err := fieldArg(fn, args, 0)
 	if err != nil {
+		return nil, err
+	}
+	// the field at the point and at 4 points a step for 10 steps along
+	// each axis (em.Jacobian)
+	if err := charge(env, fn, f.pointCost*121); err != nil {
 		return nil, err
 	}
 	eval, x, _, err := evalAtPoint(env, fn, f, args)
@@ -445,6 +476,10 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	x, t := r.point(1), r.ofDim(2, dimTime)
 	if r.err != nil {
 		return nil, r.err
+	}
+	// the field at t and at 4 times a step for 13 steps (em.Derivative)
+	if err := charge(env, fn, f.pointCost*54); err != nil {
+		return nil, err
 	}
 	g := func(s float64) (em.Vec, error) {
 		eval, err := f.prepare(env, fn, s, true)

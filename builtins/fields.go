@@ -19,6 +19,8 @@ func fieldErr(fn string, err error) error {
 	var qe *em.QuadError
 	var ae *argError
 	switch {
+	case stopping(err):
+		return err // interrupted or over the budget: the statement says so
 	case errors.As(err, &ae):
 		return err // already names the builtin
 	case errors.As(err, &qe):
@@ -106,7 +108,7 @@ func sourceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sample_line(field, from: position [m], to: position [m], n: whole number[, t: s]) -> table",
 				Summary:   "A field (b_field, a_field or e_field of a source or region, or your own F(p)) at n evenly spaced points from one point to another, as a table (s along the line, x, y, z, then the field's components and magnitude: Bx, By, Bz, |B| for B; A… or E…; Fx… for your own).",
-				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points); the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "sample_line(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [0, 0, -50] mm, [0, 0, 50] mm, 5)",
 				Reference: refFields,
 			},
@@ -117,7 +119,7 @@ func sourceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sample_plane(field, origin: position [m], side1: vector [m], side2: vector [m], n1, n2: whole numbers[, t: s]) -> table",
 				Summary:   "A field (b_field, a_field or e_field, or your own F(p)) on an n1 × n2 grid over the parallelogram origin + u·side1 + v·side2, as a table (u, v, x, y, z, then the field's components and magnitude, e.g. Bx, By, Bz, |B|).",
-				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points)",
+				Method:    "B and A of sources: the parallel field kernel, results independent of the number of cores; other fields point by point (at most 20000 points); the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "sample_plane(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 3, 3)",
 				Reference: refFields,
 			},
@@ -131,19 +133,20 @@ func fieldsOf(env runtime.Env, fn string, which em.Which, src *Source, pts []em.
 	if err != nil {
 		return nil, err
 	}
-	work := 0.0
-	for _, s := range srcs {
-		work += pathWeight(s.Path)
-	}
-	if work*float64(len(pts)) > maxWork {
-		return nil, errorf("%s: %d points on this source is more work than the limit (%g elementary field evaluations); sample fewer points or simplify the path", fn, len(pts), float64(maxWork))
+	// the kernel shares the points among all cores
+	if err := charge(env, fn, fieldCost(srcs)*float64(len(pts))/min(cores(), float64(len(pts)))); err != nil {
+		return nil, err
 	}
 	out := make([]em.Vec, len(pts))
 	var progress func(int)
-	if len(pts) > 1 && env != nil {
-		progress = func(done int) { env.Progress(fn, done, len(pts)) }
+	var stop func() error
+	if env != nil {
+		stop = env.Err
+		if len(pts) > 1 {
+			progress = func(done int) { env.Progress(fn, done, len(pts)) }
+		}
 	}
-	if err := em.Fields(which, srcs, pts, out, 0, progress); err != nil {
+	if err := em.Fields(which, srcs, pts, out, 0, progress, stop); err != nil {
 		return nil, fieldErr(fn, err)
 	}
 	ub := src.uniformB()
@@ -166,7 +169,7 @@ func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value
 	if r.err != nil {
 		return nil, r.err
 	}
-	out, err := fieldsOf(nil, fn, which, src, []em.Vec{x}, t, hasT)
+	out, err := fieldsOf(env, fn, which, src, []em.Vec{x}, t, hasT)
 	if err != nil {
 		return nil, err
 	}
@@ -191,12 +194,31 @@ func sampleField(env runtime.Env, fn string, f *Field, pts []em.Vec, t float64, 
 	if len(pts) > maxSlowPoints {
 		return nil, errorf("%s: %d points of %s is more than the limit of %d for a field evaluated point by point; sample fewer points", fn, len(pts), f.desc, maxSlowPoints)
 	}
+	if err := charge(env, fn, f.pointCost*float64(len(pts))); err != nil {
+		return nil, err
+	}
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
 		return nil, err
 	}
 	out := make([]em.Vec, len(pts))
+	spent := 0.0
+	if env != nil {
+		spent = env.Spent()
+	}
 	for i, x := range pts {
+		if i == 1 && env != nil {
+			// a function of yours is counted as it runs; refuse now what
+			// the first point says would not fit
+			if err := env.Afford(fn, (env.Spent()-spent)*float64(len(pts)-1)); err != nil {
+				return nil, err
+			}
+		}
+		if env != nil {
+			if err := env.Err(); err != nil {
+				return nil, err
+			}
+		}
 		if out[i], err = eval(x); err != nil {
 			var pe *em.PointError
 			if !errors.As(err, &pe) && errors.Is(err, em.ErrOnWire) {
@@ -292,22 +314,28 @@ func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 }
 
 // pathWeight estimates the cost of a path's field at one point, in units of
-// one straight segment: an arc's elliptic integrals cost a few, a helix is
-// integrated numerically over each quarter turn (15 or more evaluations
-// each).
+// one straight segment (an elementary evaluation).
 func pathWeight(p em.Path) float64 {
 	w := 0.0
 	for _, q := range p.Prims {
-		switch q.Kind {
-		case em.Segment:
-			w++
-		case em.Arc:
-			w += 4
-		default:
-			w += 60 * math.Abs(q.Span) / (2 * math.Pi)
-		}
+		w += primWeight(q)
 	}
 	return w
+}
+
+// primWeight is the cost of one piece's field at one point: an arc's
+// elliptic integrals cost about 20 segments, a helix is integrated
+// numerically to 1e-12 and costs about 2000 a turn (BenchmarkPrimWeights
+// in builtins/em, at points near and far: about 190 ns an arc and 22 µs a
+// helix turn, beside about 11 ns a segment).
+func primWeight(q em.Prim) float64 {
+	switch q.Kind {
+	case em.Segment:
+		return 1
+	case em.Arc:
+		return 20
+	}
+	return 2000 * math.Max(1, math.Abs(q.Span)/(2*math.Pi))
 }
 
 // cleanVec zeroes components that are noise beside the largest (see

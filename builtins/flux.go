@@ -29,7 +29,7 @@ func fluxFuncs() []*runtime.Func {
 				if err != nil {
 					return nil, err
 				}
-				phi, err := fluxOf("flux", srcs, src.uniformB(), args[1])
+				phi, err := fluxOf(env, "flux", srcs, src.uniformB(), args[1])
 				if err != nil {
 					return nil, err
 				}
@@ -38,7 +38,7 @@ func fluxFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "flux(source, target: closed path or surface[, t: s]) -> Wb",
 				Summary:   "Magnetic flux of the source through a closed loop (oriented by its circulation, right-hand rule) or a surface (oriented by its normal).",
-				Method:    "loop: ∮A·dl with the closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10; surface: ∬B·dA by adaptive 2-D Gauss–Kronrod, the same; the tests find the two within 2e-9 of each other and within 1e-9 of Maxwell's formula for coaxial circles",
+				Method:    "loop: ∮A·dl with the closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10; surface: ∬B·dA by adaptive 2-D Gauss–Kronrod, the same; the tests find the two within 2e-9 of each other and within 1e-9 of Maxwell's formula for coaxial circles; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "flux(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 				Reference: refFlux,
 			},
@@ -70,13 +70,17 @@ func fluxFuncs() []*runtime.Func {
 
 // fluxOf computes the flux of sources (plus a uniform field) through a
 // closed path or a surface.
-func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float64, error) {
+func fluxOf(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float64, error) {
+	tol := control(env, fn, em.DefaultTol)
 	switch x := target.(type) {
 	case *Path:
 		if !x.P.Closed() {
 			return 0, errorf("%s: the loop is not closed (its end is not its start); flux needs a closed loop or a surface (for a coil, model it with rings(), or join the helix to its leads)", fn)
 		}
-		phi, err := em.FluxThroughLoop(srcs, x.P, em.DefaultTol)
+		if err := charge(env, fn, fieldCost(srcs)*nodes(x.P)); err != nil {
+			return 0, err
+		}
+		phi, err := em.FluxThroughLoop(srcs, x.P, tol)
 		if err != nil {
 			return 0, touchErr(fn, err)
 		}
@@ -86,7 +90,10 @@ func fluxOf(fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float
 		}
 		return phi, nil
 	case *Surface:
-		phi, err := em.FluxThroughSurface(srcs, x.S, em.DefaultTol)
+		if err := charge(env, fn, fieldCost(srcs)*surfaceNodes); err != nil {
+			return 0, err
+		}
+		phi, err := em.FluxThroughSurface(srcs, x.S, tol)
 		if errors.Is(err, em.ErrOnWire) {
 			return 0, errorf("%s: a wire of the source touches or lies in the surface, where a thin wire's field is infinite; move the surface off the wire", fn)
 		}
@@ -197,7 +204,10 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		if didt == 0 {
 			continue
 		}
-		phi1, err := em.FluxThroughLoop([]em.Source{{Path: term.path, I: 1}}, loop, em.DefaultTol)
+		if err := charge(env, fn, pathWeight(term.path)*nodes(loop)); err != nil {
+			return nil, err
+		}
+		phi1, err := em.FluxThroughLoop([]em.Source{{Path: term.path, I: 1}}, loop, control(env, fn, em.DefaultTol))
 		if err != nil {
 			return nil, touchErr(fn, err)
 		}
@@ -240,9 +250,12 @@ func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		}
 		vmax = math.Max(vmax, r3.Norm(v))
 	}
+	if err := charge(env, fn, fieldCost(srcs)*nodes(loop)); err != nil {
+		return nil, err
+	}
 	size := math.Max(loop.Size(), loop.Length())
 	scale := vmax * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
-	e, err := em.MotionalEMF(loop, vel, bf, em.DefaultTol, scale)
+	e, err := em.MotionalEMF(loop, vel, bf, control(env, fn, em.DefaultTol), scale)
 	if err != nil {
 		var ae *argError
 		if errors.As(err, &ae) {

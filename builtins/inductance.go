@@ -13,19 +13,22 @@ const refInductance = "Neumann's formula; Maxwell, Treatise (1873) §701; Grover
 
 func inductanceFuncs() []*runtime.Func {
 	return []*runtime.Func{
-		fnc("mutual", []string{"path1", "path2"}, 2, 2, &runtime.Help{
+		fncEnv("mutual", []string{"path1", "path2"}, 2, 2, &runtime.Help{
 			Signature: "mutual(path1, path2) -> H",
 			Summary:   "Mutual inductance of two paths (for open paths, e.g. coils without leads, the partial mutual inductance).",
-			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself",
+			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself; the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "mutual(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 			Reference: refInductance,
-		}, func(args []runtime.Value) (runtime.Value, error) {
+		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("mutual", args)
 			p1, p2 := r.path(0), r.path(1)
 			if r.err != nil {
 				return nil, r.err
 			}
-			m, err := em.Mutual(p1, p2, em.MutualOptions{})
+			if err := charge(env, "mutual", mutualCost(p1, p2)); err != nil {
+				return nil, err
+			}
+			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: control(env, "mutual", em.DefaultTol)})
 			if err != nil {
 				return nil, fieldErr("mutual", err)
 			}
@@ -48,45 +51,52 @@ func inductanceFuncs() []*runtime.Func {
 			}
 			return runtime.Quantity{V: em.MaxwellMutual(a, b, math.Abs(d)), D: dimHenry}, nil
 		}),
-		fnc("inductance", []string{"path", "wire_radius"}, 2, 2, &runtime.Help{
+		fncEnv("inductance", []string{"path", "wire_radius"}, 2, 2, &runtime.Help{
 			Signature: "inductance(path, wire_radius: length) -> H",
 			Summary:   "Low-frequency self-inductance of a path of round wire (uniform current); for an open path, e.g. a coil without its leads, the partial self-inductance.",
-			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores",
+			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores; the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)",
 			Reference: refInductance + "; circular loop μ0R(ln(8R/a) − 7/4)",
-		}, func(args []runtime.Value) (runtime.Value, error) {
+		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("inductance", args)
 			p, a := r.path(0), r.positiveLength(1)
 			if r.err != nil {
 				return nil, r.err
 			}
-			l, err := em.SelfInductance(p, a, em.DefaultTol)
+			if err := charge(env, "inductance", inductanceCost(p)); err != nil {
+				return nil, err
+			}
+			l, err := em.SelfInductance(p, a, control(env, "inductance", em.DefaultTol))
 			if err != nil {
 				return nil, fieldErr("inductance", err)
 			}
 			return runtime.Quantity{V: l, D: dimHenry}, nil
 		}),
-		fnc("coupling", []string{"path1", "path2", "wire_radius1", "wire_radius2"}, 4, 4, &runtime.Help{
+		fncEnv("coupling", []string{"path1", "path2", "wire_radius1", "wire_radius2"}, 4, 4, &runtime.Help{
 			Signature: "coupling(path1, path2, wire_radius1: length, wire_radius2: length) -> dimensionless",
 			Summary:   "Coupling coefficient k = M/√(L1·L2) of two paths of round wire.",
-			Method:    "mutual() and inductance()",
+			Method:    "mutual() and inductance(); the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "coupling(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0.3 mm, 0.3 mm)",
 			Reference: refInductance,
-		}, func(args []runtime.Value) (runtime.Value, error) {
+		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("coupling", args)
 			p1, p2, a1, a2 := r.path(0), r.path(1), r.positiveLength(2), r.positiveLength(3)
 			if r.err != nil {
 				return nil, r.err
 			}
-			m, err := em.Mutual(p1, p2, em.MutualOptions{})
+			if err := charge(env, "coupling", mutualCost(p1, p2)+inductanceCost(p1)+inductanceCost(p2)); err != nil {
+				return nil, err
+			}
+			tol := control(env, "coupling", em.DefaultTol)
+			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, fieldErr("coupling", err)
 			}
-			l1, err := em.SelfInductance(p1, a1, em.DefaultTol)
+			l1, err := em.SelfInductance(p1, a1, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 1)", err)
 			}
-			l2, err := em.SelfInductance(p2, a2, em.DefaultTol)
+			l2, err := em.SelfInductance(p2, a2, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 2)", err)
 			}
@@ -98,7 +108,7 @@ func inductanceFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "force(source, path, current: A or function of time[, t: s]) -> vector [N]",
 				Summary:   "Force on a path carrying current in the source's field: F = I ∮ dl × B (Lorentz force on the wire).",
-				Method:    "adaptive Gauss–Kronrod along the path, asked for relative error 1e-10",
+				Method:    "adaptive Gauss–Kronrod along the path, asked for relative error 1e-10; the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "force(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 10 A), circle([0, 0, 10] mm, [0, 0, 1], 25 mm), 10 A)",
 				Reference: "Lorentz force dF = I dl × B; checked against I1·I2·dM/dz from Maxwell's formula",
 			},
@@ -128,7 +138,10 @@ func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	if err != nil {
 		return nil, err
 	}
-	f, err := em.Force(srcs, p, i2, em.DefaultTol)
+	if err := charge(env, fn, fieldCost(srcs)*nodes(p)); err != nil {
+		return nil, err
+	}
+	f, err := em.Force(srcs, p, i2, control(env, fn, em.DefaultTol))
 	if err != nil {
 		return nil, fieldErr(fn, err)
 	}

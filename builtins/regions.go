@@ -37,11 +37,14 @@ func (r *Region) Summary(digits int) string { return r.Show(digits) }
 // regionField makes E of a region as a field.
 func regionField(r *Region) *Field {
 	return &Field{
-		desc: "E of " + r.Show(6),
-		sym:  "E",
-		dim:  dimEfield,
+		pointCost: r.R.PointCost(),
+		desc:      "E of " + r.Show(6),
+		sym:       "E",
+		dim:       dimEfield,
 		prepare: func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
-			return func(x em.Vec) (em.Vec, error) { return em.RegionE(r.R, x, regionTol) }, nil
+			tol := control(env, fn, regionTol)
+			tol.Progress = nil // one point: no progress of its own
+			return func(x em.Vec) (em.Vec, error) { return em.RegionE(r.R, x, tol) }, nil
 		},
 	}
 }

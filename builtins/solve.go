@@ -53,6 +53,7 @@ func solveFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "sweep(f: function of one quantity, from, to: unit of f's argument, n: whole number) -> table",
 				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result or four for a vector: x, y, z, norm).",
+				Method:    "f at (1 − s)·from + s·to for s = 0, 1/(n−1), …, 1; every value must be finite (an infinity or NaN is an error naming its argument); the whole sweep's work is estimated from the first call and refused beyond the work budget (:budget)",
 				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nsweep(k, 0 mm, 20 mm, 5)",
 				Reference: "evaluation at evenly spaced points",
 			},
@@ -224,10 +225,33 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	}
 	tab := &Table{}
 	cyc := from.Cyc && to.Cyc // a sweep over cycle frequencies stays in Hz
+	spent := 0.0
+	if env != nil {
+		spent = env.Spent()
+	}
 	for i := 0; i < n; i++ {
-		x := from.V + (to.V-from.V)*float64(i)/float64(n-1)
-		v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: x, D: from.D, Cyc: cyc}})
+		// (1−s)·from + s·to stays finite for finite ends (to − from may not)
+		s := float64(i) / float64(n-1)
+		x := (1-s)*from.V + s*to.V
+		if env != nil {
+			if err := env.Err(); err != nil {
+				return nil, err
+			}
+		}
+		arg := runtime.Quantity{V: x, D: from.D, Cyc: cyc}
+		v, err := f.Invoke(env, []runtime.Value{arg})
 		if err != nil {
+			return nil, err
+		}
+		if i == 0 && env != nil {
+			// the rest will cost about n − 1 times the first (counted as
+			// they run); refuse now what would not fit
+			per := math.Max(env.Spent()-spent, runtime.CallEvals)
+			if err := env.Afford(fn, per*float64(n-1)); err != nil {
+				return nil, err
+			}
+		}
+		if err := finiteRow(fn, f, param, arg, v); err != nil {
 			return nil, err
 		}
 		if i == 0 {
@@ -264,4 +288,26 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		}
 	}
 	return tab, nil
+}
+
+// finiteRow refuses a sweep row with a number that is not finite (a table
+// obeys the same guard as a quantity), naming the argument of the row.
+func finiteRow(fn string, f *runtime.Func, param string, arg runtime.Quantity, v runtime.Value) error {
+	bad := ""
+	switch r := v.(type) {
+	case runtime.Quantity:
+		if math.IsNaN(r.V) || math.IsInf(r.V, 0) {
+			bad = runtime.FormatNumber(r.V, 6)
+		}
+	case runtime.Vector:
+		for _, c := range r.V {
+			if math.IsNaN(c) || math.IsInf(c, 0) {
+				bad = runtime.FormatNumber(c, 6)
+			}
+		}
+	}
+	if bad == "" {
+		return nil
+	}
+	return errorf("%s: %s gives %s at %s = %s; a table holds only finite numbers (narrow the range)", fn, f.Signature(), bad, param, runtime.Format(arg, 6))
 }

@@ -80,16 +80,25 @@ type Source struct {
 
 func (s *Source) Kind() string { return "a source" }
 
+// showTerms is the most terms of a source shown; the rest are counted.
+const showTerms = 4
+
 func (s *Source) Show(digits int) string {
 	var parts []string
-	for _, t := range s.terms {
+	for i, t := range s.terms {
+		if i == showTerms {
+			parts[len(parts)-1] += fmt.Sprintf(" and %d more terms", len(s.terms)-showTerms)
+			break
+		}
 		cur := runtime.Format(t.current, digits)
 		if f, ok := t.current.(*runtime.Func); ok {
 			cur = f.Signature()
 		}
 		parts = append(parts, fmt.Sprintf("%s in (%s)", cur, strings.TrimPrefix((&Path{t.path}).Show(digits), "path: ")))
 	}
-	for _, b := range s.uniform {
+	if len(s.uniform) > 0 {
+		// uniform fields add: show their sum
+		b := s.uniformB()
 		parts = append(parts, "uniform field "+runtime.Format(runtime.Vector{V: [3]float64{b.X, b.Y, b.Z}, D: dimTesla}, digits))
 	}
 	return "source: " + strings.Join(parts, "; ")
@@ -102,6 +111,15 @@ func (s *Source) Plus(other runtime.Value) (runtime.Value, error) {
 	o, ok := other.(*Source)
 	if !ok {
 		return nil, errorf("a source can only be added to another source, not %s", runtime.TypeName(other))
+	}
+	if n := len(s.terms) + len(o.terms); n > maxTerms {
+		return nil, errorf("the sum would have %d currents; a source holds at most %d (put paths that carry one current into one path with join() or repeat() instead)", n, maxTerms)
+	}
+	if len(s.uniform)+len(o.uniform) > 1 { // uniform fields add into one
+		return &Source{
+			terms:   append(append([]sourceTerm{}, s.terms...), o.terms...),
+			uniform: []em.Vec{r3.Add(s.uniformB(), o.uniformB())},
+		}, nil
 	}
 	return &Source{
 		terms:   append(append([]sourceTerm{}, s.terms...), o.terms...),

@@ -18,7 +18,13 @@ type Error struct {
 	Msg    string
 	Source string // the whole source line the position refers to; may be empty
 	Width  int    // number of carets; at least 1
+	// Cause, when set, is the reason behind the message that callers may
+	// test with errors.Is (work interrupted, or over its budget).
+	Cause error
 }
+
+// Unwrap returns the cause.
+func (e *Error) Unwrap() error { return e.Cause }
 
 // Errorf-like constructor.
 func NewError(pos Pos, src string, width int, msg string) *Error {

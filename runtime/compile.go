@@ -387,7 +387,9 @@ func (p *program) engineError(err error, compile bool) error {
 	}
 	var fe *file.Error
 	if !errors.As(err, &fe) {
-		return p.st.Errorf(p.off, 1, "%s", err)
+		e := p.st.Errorf(p.off, 1, "%s", err)
+		e.Cause = causeOf(err)
+		return e
 	}
 	msg := fe.Message
 	if fe.Prev != nil {
@@ -395,7 +397,9 @@ func (p *program) engineError(err error, compile bool) error {
 	} else if compile {
 		msg = tidySyntax(msg)
 	}
-	return p.errorAt(fe.Location, p.publicNames(msg))
+	e := p.errorAt(fe.Location, p.publicNames(msg))
+	e.Cause = causeOf(err)
+	return e
 }
 
 // placeholderName matches an identifier the pre-lexer or the patcher made.
@@ -457,6 +461,18 @@ func (s *Session) run(p *program) (Value, error) {
 	return normalize(out), nil
 }
 
+// causeOf keeps the reason a statement stopped (ErrInterrupted,
+// ErrBudget) on its positioned error; nil for anything else.
+func causeOf(err error) error {
+	switch {
+	case errors.Is(err, ErrInterrupted):
+		return ErrInterrupted
+	case errors.Is(err, ErrBudget):
+		return ErrBudget
+	}
+	return nil
+}
+
 // frameStack holds the argument lists of the active calls of one user
 // function (more than one when it recurses).
 type frameStack struct{ frames [][]Value }
@@ -476,8 +492,13 @@ func (s *Session) callFunc(p ...any) (any, error) {
 	for i, a := range p[1:] {
 		args[i] = normalize(a)
 	}
-	if err := s.Err(); err != nil { // interrupted: stop between calls
+	if err := s.Err(); err != nil {
 		return nil, err
+	}
+	if f.Body != "" {
+		if err := s.chargeCall(f.Name); err != nil {
+			return nil, err
+		}
 	}
 	s.depth++
 	defer func() { s.depth-- }()

@@ -16,6 +16,16 @@ type EvalError struct{ Msg string }
 
 func (e *EvalError) Error() string { return e.Msg }
 
+// causedError is an evaluation error that keeps the cause of a positioned
+// error it passes on (ErrInterrupted, ErrBudget), if any.
+type causedError struct {
+	msg   string
+	cause error
+}
+
+func (e *causedError) Error() string { return e.msg }
+func (e *causedError) Unwrap() error { return e.cause }
+
 func dimErr(format string, args ...any) error  { return &DimError{fmt.Sprintf(format, args...)} }
 func evalErr(format string, args ...any) error { return &EvalError{fmt.Sprintf(format, args...)} }
 

@@ -59,6 +59,10 @@ type Session struct {
 	help     map[string]*Help
 	// Digits is the number of significant digits shown (default 6).
 	Digits int
+	// Budget is the work budget of one statement, in seconds of work
+	// (default DefaultBudget; see EvalsPerSecond).
+	Budget float64
+	work   float64 // work charged in the running statement
 	// Transcript lists the statements evaluated without error.
 	Transcript []Entry
 	depth      int
@@ -92,6 +96,7 @@ func NewSession(lib Library) *Session {
 		help:     map[string]*Help{},
 		lib:      lib,
 		Digits:   DefaultDigits,
+		Budget:   DefaultBudget,
 	}
 	for _, f := range lib.Funcs {
 		s.vars[f.Name] = f
@@ -154,7 +159,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			res, err = nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "internal error (please report): %v", r)
 		}
 	}()
-	s.depth, s.tooDeep = 0, false
+	s.depth, s.tooDeep, s.work = 0, false, 0
 	s.interrupted.Store(false)
 	switch st.Kind {
 	case lang.Empty:
@@ -171,10 +176,12 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	v, err := s.run(p)
 	if err != nil && s.interrupted.Load() {
 		// One short message instead of the chain of calls it stopped in.
-		return nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "interrupted; nothing was changed")
+		e := st.Errorf(0, utf8.RuneCountInString(st.Text), "interrupted; nothing was changed")
+		e.Cause = ErrInterrupted
+		return nil, e
 	}
 	if err != nil {
-		return nil, err
+		return nil, s.stopped(st, err)
 	}
 	if err := checkResult(st, v); err != nil {
 		return nil, err
@@ -372,10 +379,10 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 		if err != nil {
 			var le *lang.Error
 			if errors.As(err, &le) {
-				if s.tooDeep && strings.HasPrefix(le.Msg, "in ") {
-					return nil, evalErr("%s", le.Msg) // one "in f(x)" is enough
+				if (s.tooDeep || le.Cause != nil) && strings.HasPrefix(le.Msg, "in ") {
+					return nil, &causedError{le.Msg, le.Cause} // one "in f(x)" is enough
 				}
-				return nil, evalErr("in %s (defined at %s, column %d): %s", f.Signature(), where, le.Pos.Col, le.Msg)
+				return nil, &causedError{fmt.Sprintf("in %s (defined at %s, column %d): %s", f.Signature(), where, le.Pos.Col, le.Msg), le.Cause}
 			}
 			return nil, err
 		}
@@ -393,6 +400,17 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 // command handles the commands that belong to the session itself.
 func (s *Session) command(st *lang.Statement) (*Result, error) {
 	switch st.Cmd {
+	case "budget":
+		x, err := strconv.ParseFloat(strings.TrimSuffix(strings.TrimSpace(st.Args), " s"), 64)
+		if err == nil {
+			err = s.SetBudget(x)
+		}
+		if err != nil {
+			return nil, st.Errorf(0, utf8.RuneCountInString(st.Text), ":budget needs a number of seconds from 0.001 to %g (now %g)", MaxBudget, s.Budget)
+		}
+		text := fmt.Sprintf("work budget %s a statement (about %s elementary evaluations)", Seconds(x), Count(s.limit()))
+		s.Transcript = append(s.Transcript, Entry{Line: st.Text})
+		return &Result{Stmt: st, Text: text}, nil
 	case "digits":
 		n, err := strconv.Atoi(st.Args)
 		if err != nil || n < 2 || n > 15 {
@@ -495,10 +513,28 @@ func (s *Session) CompileExpr(base lang.Pos, text string) (*Compiled, error) {
 	return &Compiled{s: s, p: p}, nil
 }
 
-// Eval evaluates the compiled expression.
+// Eval evaluates the compiled expression, with a work budget of its own
+// (as a statement has).
 func (c *Compiled) Eval() (Value, error) {
-	c.s.depth, c.s.tooDeep = 0, false
+	c.s.depth, c.s.tooDeep, c.s.work = 0, false, 0
 	return c.s.run(c.p)
+}
+
+// stopped gives an error of the running statement its cause when the
+// statement was interrupted or ran over its work budget: the message is
+// then "interrupted" (for the whole statement), or the budget's, and the
+// positioned error wraps ErrInterrupted or ErrBudget.
+func (s *Session) stopped(st *lang.Statement, err error) error {
+	le, ok := lang.AsError(err)
+	if s.interrupted.Load() || errors.Is(err, ErrInterrupted) {
+		e := st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "interrupted")
+		e.Cause = ErrInterrupted
+		return e
+	}
+	if ok && le.Cause == nil && errors.Is(err, ErrBudget) {
+		le.Cause = ErrBudget
+	}
+	return err
 }
 
 // markCycles sets Quantity.Cyc on a value of dimension s^-1 shown "as" or

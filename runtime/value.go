@@ -69,6 +69,16 @@ type Env interface {
 	// ErrInterrupted once it has been interrupted (Session.Interrupt, the
 	// prompt's Ctrl-C). Long work polls it and returns the error it gives.
 	Err() error
+	// Charge counts work the builtin is about to do, in elementary
+	// evaluations (see EvalsPerSecond), against the statement's work
+	// budget; it refuses (with a *BudgetError naming label) work that
+	// would not fit, and then charges nothing.
+	Charge(label string, evals float64) error
+	// Afford is Charge without charging: for an estimate whose work will
+	// be counted as it happens (a sweep of a user function).
+	Afford(label string, evals float64) error
+	// Spent is the work charged so far in the running statement.
+	Spent() float64
 }
 
 // ErrInterrupted is the error of work stopped by Session.Interrupt.

@@ -24,8 +24,17 @@ var DefaultTol = Tol{Rel: 1e-10}
 func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64) (float64, error) {
 	var sum float64
 	var ferr error
+	total, done := 0, 0 // quarter turns (or straight pieces), for progress
+	if tol.Progress != nil {
+		for _, p := range path.Prims {
+			total += len(primBreaks(p)) - 1
+		}
+	}
 	for _, p := range path.Prims {
 		p := p
+		if err := tol.stopped(); err != nil {
+			return 0, err
+		}
 		g := func(t float64) float64 {
 			if ferr != nil {
 				return 0
@@ -49,6 +58,9 @@ func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64)
 				return 0, err
 			}
 			sum += v
+			if done++; tol.Progress != nil {
+				tol.Progress(done, total)
+			}
 		}
 	}
 	return sum, nil
@@ -97,6 +109,7 @@ func FluxThroughLoop(srcs []Source, loop Path, tol Tol) (float64, error) {
 		return 0, ErrOpenPath
 	}
 	c := compile(srcs)
+	c.stop = tol.Stop
 	// scale: flux of the largest current through a loop of this size
 	var imax float64
 	for _, s := range srcs {
@@ -229,6 +242,7 @@ func NewSpanned(path Path) (Surface, error) {
 // quadrature.
 func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
 	c := compile(srcs)
+	c.stop = tol.Stop
 	var ferr error
 	f := func(u, v float64) float64 {
 		if ferr != nil {
@@ -257,7 +271,7 @@ func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
 // FluxUniform is the flux of a uniform field through a surface.
 func FluxUniform(b Vec, surf Surface, tol Tol) (float64, error) {
 	f := func(u, v float64) float64 { return r3.Dot(b, surf.Normal(u, v)) }
-	v, _, err := Integrate2(f, 0, 1, 0, 1, Tol{Rel: tol.Rel, Abs: tol.Rel * r3.Norm(b) * surf.Area * 1e-3})
+	v, _, err := Integrate2(f, 0, 1, 0, 1, tol.with(tol.Rel, tol.Rel*r3.Norm(b)*surf.Area*1e-3))
 	return v, err
 }
 
@@ -322,6 +336,12 @@ func coaxialCircles(p, q Prim) (a, b, d float64, ok bool) {
 	return p.R, q.R * sign, math.Abs(along), true
 }
 
+// CoaxialCircles reports whether p and q are full circles on one axis.
+func CoaxialCircles(p, q Prim) bool {
+	_, _, _, ok := coaxialCircles(p, q)
+	return ok
+}
+
 // MutualOptions tunes Mutual.
 type MutualOptions struct {
 	Tol Tol
@@ -345,7 +365,7 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 	}
 	tol := opt.Tol
 	if tol.Rel == 0 {
-		tol = DefaultTol
+		tol = tol.with(DefaultTol.Rel, DefaultTol.Abs)
 	}
 	var sum float64
 	var rest []Prim
@@ -368,6 +388,7 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 		return sum, nil
 	}
 	c := compile([]Source{{Path: p1, I: 1}})
+	c.stop = tol.Stop
 	scale := Mu0 * math.Min(p1.Size(), p2.Size())
 	v, err := lineIntegral(Path{Prims: rest}, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
 	if err != nil {
@@ -384,9 +405,10 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 // adaptive quadrature along path 2.
 func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 	c := compile(srcs)
+	c.stop = tol.Stop
 	var sum Vec
 	var ferr error
-	for _, p := range p2.Prims {
+	for k, p := range p2.Prims {
 		p := p
 		f := func(t float64) Vec {
 			if ferr != nil {
@@ -407,6 +429,9 @@ func Force(srcs []Source, p2 Path, i2 float64, tol Tol) (Vec, error) {
 			return Vec{}, err
 		}
 		sum = r3.Add(sum, v)
+		if tol.Progress != nil {
+			tol.Progress(k+1, len(p2.Prims))
+		}
 	}
 	return r3.Scale(i2, sum), nil
 }
@@ -455,7 +480,7 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 		return 0, errors.New("the path is empty")
 	}
 	if tol.Rel == 0 {
-		tol = DefaultTol
+		tol = tol.with(DefaultTol.Rel, DefaultTol.Abs)
 	}
 	for _, p := range path.Prims {
 		switch {
@@ -471,25 +496,42 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 	scale := path.scale()
 	nb := touchingPairs(path.Prims, scale)
 	all := compile([]Source{{Path: path, I: 1}})
+	all.stop = tol.Stop
 	terms := make([]float64, n)
 	errs := make([]error, n)
-	var next atomic.Int64
+	var next, done atomic.Int64
+	var stopErr atomic.Pointer[error]
+	var mu sync.Mutex
 	var wg sync.WaitGroup
+	progress := tol.Progress
+	tol.Progress = nil // the pieces report here, not their line integrals
 	for w := 0; w < min(runtime.GOMAXPROCS(0), n); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			skip := make([]bool, n)
 			for {
+				if err := tol.stopped(); err != nil {
+					stopErr.CompareAndSwap(nil, &err)
+					return
+				}
 				i := int(next.Add(1)) - 1
 				if i >= n {
 					return
 				}
 				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, tol, all, skip)
+				if d := done.Add(1); progress != nil {
+					mu.Lock()
+					progress(int(d), n)
+					mu.Unlock()
+				}
 			}
 		}()
 	}
 	wg.Wait()
+	if e := stopErr.Load(); e != nil {
+		return 0, *e
+	}
 	var lext float64
 	for i := range terms { // fixed order: the sum does not depend on scheduling
 		if errs[i] != nil {
@@ -612,7 +654,7 @@ func reducedPair(p, q Prim, a float64, tol Tol) (float64, error) {
 				return r3.Dot(p.Tangent(u), q.Tangent(v)) / math.Sqrt(r3.Dot(d, d)+a*a)
 			}
 			scale := p.Length() * q.Length() / math.Max(p.Length()+q.Length(), 1e-300)
-			v, _, err := Integrate2(f, bp[i], bp[i+1], bq[j], bq[j+1], Tol{Rel: tol.Rel, Abs: tol.Rel * scale * 1e-3})
+			v, _, err := Integrate2(f, bp[i], bp[i+1], bq[j], bq[j+1], tol.with(tol.Rel, tol.Rel*scale*1e-3))
 			if err = acceptLoose(err); err != nil {
 				return 0, err
 			}
@@ -682,7 +724,7 @@ func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
 	}
 	var sum float64
 	for i := 0; i+1 < len(pts); i++ {
-		v, _, err := Integrate(kern, pts[i], pts[i+1], Tol{Rel: tol.Rel, Abs: tol.Rel * R * 1e-3})
+		v, _, err := Integrate(kern, pts[i], pts[i+1], tol.with(tol.Rel, tol.Rel*R*1e-3))
 		if err = acceptLoose(err); err != nil {
 			return 0, err
 		}

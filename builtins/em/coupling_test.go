@@ -805,7 +805,7 @@ func TestSuperpositionAndParallel(t *testing.T) {
 		var ref []Vec
 		for _, workers := range []int{1, 2, 7} {
 			out := make([]Vec, len(pts))
-			if err := Fields(which, []Source{s1, s2}, pts, out, workers, nil); err != nil {
+			if err := Fields(which, []Source{s1, s2}, pts, out, workers, nil, nil); err != nil {
 				t.Fatal(err)
 			}
 			if ref == nil {
@@ -832,7 +832,7 @@ func TestSuperpositionAndParallel(t *testing.T) {
 	bad[1234] = Vec{X: 0.1, Y: 0.02}
 	for _, workers := range []int{1, 2, 7} {
 		out := make([]Vec, len(bad))
-		err := Fields(FieldB, []Source{s1, s2}, bad, out, workers, nil)
+		err := Fields(FieldB, []Source{s1, s2}, bad, out, workers, nil, nil)
 		var pe *PointError
 		if !errors.As(err, &pe) || !errors.Is(err, ErrOnWire) || pe.Index != 1234 || pe.Point != bad[1234] {
 			t.Errorf("workers=%d: error %v; want a PointError at index 1234 wrapping ErrOnWire", workers, err)
@@ -939,7 +939,7 @@ func BenchmarkSegmentsPoints(b *testing.B) {
 	out := make([]Vec, len(pts))
 	srcs := []Source{{Path: coil, I: 1}}
 	for b.Loop() {
-		if err := Fields(FieldB, srcs, pts, out, 0, nil); err != nil {
+		if err := Fields(FieldB, srcs, pts, out, 0, nil, nil); err != nil {
 			b.Fatal(err)
 		}
 	}

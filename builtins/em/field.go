@@ -252,7 +252,7 @@ func ArcB(p Prim, x Vec) (Vec, error) {
 		return Vec{}, ErrOnWire
 	}
 	if !p.IsCircle() && l.mc < closeToCircle {
-		return numericB(p, x)
+		return numericB(p, x, nil)
 	}
 	i3, c3, s3, _, _ := arcIntegrals(p, l)
 	f := k0 * p.R
@@ -281,7 +281,7 @@ func ArcA(p Prim, x Vec) (Vec, error) {
 		return Vec{}, ErrOnWire
 	}
 	if !p.IsCircle() && l.mc < closeToCircle {
-		return numericA(p, x)
+		return numericA(p, x, nil)
 	}
 	_, _, _, c1, s1 := arcIntegrals(p, l)
 	f := k0 * p.R
@@ -292,24 +292,25 @@ func ArcA(p Prim, x Vec) (Vec, error) {
 // 1e-12 of the result, or an absolute floor far below any field of interest.
 var fieldTol = Tol{Rel: 1e-12, Abs: 1e-30}
 
-// numericB integrates Biot–Savart along the exact primitive.
-func numericB(p Prim, x Vec) (Vec, error) {
+// numericB integrates Biot–Savart along the exact primitive; stop, if not
+// nil, may end the integral early with its error.
+func numericB(p Prim, x Vec, stop func() error) (Vec, error) {
 	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
 		return r3.Scale(k0/(n*n*n), r3.Cross(p.Tangent(t), r))
-	})
+	}, stop)
 }
 
 // numericA integrates μ0/4π ∫ dl/|x − r'| along the exact primitive.
-func numericA(p Prim, x Vec) (Vec, error) {
+func numericA(p Prim, x Vec, stop func() error) (Vec, error) {
 	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
 		return r3.Scale(k0/n, p.Tangent(t))
-	})
+	}, stop)
 }
 
 // numericAlong integrates kernel(x − r(t), |x − r(t)|, t) over the
 // primitive by adaptive quadrature per quarter turn; a sample on the wire
 // itself means the point is on the wire.
-func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec) (Vec, error) {
+func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec, stop func() error) (Vec, error) {
 	var bad bool
 	f := func(t float64) Vec {
 		r := r3.Sub(x, p.Point(t))
@@ -320,7 +321,9 @@ func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec) (Vec, err
 		}
 		return kernel(r, n, t)
 	}
-	v, _, err := IntegrateVecBreaks(f, primBreaks(p), fieldTol)
+	tol := fieldTol
+	tol.Stop = stop
+	v, _, err := IntegrateVecBreaks(f, primBreaks(p), tol)
 	if bad {
 		return Vec{}, ErrOnWire
 	}
@@ -342,7 +345,13 @@ func primBreaks(p Prim) []float64 {
 }
 
 // PrimB returns B at x of one primitive carrying 1 A.
-func PrimB(p Prim, x Vec) (Vec, error) {
+func PrimB(p Prim, x Vec) (Vec, error) { return primB(p, x, nil) }
+
+// PrimA returns A at x of one primitive carrying 1 A.
+func PrimA(p Prim, x Vec) (Vec, error) { return primA(p, x, nil) }
+
+// primB is PrimB whose numerical integral (of a helix) polls stop.
+func primB(p Prim, x Vec, stop func() error) (Vec, error) {
 	switch p.Kind {
 	case Segment:
 		return SegmentB(p.A, p.B, x)
@@ -352,12 +361,12 @@ func PrimB(p Prim, x Vec) (Vec, error) {
 		if helixOnWire(p, x) {
 			return Vec{}, ErrOnWire
 		}
-		return numericB(p, x)
+		return numericB(p, x, stop)
 	}
 }
 
-// PrimA returns A at x of one primitive carrying 1 A.
-func PrimA(p Prim, x Vec) (Vec, error) {
+// primA is PrimA whose numerical integral (of a helix) polls stop.
+func primA(p Prim, x Vec, stop func() error) (Vec, error) {
 	switch p.Kind {
 	case Segment:
 		return SegmentA(p.A, p.B, x)
@@ -367,7 +376,7 @@ func PrimA(p Prim, x Vec) (Vec, error) {
 		if helixOnWire(p, x) {
 			return Vec{}, ErrOnWire
 		}
-		return numericA(p, x)
+		return numericA(p, x, stop)
 	}
 }
 

@@ -50,6 +50,8 @@ type compiledSources struct {
 	// segIdx and othIdx number each entry by its place among all the
 	// primitives of all the sources, for masking (see atMasked).
 	segIdx, othIdx []int
+	// stop, if not nil, is polled by the numerical integrals of helices.
+	stop func() error
 }
 
 func compile(srcs []Source) *compiledSources {
@@ -137,9 +139,9 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 		var v Vec
 		var err error
 		if which == FieldB {
-			v, err = PrimB(p, x)
+			v, err = primB(p, x, c.stop)
 		} else {
-			v, err = PrimA(p, x)
+			v, err = primA(p, x, c.stop)
 		}
 		if err != nil {
 			return Vec{}, err
@@ -158,12 +160,15 @@ const chunk = 32
 // fixed order, so results do not depend on the number of workers. If any
 // point fails, the error of the lowest-numbered failing point is returned.
 // progress, if not nil, is called now and then with the number of points
-// done (from one goroutine at a time).
-func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress func(done int)) error {
+// done (from one goroutine at a time). stop, if not nil, is polled by every
+// worker before each chunk of points; once it returns an error all workers
+// end after their current chunk and Fields returns that error.
+func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress func(done int), stop func() error) error {
 	if len(out) != len(pts) {
 		return fmt.Errorf("em.Fields: %d points but %d outputs", len(pts), len(out))
 	}
 	c := compile(srcs)
+	c.stop = stop
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -172,18 +177,34 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 	var next, done atomic.Int64
 	var mu sync.Mutex
 	firstErr := &PointError{Index: -1}
+	var stopErr atomic.Pointer[error]
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for {
+				if stopErr.Load() != nil {
+					return
+				}
+				if stop != nil {
+					if err := stop(); err != nil {
+						stopErr.CompareAndSwap(nil, &err)
+						return
+					}
+				}
 				k := int(next.Add(1)) - 1
 				if k >= nChunks {
 					return
 				}
 				lo, hi := k*chunk, min((k+1)*chunk, len(pts))
 				for i := lo; i < hi; i++ {
+					if stop != nil && i > lo {
+						if err := stop(); err != nil {
+							stopErr.CompareAndSwap(nil, &err)
+							return
+						}
+					}
 					v, err := c.at(which, pts[i])
 					if err != nil {
 						mu.Lock()
@@ -205,6 +226,9 @@ func Fields(which Which, srcs []Source, pts, out []Vec, workers int, progress fu
 		}()
 	}
 	wg.Wait()
+	if e := stopErr.Load(); e != nil {
+		return *e
+	}
 	if firstErr.Index >= 0 {
 		return firstErr
 	}
@@ -227,6 +251,10 @@ type Evaluator struct {
 func NewEvaluator(which Which, srcs []Source) *Evaluator {
 	return &Evaluator{which: which, c: compile(srcs)}
 }
+
+// SetStop makes the numerical integrals of the evaluator's helices poll
+// stop and end with its error.
+func (e *Evaluator) SetStop(stop func() error) { e.c.stop = stop }
 
 // At returns the field at x.
 func (e *Evaluator) At(x Vec) (Vec, error) { return e.c.at(e.which, x) }

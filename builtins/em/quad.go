@@ -37,9 +37,33 @@ import (
 // bisection, so the count never exceeds MaxEval except that the initial rule
 // applications (15 calls per initial interval in one dimension, 225 per
 // rectangle in two) are always made.
+//
+// Stop and Progress are the caller's controls of long work; the zero value
+// has neither. Stop, when set, is polled before every bisection and between
+// the pieces of the line, surface and inductance loops; once it returns an
+// error the work ends and returns that error unchanged (a caller's
+// cancellation). Progress, when set, receives the pieces done and their
+// total from the loops over the pieces of a path (LineIntegral,
+// SelfInductance, Mutual); the quadratures themselves do not report.
 type Tol struct {
 	Rel, Abs float64
 	MaxEval  int
+	Stop     func() error
+	Progress func(done, total int)
+}
+
+// stopped polls tol.Stop.
+func (tol Tol) stopped() error {
+	if tol.Stop == nil {
+		return nil
+	}
+	return tol.Stop()
+}
+
+// with returns tol with other accuracy settings and the same controls.
+func (tol Tol) with(rel, abs float64) Tol {
+	tol.Rel, tol.Abs = rel, abs
+	return tol
 }
 
 // quadDefaultMaxEval is the integrand-call budget used when Tol.MaxEval is 0.
@@ -287,6 +311,9 @@ func quadAdapt[T quadPiece](h quadHeap[T], evals, maxEval, splitCost int, tol To
 	target := func(v r3.Vec) float64 { return math.Max(tol.Abs, tol.Rel*r3.Norm(v)) }
 	roundoff := 0
 	for iter := 1; ; iter++ {
+		if err := tol.stopped(); err != nil {
+			return r3.Vec{}, 0, evals, 0, err
+		}
 		if est <= target(val) || iter%quadRecompute == 0 {
 			slices.SortFunc(h, less)
 			heap.Init(&h)
@@ -359,6 +386,9 @@ func quadIntegrate1(f func(float64) r3.Vec, pts []float64, tol Tol) (r3.Vec, flo
 	for i := 1; i < len(pts); i++ {
 		if pts[i] == pts[i-1] {
 			continue
+		}
+		if err := tol.stopped(); err != nil {
+			return r3.Vec{}, 0, evals, 0, err
 		}
 		s, err := gkRule(f, pts[i-1], pts[i])
 		if err != nil {
@@ -767,6 +797,9 @@ func quadIntegrate3(f func(u, v, w float64) r3.Vec, boxes [][2][3]float64, tol T
 	h := make(quadHeap[quadCell], 0, 64)
 	evals := 0
 	for _, b := range boxes {
+		if err := tol.stopped(); err != nil {
+			return r3.Vec{}, 0, evals, 0, err
+		}
 		c, err := gkRule3(f, b[0], b[1], buf)
 		if err != nil {
 			return r3.Vec{}, 0, evals, 0, err

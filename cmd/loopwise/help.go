@@ -39,6 +39,9 @@ Commands
   :vars           list your variables and functions
   :units [text]   list the units (optionally only those matching text)
   :digits N       show N significant digits (default 6)
+  :budget S       the work one statement may do, in seconds (default 5; run,
+                  check and record: 60, or -budget S); work estimated to need
+                  more is refused before it starts
   :save FILE      save this session as a script that replays (statements and
                   results) in a new file; :save! FILE replaces an existing one
   :load FILE      evaluate a script into this session

@@ -28,6 +28,8 @@ const usage = `usage:
                                     (relative tolerance R, default 1e-9); exit 1 on drift
                                     or when a file holds no statement
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
+  run, check and record take -budget SECONDS: the work one statement may do
+  (default 60 s; at the prompt 5 s, changed with :budget SECONDS)
   loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
 Every command takes -h for its own usage.
@@ -35,20 +37,20 @@ Every command takes -h for its own usage.
 
 // commandUsage is what -h prints for each command.
 var commandUsage = map[string]string{
-	"run": `usage: loopwise run FILE|DIR...
+	"run": `usage: loopwise run [-budget SECONDS] FILE|DIR...
   Evaluate each script (directories are searched for *.lw) and print the
   worked calculation: statements, results and cautions. Stops a file at its
   first error (FILE:LINE:COL, the line and a caret) and exits 1.
-`,
-	"check": `usage: loopwise check [-tol R] FILE|DIR...
+` + budgetUsage,
+	"check": `usage: loopwise check [-tol R] [-budget SECONDS] FILE|DIR...
   Re-evaluate each script and compare every recorded result with the new
   one, numbers within the relative tolerance R (default 1e-9). Exits 1 and
   reports each drifted result when any differs.
-`,
-	"record": `usage: loopwise record FILE|DIR...
+` + budgetUsage,
+	"record": `usage: loopwise record [-budget SECONDS] FILE|DIR...
   Evaluate each script and write the new results into it, in place and
   atomically: on an error the file is left untouched.
-`,
+` + budgetUsage,
 	"version": `usage: loopwise version
   Print the version of this build: module version, source revision and Go
   version.
@@ -169,6 +171,10 @@ func load(path string) (*runtime.Script, error) {
 }
 
 func runFiles(args []string, stdout, stderr io.Writer) int {
+	args, budget, code := takeBudget("run", args, stderr)
+	if code != 0 {
+		return code
+	}
 	files, code := expand("run", args, stderr)
 	if code != 0 {
 		return code
@@ -183,7 +189,7 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 		}
 		sc, err := load(f)
 		if err == nil {
-			err = sc.Run(newSession(), stdout)
+			err = sc.Run(scriptSession(budget), stdout)
 		}
 		if err != nil {
 			fmt.Fprintln(stderr, err)
@@ -194,6 +200,10 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 }
 
 func checkFiles(args []string, stdout, stderr io.Writer) int {
+	args, budget, code := takeBudget("check", args, stderr)
+	if code != 0 {
+		return code
+	}
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
@@ -213,7 +223,7 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "loopwise check: -tol must be at least 0 and below 1, got %g\n", *tol)
 		return 2
 	}
-	files, code := expand("check", files, stderr)
+	files, code = expand("check", files, stderr)
 	if code != 0 {
 		return code
 	}
@@ -222,7 +232,7 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var rep runtime.CheckReport
 		if err == nil {
-			rep, err = sc.Check(newSession(), *tol)
+			rep, err = sc.Check(scriptSession(budget), *tol)
 		}
 		if err != nil {
 			if len(rep.Drifts) > 0 {
@@ -241,6 +251,10 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 }
 
 func recordFiles(args []string, stdout, stderr io.Writer) int {
+	args, budget, code := takeBudget("record", args, stderr)
+	if code != 0 {
+		return code
+	}
 	files, code := expand("record", args, stderr)
 	if code != 0 {
 		return code
@@ -250,7 +264,7 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var data []byte
 		if err == nil {
-			data, err = sc.Record(newSession())
+			data, err = sc.Record(scriptSession(budget))
 		}
 		if err == nil {
 			if werr := runtime.WriteFileAtomic(f, data); werr != nil {
