@@ -53,8 +53,11 @@ func takeBudget(cmd string, args []string, stderr io.Writer) (rest []string, bud
 
 // scriptSession is a session for run, check and record, with the given
 // work budget.
-func scriptSession(budget float64) *runtime.Session {
+func scriptSession(budget float64, progress io.Writer) *runtime.Session {
 	s := newSession()
 	s.Budget = budget
+	if progress != nil {
+		s.SetProgress(progressPrinter(progress))
+	}
 	return s
 }

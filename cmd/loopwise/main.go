@@ -189,7 +189,7 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 		}
 		sc, err := load(f)
 		if err == nil {
-			err = sc.Run(scriptSession(budget), stdout)
+			err = sc.Run(scriptSession(budget, stderr), stdout)
 		}
 		if err != nil {
 			fmt.Fprintln(stderr, err)
@@ -232,7 +232,7 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var rep runtime.CheckReport
 		if err == nil {
-			rep, err = sc.Check(scriptSession(budget), *tol)
+			rep, err = sc.Check(scriptSession(budget, stderr), *tol)
 		}
 		if err != nil {
 			if len(rep.Drifts) > 0 {
@@ -264,7 +264,7 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var data []byte
 		if err == nil {
-			data, err = sc.Record(scriptSession(budget))
+			data, err = sc.Record(scriptSession(budget, stderr))
 		}
 		if err == nil {
 			if werr := runtime.WriteFileAtomic(f, data); werr != nil {

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+	"sync"
 	"time"
 	"unicode"
 
@@ -296,6 +297,7 @@ func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
 		return terminalLoop(c)
 	}
+	c.s.SetProgress(progressPrinter(stderr))
 	lr := newLineReader(stdin)
 	quit := false
 	for !quit {
@@ -385,28 +387,54 @@ func isTerminal(f *os.File) bool {
 	return term.IsTerminal(int(f.Fd()))
 }
 
-// progressPrinter reports a long computation on w once it has run for a
-// second, rewriting one line, and clears it when done.
+// progressPrinter shows, on w, the progress of work that has run for more
+// than a second: on a terminal one line rewritten in place at most five
+// times a second and cleared when the work ends; elsewhere (a pipe, a log,
+// CI) a plain line at most every ten seconds. Reports may come from
+// several goroutines.
 func progressPrinter(w io.Writer) runtime.ProgressFunc {
-	var start time.Time
-	var label string
-	shown := false
+	f, ok := w.(*os.File)
+	return progressPrinterOn(w, ok && isTerminal(f), time.Now)
+}
+
+func progressPrinterOn(w io.Writer, tty bool, clock func() time.Time) runtime.ProgressFunc {
+	every := 10 * time.Second
+	if tty {
+		every = 200 * time.Millisecond
+	}
+	var (
+		mu          sync.Mutex
+		start, last time.Time
+		label       string
+		shown       bool
+	)
 	return func(l string, done, total int) {
+		mu.Lock()
+		defer mu.Unlock()
+		now := clock()
 		if l != label || done <= 0 || start.IsZero() {
-			label, start, shown = l, time.Now(), false
+			label, start, last, shown = l, now, time.Time{}, false
 		}
-		if time.Since(start) < time.Second {
+		if now.Sub(start) < time.Second {
 			return
 		}
 		if done >= total {
-			if shown {
+			if shown && tty {
 				fmt.Fprintf(w, "\r%s\r", strings.Repeat(" ", 60))
 			}
 			start = time.Time{}
 			return
 		}
-		shown = true
-		fmt.Fprintf(w, "\r%s: %d of %d points (%d%%)", label, done, total, 100*done/max(total, 1))
+		if !last.IsZero() && now.Sub(last) < every {
+			return
+		}
+		last, shown = now, true
+		pct := 100 * done / max(total, 1)
+		if tty {
+			fmt.Fprintf(w, "\r%s: %d%% (%d of %d)", label, pct, done, total)
+		} else {
+			fmt.Fprintf(w, "%s: %d%% (%d of %d) after %.0f s\n", label, pct, done, total, now.Sub(start).Seconds())
+		}
 	}
 }
 

@@ -35,7 +35,7 @@ func TestSamples(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			rep, err := sc.Check(scriptSession(runtime.ScriptBudget), runtime.DefaultTolerance)
+			rep, err := sc.Check(scriptSession(runtime.ScriptBudget, nil), runtime.DefaultTolerance)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -45,7 +45,7 @@ func TestSamples(t *testing.T) {
 			var b strings.Builder
 			rep.Write(&b, f)
 			t.Error(b.String())
-			fresh, err := sc.Record(scriptSession(runtime.ScriptBudget))
+			fresh, err := sc.Record(scriptSession(runtime.ScriptBudget, nil))
 			if err == nil && !bytes.Equal(fresh, data) {
 				out := f + ".new"
 				if os.WriteFile(out, fresh, 0o644) == nil {
