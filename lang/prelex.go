@@ -134,7 +134,10 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			i = j
 		case strings.ContainsRune(badChars, c):
 			return nil, errAt(i, 1, "unexpected character %q", c)
-		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
+		case unicode.IsDigit(c) && !isDigit(c):
+			// a digit of another script: expr would read it as a name
+			return nil, errAt(i, 1, "unexpected character %q; numbers are written with the digits 0 to 9", c)
+		case isDigit(c) || (c == '.' && i+1 < len(r) && isDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
 			k := i - 1 // the '.' before the number, spaces allowed: "v. 0"
 			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r') {
 				k--
@@ -263,12 +266,12 @@ func unitWordEnd(r []rune, k int) int {
 func scanNumber(r []rune, i int) int {
 	j := i
 	digits := func() {
-		for j < len(r) && (unicode.IsDigit(r[j]) || (r[j] == '_' && j+1 < len(r) && unicode.IsDigit(r[j+1]))) {
+		for j < len(r) && (isDigit(r[j]) || (r[j] == '_' && j+1 < len(r) && isDigit(r[j+1]))) {
 			j++
 		}
 	}
 	digits()
-	if j+1 < len(r) && r[j] == '.' && unicode.IsDigit(r[j+1]) {
+	if j+1 < len(r) && r[j] == '.' && isDigit(r[j+1]) {
 		j++
 		digits()
 	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && !isIdentStart(safe(r, j+1)) {
@@ -279,7 +282,7 @@ func scanNumber(r []rune, i int) int {
 		if k < len(r) && (r[k] == '+' || r[k] == '-') {
 			k++
 		}
-		if k < len(r) && unicode.IsDigit(r[k]) {
+		if k < len(r) && isDigit(r[k]) {
 			j = k
 			digits()
 		}
@@ -351,14 +354,14 @@ func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
 			p++
 		}
 		q := p
-		for q < len(r) && unicode.IsDigit(r[q]) {
+		for q < len(r) && isDigit(r[q]) {
 			q++
 		}
 		// a fractional power ("m^0.5") is taken whole so that the unit
 		// parser can reject it with a clear message
-		if q > p && q+1 < len(r) && r[q] == '.' && unicode.IsDigit(r[q+1]) {
+		if q > p && q+1 < len(r) && r[q] == '.' && isDigit(r[q+1]) {
 			q++
-			for q < len(r) && unicode.IsDigit(r[q]) {
+			for q < len(r) && isDigit(r[q]) {
 				q++
 			}
 		}
@@ -368,3 +371,6 @@ func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
 	}
 	return e, true
 }
+
+// isDigit reports an ASCII digit: numbers are written with 0 to 9 only.
+func isDigit(c rune) bool { return c >= '0' && c <= '9' }
