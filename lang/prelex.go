@@ -164,6 +164,11 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 					emit("0", i)
 				}
 				copyRange(i, j)
+				if _, err := strconv.ParseInt(num, 10, 64); err != nil && strings.Trim(num, "0123456789") == "" {
+					// a whole number beyond int64: the engine would refuse it
+					// as an integer, so it is read as a decimal number
+					emit(".0", j-1)
+				}
 				i = j
 				continue
 			}
