@@ -239,6 +239,11 @@ func TestMalformedInputs(t *testing.T) {
 			}
 			for _, c := range cases {
 				t.Run(c.name, func(t *testing.T) {
+					for _, bad := range []string{"ok", "setup failed", "not positioned", "internal text", "wrong file"} {
+						if strings.HasPrefix(c.wantRaw, bad) {
+							t.Errorf("%s:%d %s: pins %q, which is not a positioned error", c.file, c.line, c.name, c.wantRaw)
+						}
+					}
 					full := c.answer(t)
 					a := c.compress(full)
 					got[c] = a
