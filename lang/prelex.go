@@ -139,7 +139,7 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			return nil, errAt(i, 1, "unexpected character %q; numbers are written with the digits 0 to 9", c)
 		case isDigit(c) || (c == '.' && i+1 < len(r) && isDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
 			k := i - 1 // the '.' before the number, spaces allowed: "v. 0"
-			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r') {
+			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r' || r[k] == '\n') {
 				k--
 			}
 			if c != '.' && k >= 0 && r[k] == '.' && (k < 1 || r[k-1] != '.') {
@@ -148,6 +148,10 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			j := scanNumber(r, i)
 			num := strings.ReplaceAll(string(r[i:j]), "_", "")
+			if j+1 < len(r) && r[j] == '.' && isIdentStart(r[j+1]) && !exponentAt(r, j+1) {
+				// "0.e", "2.m": the engine would read a broken number
+				return nil, errAt(j, 1, "a decimal point must be followed by a digit, as in %s.0", num)
+			}
 			us, ue, err := unitAfter(j)
 			if err != nil {
 				return nil, err
@@ -279,8 +283,8 @@ func scanNumber(r []rune, i int) int {
 	if j+1 < len(r) && r[j] == '.' && isDigit(r[j+1]) {
 		j++
 		digits()
-	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && !isIdentStart(safe(r, j+1)) {
-		j++ // "5." is a number
+	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && (!isIdentStart(safe(r, j+1)) || exponentAt(r, j+1)) {
+		j++ // "5." and "5.e3" are numbers
 	}
 	if j < len(r) && (r[j] == 'e' || r[j] == 'E') {
 		k := j + 1
@@ -379,3 +383,16 @@ func scanFactor(r []rune, k int, units UnitNames) (int, bool) {
 
 // isDigit reports an ASCII digit: numbers are written with 0 to 9 only.
 func isDigit(c rune) bool { return c >= '0' && c <= '9' }
+
+// exponentAt reports a complete decimal exponent at r[k:]: e or E, an
+// optional sign, a digit ("1.e-3" is a number).
+func exponentAt(r []rune, k int) bool {
+	if k >= len(r) || (r[k] != 'e' && r[k] != 'E') {
+		return false
+	}
+	k++
+	if k < len(r) && (r[k] == '+' || r[k] == '-') {
+		k++
+	}
+	return k < len(r) && isDigit(r[k])
+}
