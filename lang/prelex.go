@@ -136,9 +136,12 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			return nil, errAt(i, 1, "a carriage return (CR) in the middle of a line; lines end with LF or CR LF")
 		case strings.ContainsRune(badChars, c):
 			return nil, errAt(i, 1, "unexpected character %q", c)
-		case unicode.IsDigit(c) || (c == '.' && i+1 < len(r) && unicode.IsDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
+		case unicode.IsDigit(c) && !isDigit(c):
+			// a digit of another script: expr would read it as a name
+			return nil, errAt(i, 1, "unexpected character %q; numbers are written with the digits 0 to 9", c)
+		case isDigit(c) || (c == '.' && i+1 < len(r) && isDigit(r[i+1]) && (i == 0 || !strings.ContainsRune(".)]", r[i-1]) && !isIdentPart(r[i-1]))):
 			k := i - 1 // the '.' before the number, spaces allowed: "v. 0"
-			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r') {
+			for k >= 0 && (r[k] == ' ' || r[k] == '\t' || r[k] == '\r' || r[k] == '\n') {
 				k--
 			}
 			if c != '.' && k >= 0 && r[k] == '.' && (k < 1 || r[k-1] != '.') {
@@ -147,6 +150,10 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			j := scanNumber(r, i)
 			num := strings.ReplaceAll(string(r[i:j]), "_", "")
+			if j+1 < len(r) && r[j] == '.' && isIdentStart(r[j+1]) && !exponentAt(r, j+1) {
+				// "0.e", "2.m": the engine would read a broken number
+				return nil, errAt(j, 1, "a decimal point must be followed by a digit, as in %s.0", num)
+			}
 			us, ue, err := unitAfter(j)
 			if err != nil {
 				return nil, err
@@ -163,6 +170,11 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 					emit("0", i)
 				}
 				copyRange(i, j)
+				if _, err := strconv.ParseInt(num, 10, 64); err != nil && strings.Trim(num, "0123456789") == "" {
+					// a whole number beyond int64: the engine would refuse it
+					// as an integer, so it is read as a decimal number
+					emit(".0", j-1)
+				}
 				i = j
 				continue
 			}
@@ -279,23 +291,23 @@ func unitWordEnd(r []rune, k int) int {
 func scanNumber(r []rune, i int) int {
 	j := i
 	digits := func() {
-		for j < len(r) && (unicode.IsDigit(r[j]) || (r[j] == '_' && j+1 < len(r) && unicode.IsDigit(r[j+1]))) {
+		for j < len(r) && (isDigit(r[j]) || (r[j] == '_' && j+1 < len(r) && isDigit(r[j+1]))) {
 			j++
 		}
 	}
 	digits()
-	if j+1 < len(r) && r[j] == '.' && unicode.IsDigit(r[j+1]) {
+	if j+1 < len(r) && r[j] == '.' && isDigit(r[j+1]) {
 		j++
 		digits()
-	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && !isIdentStart(safe(r, j+1)) {
-		j++ // "5." is a number
+	} else if j < len(r) && r[j] == '.' && (j+1 >= len(r) || r[j+1] != '.') && (!isIdentStart(safe(r, j+1)) || exponentAt(r, j+1)) {
+		j++ // "5." and "5.e3" are numbers
 	}
 	if j < len(r) && (r[j] == 'e' || r[j] == 'E') {
 		k := j + 1
 		if k < len(r) && (r[k] == '+' || r[k] == '-') {
 			k++
 		}
-		if k < len(r) && unicode.IsDigit(r[k]) {
+		if k < len(r) && isDigit(r[k]) {
 			j = k
 			digits()
 		}
@@ -370,14 +382,14 @@ func scanFactor(r []rune, k int, units UnitNames, depth int) (int, bool) {
 			p++
 		}
 		q := p
-		for q < len(r) && unicode.IsDigit(r[q]) {
+		for q < len(r) && isDigit(r[q]) {
 			q++
 		}
 		// a fractional power ("m^0.5") is taken whole so that the unit
 		// parser can reject it with a clear message
-		if q > p && q+1 < len(r) && r[q] == '.' && unicode.IsDigit(r[q+1]) {
+		if q > p && q+1 < len(r) && r[q] == '.' && isDigit(r[q+1]) {
 			q++
-			for q < len(r) && unicode.IsDigit(r[q]) {
+			for q < len(r) && isDigit(r[q]) {
 				q++
 			}
 		}
@@ -386,4 +398,20 @@ func scanFactor(r []rune, k int, units UnitNames, depth int) (int, bool) {
 		}
 	}
 	return e, true
+}
+
+// isDigit reports an ASCII digit: numbers are written with 0 to 9 only.
+func isDigit(c rune) bool { return c >= '0' && c <= '9' }
+
+// exponentAt reports a complete decimal exponent at r[k:]: e or E, an
+// optional sign, a digit ("1.e-3" is a number).
+func exponentAt(r []rune, k int) bool {
+	if k >= len(r) || (r[k] != 'e' && r[k] != 'E') {
+		return false
+	}
+	k++
+	if k < len(r) && (r[k] == '+' || r[k] == '-') {
+		k++
+	}
+	return k < len(r) && isDigit(r[k])
 }

@@ -113,7 +113,7 @@ var errorCases = []errorCase{
 		msg:   `an exponent must be dimensionless, not length (m)`,
 		caret: "    ^"},
 	{name: "vector plus scalar", in: "[0,0,5] mm + 1 m", col: 12,
-		msg:   `cannot add a vector of length (m) and length (m)`,
+		msg:   `cannot add a vector of length (m) and a single length (m)`,
 		caret: "           ^"},
 	{name: "function plus number", in: "I + 1", col: 3,
 		msg:   `cannot add the function I and a plain number`,

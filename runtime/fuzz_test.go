@@ -4,7 +4,6 @@ import (
 	"errors"
 	"strings"
 	"testing"
-	"unicode/utf8"
 
 	"loopwise/lang"
 	"loopwise/runtime"
@@ -53,10 +52,13 @@ var validStatements = []string{
 	"count = 3",
 }
 
-// FuzzEval checks that Eval never panics and that every error it returns is
-// a *lang.Error on the given line (or, for input holding newlines, on the
-// line of the error) with a column inside that line (or just past its end). A recovered panic shows as "internal error"; that must not
-// happen either.
+// FuzzEval evaluates any text as one statement (continued over lines when
+// it holds newlines) in a session with a few names defined. It fails on a
+// panic (the session reports a recovered one as "internal error"), on a
+// statement that runs past the hang guard, on a nil or non-finite result,
+// on an error that is not a positioned *lang.Error on a line of the
+// statement, and on an internal name in a message or a shown result. A
+// successful assignment is read back by name and must show the same text.
 func FuzzEval(f *testing.F) {
 	for _, tc := range errorCases {
 		f.Add(tc.in)
@@ -64,45 +66,32 @@ func FuzzEval(f *testing.F) {
 	for _, in := range validStatements {
 		f.Add(in)
 	}
+	for _, in := range namedInputs {
+		f.Add(in)
+	}
 	f.Fuzz(func(t *testing.T, in string) {
 		s := newTestSession(t, nil)
 		base := lang.Pos{File: "t.lw", Line: 3, Col: 1}
-		res, err := s.Eval(base, in)
-		if err == nil {
-			// a statement gives a value or an error, never nothing
-			if k := res.Stmt.Kind; (k == lang.Expr || k == lang.Assign) && res.Value == nil {
-				t.Fatalf("Eval(%q) gave no value and no error", in)
-			}
-			if k := res.Stmt.Kind; (k == lang.Expr || k == lang.Assign) && strings.Contains(res.Text, "nil") {
-				t.Fatalf("Eval(%q) shows %q", in, res.Text)
-			}
-			return
-		}
+		res, err := evalBounded(t, s, base, in)
 		if errors.Is(err, runtime.ErrNotSessionCommand) {
 			return
 		}
-		var le *lang.Error
-		if !errors.As(err, &le) {
-			t.Fatalf("Eval(%q) error %T %q is not a *lang.Error", in, err, err)
+		lines := append([]string{"", ""}, strings.Split(in, "\n")...)
+		if err != nil {
+			checkError(t, "Eval", in, err, base.File, base.Line, len(lines), lines)
+			var le *lang.Error
+			if errors.As(err, &le) && len(lines) > 3 && le.Source != string([]rune(lines[le.Pos.Line-1])) {
+				t.Fatalf("Eval(%q) error shows %q, want its line %q", in, le.Source, lines[le.Pos.Line-1])
+			}
+			return
 		}
-		if strings.Contains(le.Msg, "internal error") {
-			t.Fatalf("Eval(%q) recovered a panic or met a guard: %v", in, err)
-		}
-		if leaksName(le.Msg) {
-			t.Fatalf("Eval(%q) message shows an internal __ name: %v", in, err)
-		}
-		// A statement continued over lines (it holds newlines) reports on
-		// the line where the error is, counted from base.
-		lines := strings.Split(in, "\n")
-		k := le.Pos.Line - base.Line
-		if k < 0 || k >= len(lines) || le.Pos.File != base.File {
-			t.Fatalf("Eval(%q) error at %v, want one of lines %d..%d of t.lw", in, le.Pos, base.Line, base.Line+len(lines)-1)
-		}
-		if n := utf8.RuneCountInString(lines[k]); le.Pos.Col < 1 || le.Pos.Col > n+1 {
-			t.Fatalf("Eval(%q) error column %d outside 1..%d: %v", in, le.Pos.Col, n+1, err)
-		}
-		if want := string([]rune(lines[k])); len(lines) > 1 && le.Source != want {
-			t.Fatalf("Eval(%q) error shows %q, want its line %q", in, le.Source, want)
+		checkResult(t, "Eval", in, res)
+		if res.Stmt.Kind == lang.Assign {
+			again, err := evalBounded(t, s, lang.Pos{File: "t.lw", Line: 9, Col: 1}, res.Stmt.Name)
+			if err != nil {
+				t.Fatalf("Eval(%q) assigned %s, which then fails: %v", in, res.Stmt.Name, err)
+			}
+			checkResult(t, "Eval", res.Stmt.Name, again)
 		}
 	})
 }

@@ -78,7 +78,17 @@ func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 			return checkFiniteVec(Vector{[3]float64{x.V[0] + sign*y.V[0], x.V[1] + sign*y.V[1], x.V[2] + sign*y.V[2]}, x.D})
 		}
 	}
-	return nil, dimErr("cannot %s %s and %s", verb, TypeName(a), TypeName(b))
+	return nil, dimErr("cannot %s %s and %s", verb, sumTerm(a), sumTerm(b))
+}
+
+// sumTerm names a term of a sum that does not fit the other: a single
+// quantity is called one, so that it reads apart from a vector of the
+// same dimension ("a vector of length (m) and a single length (m)").
+func sumTerm(v Value) string {
+	if q, ok := v.(Quantity); ok && !q.D.IsZero() {
+		return "a single " + q.D.Describe()
+	}
+	return TypeName(v)
 }
 
 // dimOf returns the dimension of a quantity or vector.

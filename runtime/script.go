@@ -14,6 +14,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"loopwise/lang"
 )
@@ -194,6 +195,15 @@ func ParseScript(path string, data []byte) (*Script, error) {
 	for i, l := range sc.Lines {
 		if strings.HasSuffix(l, "\r") {
 			sc.Lines[i], sc.crlf[i] = strings.TrimSuffix(l, "\r"), true
+		}
+		// A carriage return alone ends a line in CommonMark (old Mac
+		// files); record could not keep such endings, so refuse the file
+		// rather than read it as one long line with no block in it.
+		if j := strings.IndexByte(sc.Lines[i], '\r'); j >= 0 {
+			line := sc.Lines[i][:j]
+			return nil, &lang.Error{Pos: lang.Pos{File: path, Line: i + 1, Col: utf8.RuneCountInString(line) + 1},
+				Msg:    "a carriage return alone ends a line here (old Mac line endings); Loopwise reads scripts with LF or CR LF line endings: convert the file",
+				Source: line, Width: 1}
 		}
 	}
 	sc.block = make([]bool, len(sc.Lines))

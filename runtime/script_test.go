@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"loopwise/builtins"
 	"loopwise/lang"
@@ -459,51 +460,86 @@ func TestWriteFileAtomicKeepsModeAndLinks(t *testing.T) {
 	}
 }
 
-// FuzzScript checks that reading, recording and checking any text never
-// panics, that every error is a positioned *lang.Error or a
-// NoStatementsError, and that a script just recorded checks clean.
+// FuzzScript reads any text as a script, runs it, checks it against what
+// it records and records it. It fails on a panic, on a run past the hang
+// guard, on an error that is neither a positioned *lang.Error on a line of
+// the file (without internal names) nor a NoStatementsError, on "<nil>",
+// NaN, an infinity or an internal name in what a run shows or a record
+// writes, and on a freshly recorded script that does not read back or does
+// not check clean.
 func FuzzScript(f *testing.F) {
 	f.Add("```lw\na = 2 m\n```\n")
 	f.Add("~~~~ lw\nf(x) = 2 A * x\nsweep(f, 0 m, 1 m, 3)\n~~~~\n")
 	f.Add("```lw\nV = 230 V\nv = [1 m,\n 2 m, 3 m]\n```")
 	f.Add("# x\r\n```lw\r\na = (1 m +\r\n  2 m)\r\n↳ 3 m\r\n│ x\r\n```\r\n")
 	f.Add(runtime.ByteOrderMark + "```lw\nx = 5 mm^1e9\ny = 0A^0A\n```\n")
+	f.Add("```lw\nloop = circle([0,0,0] m, [0,0,1], 1 cm)\nb_at(source(loop, 1 A), [0,0,0] m)\n↳ 1 T\n```\n")
+	f.Add("text\n  ```lw extra\n  x: mm = 2 m\n  x\n  ```\n```lw\n:digits 3\n```\n")
 	f.Fuzz(func(t *testing.T, text string) {
-		okErr := func(err error) bool {
-			var le *lang.Error
+		lines := strings.Split(text, "\n")
+		okErr := func(what string, err error) {
+			t.Helper()
 			var none *runtime.NoStatementsError
-			if errors.As(err, &le) && (strings.Contains(le.Msg, "internal error") || leaksName(le.Msg)) {
-				return false
+			if err == nil || errors.As(err, &none) {
+				return
 			}
-			return err == nil || errors.As(err, &le) || errors.As(err, &none)
+			checkError(t, what, text, err, "t.lw", 1, len(lines), lines)
+		}
+		clean := func(what, out string) {
+			t.Helper()
+			for _, l := range strings.Split(out, "\n") {
+				if strings.Contains(text, l) {
+					continue // the script's own text
+				}
+				if m := nonFiniteRe.FindString(l); m != "" {
+					t.Fatalf("%s(%q) shows %q: %q", what, text, m, l)
+				}
+				if bad := internalName(text, l); bad != "" {
+					t.Fatalf("%s(%q) shows internal text %q: %q", what, text, bad, l)
+				}
+			}
+		}
+		bounded := func(what string, s *runtime.Session, work func()) {
+			t.Helper()
+			done := make(chan struct{})
+			go func() { work(); close(done) }()
+			select {
+			case <-done:
+			case <-time.After(hangLimit):
+				s.Interrupt()
+				t.Fatalf("%s(%.200q… %d bytes) still running after %v", what, text, len(text), hangLimit)
+			}
 		}
 		sc, err := runtime.ParseScript("t.lw", []byte(text))
 		if err != nil {
-			if !okErr(err) {
-				t.Fatalf("ParseScript(%q): %T %v", text, err, err)
-			}
+			okErr("ParseScript", err)
 			return
 		}
-		if _, err := sc.Check(stdSession(), 1e-9); !okErr(err) {
-			t.Fatalf("Check(%q): %T %v", text, err, err)
-		}
-		out, err := sc.Record(stdSession())
+		var out strings.Builder
+		s := stdSession()
+		bounded("Run", s, func() { err = sc.Run(s, &out) })
+		okErr("Run", err)
+		clean("Run", out.String())
+		s = stdSession()
+		bounded("Check", s, func() { _, err = sc.Check(s, 1e-9) })
+		okErr("Check", err)
+		var rec []byte
+		s = stdSession()
+		bounded("Record", s, func() { rec, err = sc.Record(s) })
 		if err != nil {
-			if !okErr(err) {
-				t.Fatalf("Record(%q): %T %v", text, err, err)
-			}
+			okErr("Record", err)
 			return
 		}
-		if !strings.Contains(text, "nil") && strings.Contains(string(out), "nil") {
-			t.Fatalf("recorded text of %q shows a missing value:\n%s", text, out)
-		}
-		again, err := runtime.ParseScript("t.lw", out)
+		clean("Record", string(rec))
+		again, err := runtime.ParseScript("t.lw", rec)
 		if err != nil {
-			t.Fatalf("recorded text of %q does not parse: %v\n%s", text, err, out)
+			t.Fatalf("recorded text of %q does not parse: %v\n%s", text, err, rec)
 		}
-		rep, err := again.Check(stdSession(), 1e-9)
+		var rep runtime.CheckReport
+		s = stdSession()
+		bounded("Check", s, func() { rep, err = again.Check(s, 1e-9) })
 		if err != nil || len(rep.Drifts) != 0 {
-			t.Fatalf("recorded text of %q does not check clean (%v):\n%s\n%s", text, err, report(rep), out)
+			t.Fatalf("recorded text of %q does not check clean (%v):\n%s\n%s", text, err, report(rep), rec)
 		}
 	})
 }

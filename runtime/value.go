@@ -160,6 +160,9 @@ func TypeName(v Value) string {
 		}
 		return x.D.Describe()
 	case Vector:
+		if x.D.IsZero() {
+			return "a vector of plain numbers"
+		}
 		return "a vector of " + x.D.Describe()
 	case *Func:
 		return "the function " + x.Name
