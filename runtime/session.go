@@ -158,6 +158,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			// against the statement instead of crashing the session.
 			res, err = nil, st.Errorf(0, utf8.RuneCountInString(st.Text), "internal error (please report): %v", r)
 		}
+		if s.progress != nil {
+			s.progress("", 0, -1) // the statement has ended
+		}
 	}()
 	s.depth, s.tooDeep, s.work = 0, false, 0
 	s.interrupted.Store(false)
@@ -424,7 +427,9 @@ func (s *Session) command(st *lang.Statement) (*Result, error) {
 	return nil, ErrNotSessionCommand
 }
 
-// ProgressFunc, when set, receives progress reports of long builtins.
+// ProgressFunc, when set, receives progress reports of long builtins, and
+// one call with total < 0 when a statement ends (so that a progress line
+// can be cleared before the result or the error is shown).
 type ProgressFunc func(label string, done, total int)
 
 // SetProgress installs a progress reporter (the prompt's).

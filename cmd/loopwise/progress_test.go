@@ -42,4 +42,16 @@ func TestProgressPrinter(t *testing.T) {
 	if !strings.HasSuffix(got, "\r"+strings.Repeat(" ", 60)+"\r") {
 		t.Errorf("on a terminal the line is not cleared at the end: %q", got)
 	}
+
+	// a statement that ends early (an error, Ctrl-C) clears its line too
+	tty.Reset()
+	p = progressPrinterOn(&tty, true, clock)
+	now = t0
+	p("flux", 0, 100)
+	now = t0.Add(2 * time.Second)
+	p("flux", 30, 100)
+	p("", 0, -1)
+	if got := tty.String(); got != "\rflux: 30% (30 of 100)\r"+strings.Repeat(" ", 60)+"\r" {
+		t.Errorf("an ended statement leaves %q", got)
+	}
 }

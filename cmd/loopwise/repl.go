@@ -412,6 +412,13 @@ func progressPrinterOn(w io.Writer, tty bool, clock func() time.Time) runtime.Pr
 		mu.Lock()
 		defer mu.Unlock()
 		now := clock()
+		if total < 0 { // the statement ended: clear a line left standing
+			if shown && tty {
+				fmt.Fprintf(w, "\r%s\r", strings.Repeat(" ", 60))
+			}
+			label, start, shown = "", time.Time{}, false
+			return
+		}
 		if l != label || done <= 0 || start.IsZero() {
 			label, start, last, shown = l, now, time.Time{}, false
 		}
