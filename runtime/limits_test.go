@@ -269,3 +269,27 @@ func TestParseUnitNesting(t *testing.T) {
 		t.Errorf("2 000 000 levels: %#v", err)
 	}
 }
+
+// TestOutputPath: builtins write only inside the session's output
+// directory; names that would leave it are refused, and a session without
+// one writes nothing.
+func TestOutputPath(t *testing.T) {
+	s := runtime.NewSession(runtime.Library{})
+	if _, err := s.OutputPath("a.svg"); err != runtime.ErrNoOutput {
+		t.Errorf("no output directory: %v", err)
+	}
+	dir := t.TempDir()
+	s.OutDir = filepath.Join(dir, "coil-out")
+	p, err := s.OutputPath("plots/b.svg")
+	if err != nil || p != filepath.Join(dir, "coil-out", "plots", "b.svg") {
+		t.Errorf("OutputPath = %q, %v", p, err)
+	}
+	if fi, err := os.Stat(filepath.Join(dir, "coil-out", "plots")); err != nil || !fi.IsDir() {
+		t.Errorf("directory not created: %v", err)
+	}
+	for _, bad := range []string{"../x.svg", "/etc/x.svg", "a/../../x.svg", "..", "", "."} {
+		if _, err := s.OutputPath(bad); err == nil {
+			t.Errorf("OutputPath(%q) accepted", bad)
+		}
+	}
+}

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"sort"
 	"strconv"
 	"strings"
@@ -71,6 +73,26 @@ type Session struct {
 	// interrupted is set by Interrupt (from another goroutine, such as a
 	// signal handler) and cleared when the next statement starts.
 	interrupted atomic.Bool
+	// OutDir is where builtins may write files (plots, exports); empty
+	// means the session writes none. The command sets it.
+	OutDir string
+}
+
+// OutputPath implements Env: name must be a plain relative path that stays
+// inside s.OutDir (no "..", not absolute); the directory is created.
+func (s *Session) OutputPath(name string) (string, error) {
+	if s.OutDir == "" {
+		return "", ErrNoOutput
+	}
+	clean := filepath.Clean(filepath.FromSlash(name))
+	if name == "" || filepath.IsAbs(clean) || clean == "." || clean == ".." || strings.HasPrefix(clean, ".."+string(filepath.Separator)) || filepath.VolumeName(clean) != "" {
+		return "", fmt.Errorf("the file name %q leaves the output directory %s; give a plain name such as field.svg", name, s.OutDir)
+	}
+	full := filepath.Join(s.OutDir, clean)
+	if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
+		return "", err
+	}
+	return full, nil
 }
 
 // Interrupt asks the running statement to stop: long builtins see it

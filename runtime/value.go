@@ -54,6 +54,13 @@ type Tabular interface {
 	Tabulate() (cols []string, dims []Dim, rows [][]float64)
 }
 
+// Picture is implemented by values that draw themselves (plots): the
+// report inlines the SVG; replay compares their data through Tabular.
+type Picture interface {
+	Tabular
+	SVG() ([]byte, error)
+}
+
 // Adder is implemented by builtin values that can be added with + (sources
 // superpose).
 type Adder interface {
@@ -79,7 +86,15 @@ type Env interface {
 	Afford(label string, evals float64) error
 	// Spent is the work charged so far in the running statement.
 	Spent() float64
+	// OutputPath gives the path where a builtin may write the file name:
+	// inside the session's output directory, created on first use. A name
+	// that would leave the directory is refused; with no output directory
+	// (check, piped input), ErrNoOutput.
+	OutputPath(name string) (string, error)
 }
+
+// ErrNoOutput is OutputPath's error when the session writes no files.
+var ErrNoOutput = errors.New("this session writes no files")
 
 // ErrInterrupted is the error of work stopped by Session.Interrupt.
 var ErrInterrupted = errors.New("interrupted")
