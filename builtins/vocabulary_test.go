@@ -23,6 +23,10 @@ func TestVocabulary(t *testing.T) {
 				t.Errorf("%s: the source is argument %d, not the first", f.Name, i+1)
 			}
 		}
+		// a table comes first wherever a builtin takes one
+		if i := slices.Index(f.Params, "table"); i > 0 {
+			t.Errorf("%s: the table is argument %d, not the first", f.Name, i+1)
+		}
 		// material properties last: nothing but the material's own
 		// properties may follow a resistivity or a material
 		for i, p := range f.Params {
