@@ -16,7 +16,7 @@ func (e *argError) Error() string { return e.msg }
 func errorf(format string, args ...any) error { return &argError{fmt.Sprintf(format, args...)} }
 
 func ordinal(i int) string {
-	return [...]string{"first", "second", "third", "fourth", "fifth", "sixth"}[min(i, 5)]
+	return [...]string{"first", "second", "third", "fourth", "fifth", "sixth", "seventh", "eighth", "ninth"}[min(i, 8)]
 }
 
 // quantity returns argument i as a quantity.

@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"math"
+	"strings"
 
 	"loopwise/runtime"
 )
@@ -45,6 +46,17 @@ func solveFuncs() []*runtime.Func {
 				Method:    "Brent's method (bisection, secant and inverse quadratic steps); stops on an exact zero or when the root is bracketed within 1e-12·|x| (plus 1e-24 of the larger end of [lo, hi], for a root at or near zero)",
 				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT\nsolve(V, 0.1 V, 1, 10000)",
 				Reference: refSolve,
+			},
+		},
+		{
+			Name: "sweep2", Params: []string{"f", "x_from", "x_to", "nx", "y_from", "y_to", "ny"}, MinArgs: 7, MaxArgs: 7,
+			CallEnv: sweep2Builtin,
+			Help: &runtime.Help{
+				Signature: "sweep2(f: function of two quantities, x_from, x_to: unit of f's first argument, nx: whole number, y_from, y_to: unit of f's second argument, ny: whole number) -> table",
+				Summary:   "f on a grid of nx × ny points, as a table with a column for each argument (named after f's parameters) and one for a quantity result or four for a vector; the first argument varies fastest. At most 100 000 points.",
+				Method:    "f at every pair of evenly spaced values, as sweep takes them; every value must be finite; the whole grid's work is estimated from the first call and refused beyond the work budget (:budget)",
+				Example:   "k(d, r) = maxwell_mutual(20 mm, r, d) / (1 uH)\nsweep2(k, 0 mm, 10 mm, 3, 5 mm, 15 mm, 3)",
+				Reference: "evaluation on a rectangular grid of evenly spaced points",
 			},
 		},
 		{
@@ -198,93 +210,179 @@ func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, err
 	return 0, errorf("solve: no convergence in 300 steps (is the function continuous on the interval?)")
 }
 
+// sweepAxis is one parameter of a sweep: n evenly spaced values from
+// from to to.
+type sweepAxis struct {
+	name     string
+	from, to runtime.Quantity
+	n        int
+}
+
+// at is the axis's i-th value: (1−s)·from + s·to stays finite for finite
+// ends (to − from may not).
+func (a sweepAxis) at(i int) runtime.Quantity {
+	s := float64(i) / float64(a.n-1)
+	return runtime.Quantity{V: (1-s)*a.from.V + s*a.to.V, D: a.from.D, Cyc: a.from.Cyc && a.to.Cyc}
+}
+
+// readAxis reads the from, to and n of an axis at args[i:i+3].
+// (named prefix+"from" and prefix+"to" in messages, as in the signature).
+func readAxis(fn string, args []runtime.Value, i int, name, prefix string, maxN int) (sweepAxis, error) {
+	from, err := quantity(fn, args, i)
+	if err != nil {
+		return sweepAxis{}, err
+	}
+	to, err := quantity(fn, args, i+1)
+	if err != nil {
+		return sweepAxis{}, err
+	}
+	if from.D != to.D {
+		return sweepAxis{}, errorf("%s: %sfrom and %sto must have one unit; got %s and %s", fn, prefix, prefix, from.D.Describe(), to.D.Describe())
+	}
+	n, err := count(fn, args, i+2, 2, maxN)
+	if err != nil {
+		return sweepAxis{}, err
+	}
+	return sweepAxis{name: name, from: from, to: to, n: n}, nil
+}
+
+// paramNames are the names of f's parameters for a table's columns, or
+// the given defaults.
+func paramNames(f *runtime.Func, defaults ...string) []string {
+	if len(f.Params) == len(defaults) {
+		return f.Params
+	}
+	return defaults
+}
+
+const maxSweep = 100000 // rows of a sweep
+
 func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	const fn = "sweep"
 	f, err := funcArg(fn, args, 0)
 	if err != nil {
 		return nil, err
 	}
-	from, err := quantity(fn, args, 1)
+	names := paramNames(f, "x")
+	x, err := readAxis(fn, args, 1, names[0], "", maxSweep)
 	if err != nil {
 		return nil, err
 	}
-	to, err := quantity(fn, args, 2)
+	return gridSweep(env, fn, f, []sweepAxis{x})
+}
+
+func sweep2Builtin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "sweep2"
+	f, ok := args[0].(*runtime.Func)
+	if !ok {
+		return nil, errorf("%s: the first argument must be a function of two quantities, such as k(d, r) = ..., not %s", fn, runtime.TypeName(args[0]))
+	}
+	if f.MinArgs > 2 || (f.MaxArgs >= 0 && f.MaxArgs < 2) {
+		return nil, errorf("%s: the function %s must take exactly two arguments", fn, f.Signature())
+	}
+	names := paramNames(f, "x", "y")
+	if names[0] == names[1] {
+		names = []string{"x", "y"}
+	}
+	x, err := readAxis(fn, args, 1, names[0], "x_", maxSweep)
 	if err != nil {
 		return nil, err
 	}
-	if from.D != to.D {
-		return nil, errorf("%s: from and to must have one unit; got %s and %s", fn, from.D.Describe(), to.D.Describe())
-	}
-	n, err := count(fn, args, 3, 2, 100000)
+	y, err := readAxis(fn, args, 4, names[1], "y_", maxSweep)
 	if err != nil {
 		return nil, err
 	}
-	param := "x"
-	if len(f.Params) == 1 {
-		param = f.Params[0]
+	if x.n*y.n > maxSweep {
+		return nil, errorf("%s: %d × %d points is more than the limit of %d", fn, x.n, y.n, maxSweep)
+	}
+	return gridSweep(env, fn, f, []sweepAxis{x, y})
+}
+
+// gridSweep evaluates f at every point of the grid of the axes, the first
+// axis varying fastest, into a table: one column per axis, then one for a
+// quantity result or four for a vector (x, y, z, norm). The whole work is
+// estimated from the first call and refused beyond the budget.
+func gridSweep(env runtime.Env, fn string, f *runtime.Func, axes []sweepAxis) (runtime.Value, error) {
+	total := 1
+	for _, a := range axes {
+		total *= a.n
 	}
 	tab := &Table{}
-	cyc := from.Cyc && to.Cyc // a sweep over cycle frequencies stays in Hz
 	spent := 0.0
 	if env != nil {
 		spent = env.Spent()
 	}
-	for i := 0; i < n; i++ {
-		// (1−s)·from + s·to stays finite for finite ends (to − from may not)
-		s := float64(i) / float64(n-1)
-		x := (1-s)*from.V + s*to.V
+	in := make([]runtime.Value, len(axes))
+	idx := make([]int, len(axes))
+	for i := 0; i < total; i++ {
+		rest := i
+		for k, a := range axes {
+			idx[k] = rest % a.n
+			rest /= a.n
+			in[k] = a.at(idx[k])
+		}
 		if env != nil {
 			if err := env.Err(); err != nil {
 				return nil, err
 			}
 		}
-		arg := runtime.Quantity{V: x, D: from.D, Cyc: cyc}
-		v, err := f.Invoke(env, []runtime.Value{arg})
+		v, err := f.Invoke(env, append([]runtime.Value{}, in...))
 		if err != nil {
 			return nil, err
 		}
 		if i == 0 && env != nil {
-			// the rest will cost about n − 1 times the first (counted as
-			// they run); refuse now what would not fit
+			// the rest will cost about total − 1 times the first (counted
+			// as they run); refuse now what would not fit
 			per := math.Max(env.Spent()-spent, runtime.CallEvals)
-			if err := env.Afford(fn, per*float64(n-1)); err != nil {
+			if err := env.Afford(fn, per*float64(total-1)); err != nil {
 				return nil, err
 			}
 		}
-		if err := finiteRow(fn, f, param, arg, v); err != nil {
+		if err := finiteRow(fn, f, axes, in, v); err != nil {
 			return nil, err
 		}
 		if i == 0 {
+			for k, a := range axes {
+				q := in[k].(runtime.Quantity)
+				tab.Cols = append(tab.Cols, a.name)
+				tab.Dims = append(tab.Dims, q.D)
+				tab.Cyc = append(tab.Cyc, q.Cyc)
+			}
 			switch r := v.(type) {
 			case runtime.Quantity:
-				tab.Cols = []string{param, f.Name}
-				tab.Dims = []runtime.Dim{from.D, r.D}
-				tab.Cyc = []bool{cyc, r.Cyc}
+				tab.Cols = append(tab.Cols, f.Name)
+				tab.Dims = append(tab.Dims, r.D)
+				tab.Cyc = append(tab.Cyc, r.Cyc)
 			case runtime.Vector:
-				tab.Cols = []string{param, f.Name + ".x", f.Name + ".y", f.Name + ".z", "|" + f.Name + "|"}
-				tab.Dims = []runtime.Dim{from.D, r.D, r.D, r.D, r.D}
-				tab.Cyc = []bool{cyc}
+				tab.Cols = append(tab.Cols, f.Name+".x", f.Name+".y", f.Name+".z", "|"+f.Name+"|")
+				tab.Dims = append(tab.Dims, r.D, r.D, r.D, r.D)
 			default:
 				return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
 			}
 		}
+		row := make([]float64, 0, len(tab.Cols))
+		for k := range axes {
+			row = append(row, in[k].(runtime.Quantity).V)
+		}
+		out := len(tab.Cols) - len(axes)
 		switch r := v.(type) {
 		case runtime.Quantity:
-			if r.D != tab.Dims[1] || len(tab.Cols) != 2 {
+			if r.D != tab.Dims[len(axes)] || out != 1 {
 				return nil, errorf("%s: %s changed its unit during the sweep", fn, f.Signature())
 			}
-			tab.Rows = append(tab.Rows, []float64{x, r.V})
+			row = append(row, r.V)
 		case runtime.Vector:
-			if r.D != tab.Dims[1] || len(tab.Cols) != 5 {
+			if r.D != tab.Dims[len(axes)] || out != 4 {
 				return nil, errorf("%s: %s changed its unit during the sweep", fn, f.Signature())
 			}
 			c := runtime.CleanComponents(r.V)
-			tab.Rows = append(tab.Rows, []float64{x, c[0], c[1], c[2], r.Norm().V})
+			row = append(row, c[0], c[1], c[2], r.Norm().V)
 		default:
 			return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
 		}
+		tab.Rows = append(tab.Rows, row)
 		if env != nil {
-			env.Progress(fn, i+1, n)
+			env.Progress(fn, i+1, total)
 		}
 	}
 	return tab, nil
@@ -292,7 +390,7 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 
 // finiteRow refuses a sweep row with a number that is not finite (a table
 // obeys the same guard as a quantity), naming the argument of the row.
-func finiteRow(fn string, f *runtime.Func, param string, arg runtime.Quantity, v runtime.Value) error {
+func finiteRow(fn string, f *runtime.Func, axes []sweepAxis, in []runtime.Value, v runtime.Value) error {
 	bad := ""
 	switch r := v.(type) {
 	case runtime.Quantity:
@@ -309,5 +407,9 @@ func finiteRow(fn string, f *runtime.Func, param string, arg runtime.Quantity, v
 	if bad == "" {
 		return nil
 	}
-	return errorf("%s: %s gives %s at %s = %s; a table holds only finite numbers (narrow the range)", fn, f.Signature(), bad, param, runtime.Format(arg, 6))
+	at := make([]string, len(axes))
+	for k, a := range axes {
+		at[k] = a.name + " = " + runtime.Format(in[k], 6)
+	}
+	return errorf("%s: %s gives %s at %s; a table holds only finite numbers (narrow the range)", fn, f.Signature(), bad, strings.Join(at, ", "))
 }

@@ -1,11 +1,13 @@
 package builtins_test
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
 
 	"loopwise/builtins"
+	"loopwise/lang"
 	"loopwise/runtime"
 )
 
@@ -142,7 +144,7 @@ func TestTableAxisField(t *testing.T) {
 
 // TestTableSweepInterpolate: interpolation in a sweep of a linear
 // function is exact (the interpolating line is the function: Burden &
-// Faires 2011, Theorem 3.3, the error term vanishes with f” = 0), also
+// Faires 2011, Theorem 3.3, the error term vanishes when the second derivative is 0), also
 // in a column that falls.
 func TestTableSweepInterpolate(t *testing.T) {
 	ev, _ := evalIn(t, "f(x) = 3 V/m * x + 2 V", "tab = sweep(f, 1 m, -1 m, 9)")
@@ -155,5 +157,51 @@ func TestTableSweepInterpolate(t *testing.T) {
 	// and backwards: x where f = 4 V is 2/3 m
 	if got := quantityOf(t, ev(`interpolate(tab, "f", 4 V, "x")`)); math.Abs(got.V-2.0/3) > 1e-15 {
 		t.Errorf("x where f = 4 V: %g, want 2/3", got.V)
+	}
+}
+
+// TestSweep2AxisField: a grid over distance and loop radius of the axis
+// field, row by row against the closed form (Griffiths, Introduction to
+// Electrodynamics, 4th ed., 2017, Eq. 5.41); the kernel's elliptic closed
+// form agrees with it to rounding (1e-12 relative allows a few hundred
+// ulps). The first argument varies fastest.
+func TestSweep2AxisField(t *testing.T) {
+	ev, fail := evalIn(t, "B(z, R) = b_at(source(circle([0, 0, 0] m, [0, 0, 1], R), 2 A), [0, 0, 1] * z).z")
+	tab := tableOf(t, ev("sweep2(B, -20 mm, 20 mm, 5, 10 mm, 30 mm, 3)"))
+	if strings.Join(tab.Cols, ",") != "z,R,B" || len(tab.Rows) != 15 {
+		t.Fatalf("sweep2: columns %v, %d rows; want z,R,B and 15", tab.Cols, len(tab.Rows))
+	}
+	for i, r := range tab.Rows {
+		z, R := -0.02+0.01*float64(i%5), 0.01+0.01*float64(i/5)
+		if math.Abs(r[0]-z) > 1e-17 || math.Abs(r[1]-R) > 1e-17 {
+			t.Errorf("row %d at z = %g, R = %g; want %g, %g", i+1, r[0], r[1], z, R)
+		}
+		if want := loopAxisB(2, R, z); math.Abs(r[2]-want) > 1e-12*want {
+			t.Errorf("row %d: B = %g, want %g (Griffiths Eq. 5.41)", i+1, r[2], want)
+		}
+	}
+	for _, c := range []struct{ in, want string }{
+		{"sweep2(B, 0 mm, 1 s, 2, 1 mm, 2 mm, 2)", "sweep2: x_from and x_to must have one unit; got length (m) and time (s)"},
+		{"sweep2(B, 0 mm, 1 mm, 2, 1 mm, 2 mm, 1)", "sweep2: the seventh argument must be a whole number from 2 to 100000, not 1"},
+		{"sweep2(B, 0 mm, 1 mm, 1000, 1 mm, 2 mm, 1000)", "sweep2: 1000 × 1000 points is more than the limit of 100000"},
+		{"sweep2(sin, 0 mm, 1 mm, 2, 1 mm, 2 mm, 2)", "sweep2: the function sin(x) must take exactly two arguments"},
+	} {
+		if err := fail(c.in); !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: %v\nwant %s", c.in, err, c.want)
+		}
+	}
+}
+
+// TestSweep2Budget: the grid's work is estimated from its first call and
+// refused before it runs when it would not fit the budget (the estimate,
+// 100 000 calls of a user function at runtime.CallEvals or more each, is
+// at least 1.5e7 evaluations, beyond a budget of 1e6).
+func TestSweep2Budget(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	s.Budget = 0.01
+	eval(t, s, "f(x, y) = x * y")
+	_, err := s.Eval(lang.Pos{Line: 2, Col: 1}, "sweep2(f, 0 m, 1 m, 1000, 0 m, 1 m, 100)")
+	if !errors.Is(err, runtime.ErrBudget) || !strings.Contains(err.Error(), "sweep2: this needs about") {
+		t.Errorf("a grid over the budget: %v", err)
 	}
 }
