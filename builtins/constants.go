@@ -88,7 +88,7 @@ func Standard() runtime.Library {
 		{"flux and EMF", fluxFuncs()},
 		{"inductance and force", inductanceFuncs()},
 		{"field calculus", calculusFuncs()},
-		{"solving", solveFuncs()},
+		{"solving", append(solveFuncs(), extremumFuncs()...)},
 		{"induced E", regionFuncs()},
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},

@@ -1,0 +1,295 @@
+package builtins
+
+import (
+	"errors"
+	"math"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+const refMinimize = "Brent's method for minimization: R. P. Brent, Algorithms for Minimization without Derivatives (Prentice-Hall, 1973), ch. 5 (the procedure localmin)"
+
+func extremumFuncs() []*runtime.Func {
+	return []*runtime.Func{
+		{
+			Name: "deriv", Params: []string{"f", "x", "scale"}, MinArgs: 2, MaxArgs: 3,
+			CallEnv: derivBuiltin,
+			Help: &runtime.Help{
+				Signature: "deriv(f: function of one quantity, x: unit of f's argument[, scale: unit of x]) -> unit of f / unit of x",
+				Summary:   "The derivative of f at x, for a function of any one quantity (a gap, a radius, a current, a time) returning a quantity or a vector. scale is the largest step tried; it defaults to |x| and must be given at x = 0.",
+				Method:    "central differences with one Richardson step (the step search shared with emf and ddt), steps from 1e-12·scale up to scale, the first whose estimate agrees with its neighbours to 1e-6 of the function's rate of change; a jump or a kink at x is an error giving the slopes before and after",
+				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nderiv(k, 5 mm)",
+				Reference: "Burden & Faires, Numerical Analysis, 9th ed., 2011, §4.1 (three-point formulas) and §4.2 (Richardson's extrapolation)",
+			},
+		},
+		extremumFunc("minimize", "smallest", +1),
+		extremumFunc("maximize", "largest", -1),
+	}
+}
+
+func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "deriv"
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	x, err := quantity(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	scale := math.Abs(x.V)
+	if len(args) > 2 {
+		s, err := quantity(fn, args, 2)
+		if err != nil {
+			return nil, err
+		}
+		if s.D != x.D {
+			return nil, errorf("%s: the scale must have the unit of x (%s), not %s%s", fn, x.D.Describe(), s.D.Describe(), runtime.AngleNote(s.D, x.D))
+		}
+		if !(s.V > 0) {
+			return nil, errorf("%s: the scale must be positive, not %s", fn, runtime.Format(s, 6))
+		}
+		scale = s.V
+	} else if scale == 0 {
+		return nil, errorf("%s: at x = 0 the step cannot follow x; give the scale over which f changes as a third argument, such as deriv(f, %s, %s)", fn, runtime.Format(x, 6), runtime.Format(runtime.Quantity{V: 1, D: x.D}, 6))
+	}
+	var dim runtime.Dim
+	vec := false
+	first := true
+	g := func(s float64) (em.Vec, error) {
+		if env != nil {
+			if err := env.Err(); err != nil {
+				return em.Vec{}, err
+			}
+		}
+		v, err := f.Invoke(env, []runtime.Value{runtime.Quantity{V: s, D: x.D, Cyc: x.Cyc}})
+		if err != nil {
+			return em.Vec{}, err
+		}
+		var out em.Vec
+		var d runtime.Dim
+		isVec := false
+		switch r := v.(type) {
+		case runtime.Quantity:
+			out, d = em.Vec{X: r.V}, r.D
+		case runtime.Vector:
+			out, d, isVec = toVec(r), r.D, true
+		default:
+			return em.Vec{}, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
+		}
+		if first {
+			dim, vec, first = d, isVec, false
+		} else if d != dim || isVec != vec {
+			return em.Vec{}, errorf("%s: %s changed its unit near %s", fn, f.Signature(), runtime.Format(x, 6))
+		}
+		return out, nil
+	}
+	d, err := em.Derivative(g, x.V, scale, -12, true)
+	at := runtime.Format(x, 6)
+	show := func(v em.Vec) string {
+		if vec {
+			return runtime.Format(fromVec(v, dim.Div(x.D)), 6)
+		}
+		return runtime.Format(runtime.Quantity{V: v.X, D: dim.Div(x.D)}, 6)
+	}
+	var ke *em.KinkError
+	var ae *argError
+	switch {
+	case errors.As(err, &ke):
+		return nil, errorf("%s: %s has a kink at %s: its slope is %s just before and %s just after, so the derivative is not defined there", fn, f.Signature(), at, show(ke.Before), show(ke.After))
+	case errors.As(err, &ae), stopping(err):
+		return nil, err
+	case errors.Is(err, em.ErrNoPlateau):
+		return nil, errorf("%s: %s has no reliable derivative at %s (a jump there, not defined there, or the scale %s too large or too small?)", fn, f.Signature(), at, runtime.Format(runtime.Quantity{V: scale, D: x.D}, 6))
+	case err != nil:
+		return nil, err
+	}
+	if vec {
+		return fromVec(d, dim.Div(x.D)), nil
+	}
+	return runtime.Quantity{V: d.X, D: dim.Div(x.D)}, nil
+}
+
+func extremumFunc(name, word string, sign float64) *runtime.Func {
+	other := map[bool]string{true: "maximize", false: "minimize"}[sign > 0]
+	return &runtime.Func{
+		Name: name, Params: []string{"f", "lo", "hi"}, MinArgs: 3, MaxArgs: 3,
+		CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+			return extremum(env, name, sign, args)
+		},
+		Help: &runtime.Help{
+			Signature: name + "(f: function of one quantity, lo, hi: unit of f's argument) -> unit of lo",
+			Summary:   "The x between lo and hi where f(x) is " + word + " (the argument, not the value: the value is f(" + name + "(f, lo, hi))). f should have one " + map[bool]string{true: "minimum", false: "maximum"}[sign > 0] + " inside the interval; if it is " + word + " at an end, that is an error saying which end (the extreme lies outside: move the interval). Use " + other + " for the opposite.",
+			Method:    "Brent's method (golden-section steps and parabolic interpolation; gonum offers no one-dimensional minimiser); stops when x is known to 1.5e-8·|x| + 1e-12·(hi − lo). A smooth extremum is flat, so the value there is known far better than its place: f(x) is within about 1e-16 of the extreme value",
+			Example:   map[bool]string{true: "minimize(cos, 2, 4)\ncos(minimize(cos, 2, 4))", false: "P(R) = (1 V)^2 * R / (R + 50 ohm)^2\nmaximize(P, 1 ohm, 500 ohm)\nP(maximize(P, 1 ohm, 500 ohm))"}[sign > 0],
+			Reference: refMinimize,
+		},
+	}
+}
+
+// minRel is Brent's ε for localmin: the square root of the float64
+// precision, the best relative accuracy a smooth minimum's place can have
+// (near it f changes only as the square of the distance).
+const minRel = 1.4901161193847656e-08 // 2^-26
+
+// extremum finds where f is smallest (sign +1) or largest (sign −1).
+func extremum(env runtime.Env, fn string, sign float64, args []runtime.Value) (runtime.Value, error) {
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	lo, err := quantity(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	hi, err := quantity(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	if lo.D != hi.D {
+		return nil, errorf("%s: lo and hi must have one unit; got %s and %s", fn, lo.D.Describe(), hi.D.Describe())
+	}
+	if !(lo.V < hi.V) {
+		return nil, errorf("%s: lo (%s) must be below hi (%s)", fn, runtime.Format(lo, 6), runtime.Format(hi, 6))
+	}
+	cyc := lo.Cyc && hi.Cyc
+	var dim runtime.Dim
+	first := true
+	g := func(x float64) (float64, error) {
+		if env != nil {
+			if err := env.Err(); err != nil {
+				return 0, err
+			}
+		}
+		q, err := scalarCall(env, fn, f, x, lo.D)
+		if err != nil {
+			return 0, err
+		}
+		if first {
+			dim, first = q.D, false
+		} else if q.D != dim {
+			return 0, errorf("%s: %s changed its unit between %s and %s", fn, f.Signature(), runtime.Format(lo, 6), runtime.Format(hi, 6))
+		}
+		if math.IsNaN(q.V) || math.IsInf(q.V, 0) {
+			return 0, errorf("%s: %s gives %s at %s; it must be finite on the whole interval", fn, f.Signature(), runtime.FormatNumber(q.V, 6), runtime.Format(runtime.Quantity{V: x, D: lo.D}, 6))
+		}
+		return sign * q.V, nil
+	}
+	x, fx, err := localMin(g, lo.V, hi.V, 1e-12*(hi.V-lo.V))
+	if errors.Is(err, errNoMin) {
+		return nil, errorf("%s: %s: %v", fn, f.Signature(), err)
+	}
+	if err != nil {
+		return nil, err
+	}
+	// localmin never evaluates the ends; an extreme there is not one inside
+	for _, end := range []struct {
+		name string
+		q    runtime.Quantity
+	}{{"lo", lo}, {"hi", hi}} {
+		fe, err := g(end.q.V)
+		if err != nil {
+			return nil, err
+		}
+		if fe < fx {
+			word := map[bool]string{true: "smallest", false: "largest"}[sign > 0]
+			return nil, errorf("%s: %s is %s at the end %s = %s of the interval (%s there); the %s lies at or beyond that end: move or widen the interval", fn, f.Signature(), word, end.name, runtime.Format(end.q, 6),
+				runtime.Format(runtime.Quantity{V: sign * fe, D: dim}, 6), map[bool]string{true: "minimum", false: "maximum"}[sign > 0])
+		}
+	}
+	return runtime.Quantity{V: x, D: lo.D, Cyc: cyc}, nil
+}
+
+var errNoMin = errors.New("no convergence in 500 steps (is the function continuous on the interval?)")
+
+// localMin is Brent's procedure localmin (Brent 1973, ch. 5, section 8):
+// a minimum of g in (a, b) by golden-section search, with a parabola
+// through the three best points taken whenever it falls inside the
+// interval and moves less than half the step before last. It stops when
+// the bracket around the best point x is within 2·(minRel·|x| + t/3) of
+// x. For a unimodal g it finds the minimum; otherwise a local one.
+// (gonum's optimize package minimises in several dimensions only; it has
+// no bracketing minimiser in one, so this is written out here.)
+func localMin(g func(float64) (float64, error), a, b, t float64) (float64, float64, error) {
+	c := 0.5 * (3 - math.Sqrt(5)) // the golden section, 0.381966…
+	v := a + c*(b-a)
+	w, x := v, v
+	d, e := 0.0, 0.0
+	fx, err := g(x)
+	if err != nil {
+		return 0, 0, err
+	}
+	fv, fw := fx, fx
+	for iter := 0; iter < 500; iter++ {
+		m := 0.5 * (a + b)
+		tol := minRel*math.Abs(x) + t/3
+		t2 := 2 * tol
+		if math.Abs(x-m) <= t2-0.5*(b-a) {
+			return x, fx, nil
+		}
+		golden := true
+		if math.Abs(e) > tol { // try a parabola through x, v, w
+			r := (x - w) * (fx - fv)
+			q := (x - v) * (fx - fw)
+			p := (x-v)*q - (x-w)*r
+			q = 2 * (q - r)
+			if q > 0 {
+				p = -p
+			} else {
+				q = -q
+			}
+			r = e
+			e = d
+			if math.Abs(p) < math.Abs(0.5*q*r) && p > q*(a-x) && p < q*(b-x) {
+				d = p / q
+				u := x + d
+				// g must not be evaluated too close to a or b
+				if u-a < t2 || b-u < t2 {
+					d = tol
+					if x >= m {
+						d = -tol
+					}
+				}
+				golden = false
+			}
+		}
+		if golden {
+			if x < m {
+				e = b - x
+			} else {
+				e = a - x
+			}
+			d = c * e
+		}
+		// g must not be evaluated too close to x
+		u := x + d
+		if math.Abs(d) < tol {
+			u = x + math.Copysign(tol, d)
+		}
+		fu, err := g(u)
+		if err != nil {
+			return 0, 0, err
+		}
+		if fu <= fx {
+			if u < x {
+				b = x
+			} else {
+				a = x
+			}
+			v, fv, w, fw, x, fx = w, fw, x, fx, u, fu
+			continue
+		}
+		if u < x {
+			a = u
+		} else {
+			b = u
+		}
+		if fu <= fw || w == x {
+			v, fv, w, fw = w, fw, u, fu
+		} else if fu <= fv || v == x || v == w {
+			v, fv = u, fu
+		}
+	}
+	return 0, 0, errNoMin
+}
