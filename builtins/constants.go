@@ -92,7 +92,7 @@ func Standard() runtime.Library {
 		{"induced E", regionFuncs()},
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},
-		{"tables", tableFuncs()},
+		{"tables", append(tableFuncs(), exportFuncs()...)},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name
