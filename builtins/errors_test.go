@@ -445,6 +445,16 @@ func FuzzInduction(f *testing.F) {
 		"wheeler(1 cm, 3 cm, 40)",
 		"exposure_check(300 uT, 50 Hz)",
 		"voltage_check(60 V, \"ac\")",
+		// tables, grids, derivatives and extrema
+		"interpolate(sweep(I, 0 s, 10 ms, 41), \"t\", 1 ms, \"I\")",
+		"where_max(sample_line(b_field(src), [0,0,-1] m, [0,0,1] m, 9), \"|B|\", \"z\")",
+		"rows_where(sweep(Vec, 0 s, 1 s, 3), \"t\", 0 s, 0.5 s)",
+		"with_column(sweep(I, 0 s, 10 ms, 4), \"P\", I)",
+		"cell(row(column(sweep(I, 0 s, 1 s, 3), \"I\"), 2), \"I\", 1)",
+		"sweep2(two, 0 A, 1 A, 3, 0 A, 2 A, 2)",
+		"deriv(I, 1 ms)",
+		"maximize(I, 0 s, 10 ms)",
+		"export_csv(sweep(I, 0 s, 1 s, 3), \"i.csv\")",
 	} {
 		f.Add(in)
 	}
