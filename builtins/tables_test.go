@@ -76,6 +76,14 @@ func TestTableAxisField(t *testing.T) {
 			t.Errorf("interpolate Bz at z = %g: %g, want %g ± %g (Griffiths Eq. 5.41)", z, got, want, bound)
 		}
 	}
+	// at the ends, which are computed samples (from + s·(to − from)) and
+	// may lie an ulp beyond the value asked for
+	for _, z := range []float64{-0.05, 0.05} {
+		got := quantityOf(t, ev(`interpolate(axis, "z", `+runtime.FormatNumber(z*1000, 12)+` mm, "Bz")`)).V
+		if want := loopAxisB(I, R, z); math.Abs(got-want) > 1e-12*b0 {
+			t.Errorf("interpolate Bz at the end z = %g: %g, want %g", z, got, want)
+		}
+	}
 	// at a sample point interpolation returns the sample itself
 	if q := quantityOf(t, ev(`interpolate(axis, "z", 0 mm, "Bz")`)); math.Abs(q.V-b0) > 1e-12*b0 {
 		t.Errorf("interpolate at a sample: %g, want %g", q.V, b0)
@@ -128,8 +136,9 @@ func TestTableAxisField(t *testing.T) {
 		{`with_column(axis, "G", G)`, `unknown name "G"`},
 		{`column(3 mm, "z")`, `column: the first argument must be a table (from sweep, sample_line, ...), not length (m)`},
 	} {
-		if err := fail(c.in); !strings.Contains(err.Error(), c.want) {
-			t.Errorf("%s: %v\nwant %s", c.in, err, c.want)
+		err := fail(c.in)
+		if le, ok := lang.AsError(err); !ok || le.Pos.Line != 20 || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: %v\nwant a positioned error on line 20 containing %s", c.in, err, c.want)
 		}
 	}
 	ev("G(Bz, q) = Bz")
@@ -179,6 +188,13 @@ func TestSweep2AxisField(t *testing.T) {
 		if want := loopAxisB(2, R, z); math.Abs(r[2]-want) > 1e-12*want {
 			t.Errorf("row %d: B = %g, want %g (Griffiths Eq. 5.41)", i+1, r[2], want)
 		}
+	}
+	// a vector result takes four columns, named after the function;
+	// |h| at (1 m, 1 m) is √2 m (Pythagoras)
+	ev("h(a, b) = [a, b, 0 m]")
+	vt := tableOf(t, ev("sweep2(h, 0 m, 1 m, 2, 0 m, 1 m, 2)"))
+	if strings.Join(vt.Cols, ",") != "a,b,h.x,h.y,h.z,|h|" || len(vt.Rows) != 4 || math.Abs(vt.Rows[3][5]-math.Sqrt2) > 1e-15 {
+		t.Errorf("sweep2 of a vector: %v %v", vt.Cols, vt.Rows)
 	}
 	for _, c := range []struct{ in, want string }{
 		{"sweep2(B, 0 mm, 1 s, 2, 1 mm, 2 mm, 2)", "sweep2: x_from and x_to must have one unit; got length (m) and time (s)"},
