@@ -121,7 +121,7 @@ func extremumFunc(name, word string, sign float64) *runtime.Func {
 		Help: &runtime.Help{
 			Signature: name + "(f: function of one quantity, lo, hi: unit of f's argument) -> unit of lo",
 			Summary:   "The x between lo and hi where f(x) is " + word + " (the argument, not the value: the value is f(" + name + "(f, lo, hi))). f should have one " + map[bool]string{true: "minimum", false: "maximum"}[sign > 0] + " inside the interval; if it is " + word + " at an end, that is an error saying which end (the extreme lies outside: move the interval). Use " + other + " for the opposite.",
-			Method:    "Brent's method (golden-section steps and parabolic interpolation; gonum offers no one-dimensional minimiser); stops when x is known to 1.5e-8·|x| + 1e-12·(hi − lo). A smooth extremum is flat, so the value there is known far better than its place: f(x) is within about 1e-16 of the extreme value",
+			Method:    "Brent's method (golden-section steps and parabolic interpolation; gonum offers no one-dimensional minimiser); stops when x is within 2·(1.5e-8·|x| + 3.3e-13·(hi − lo)) of the extremum (1.5e-8 is the square root of double precision: a smooth extremum is flat, so its place is known far less well than its value)",
 			Example:   map[bool]string{true: "minimize(cos, 2, 4)\ncos(minimize(cos, 2, 4))", false: "P(R) = (1 V)^2 * R / (R + 50 ohm)^2\nmaximize(P, 1 ohm, 500 ohm)\nP(maximize(P, 1 ohm, 500 ohm))"}[sign > 0],
 			Reference: refMinimize,
 		},

@@ -184,7 +184,7 @@ func tableFuncs() []*runtime.Func {
 				Signature: `with_column(table, name: text, f: function whose parameters are named after columns) -> table`,
 				Summary:   "The table with one more column, name, holding f of each row: f's parameters are matched by name to the table's columns (a parameter Bz takes column \"Bz\"), so the units are checked as f computes. f must return a quantity of one unit in every row.",
 				Example:   "axis = sample_line(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [0, 0, -50] mm, [0, 0, 50] mm, 5)\nH(Bz) = Bz / mu0\nwith_column(axis, \"H\", H)",
-				Reference: "H = B/µ0 in vacuum (SI Brochure, 9th ed., 2019)",
+				Reference: "the example's H = B/µ0 − M with M = 0 in vacuum: Griffiths, Introduction to Electrodynamics, 4th ed., 2017, Eq. 6.18 (from memory)",
 			},
 		},
 	}
