@@ -92,6 +92,7 @@ func Standard() runtime.Library {
 		{"induced E", regionFuncs()},
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},
+		{"plots", plotFuncs()},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name

@@ -19,7 +19,7 @@ import (
 var allowedImports = map[string][]string{
 	"lang":          {},
 	"runtime":       {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
-	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "gonum.org/v1/gonum"},
+	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "gonum.org/v1/gonum"},
 	"builtins/em":   {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},
 	"cmd/loopwise":  {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term"},
