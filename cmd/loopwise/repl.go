@@ -295,6 +295,7 @@ func (c *console) load(st *lang.Statement) {
 func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	c := newConsole(stdout, stderr)
 	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
+		c.s.OutDir = promptOut // piped input writes no files
 		return terminalLoop(c)
 	}
 	c.s.SetProgress(progressPrinter(stderr))
