@@ -53,11 +53,14 @@ func (p *Plot) Summary(digits int) string {
 }
 
 // Show adds where the file went.
-func (p *Plot) Show(digits int) string {
+func (p *Plot) Show(digits int) string { return p.Summary(digits) + "\n" + p.Where() }
+
+// Where says where the file was written, or why it was not.
+func (p *Plot) Where() string {
 	if p.Path != "" {
-		return p.Summary(digits) + "\nwritten to " + p.Path
+		return "written to " + p.Path
 	}
-	return p.Summary(digits) + "\nnot written: " + p.Why
+	return "not written: " + p.Why
 }
 
 // plotNamer numbers the plots of one session (plot-1.svg, plot-2.svg…):

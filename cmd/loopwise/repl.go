@@ -17,6 +17,7 @@ import (
 	"github.com/peterh/liner"
 	"golang.org/x/term"
 
+	"loopwise/builtins"
 	"loopwise/lang"
 	"loopwise/runtime"
 )
@@ -129,6 +130,9 @@ func (c *console) eval(text string) (quit bool) {
 	case st.Kind == lang.Empty:
 	case st.Kind == lang.Assign:
 		fmt.Fprintf(c.out, "%s = %s\n", st.Name, res.Text)
+		if p, ok := res.Value.(*builtins.Plot); ok {
+			fmt.Fprintln(c.out, p.Where()) // a named plot also says where it went
+		}
 	default:
 		fmt.Fprintln(c.out, res.Text)
 	}
