@@ -62,6 +62,10 @@ func (l *Line) render(c canvas) ([]byte, error) {
 		return nil, err
 	}
 	p.Draw(draw.New(c))
+	return writeOut(c)
+}
+
+func writeOut(c canvas) ([]byte, error) {
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
