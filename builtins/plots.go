@@ -3,11 +3,15 @@ package builtins
 import (
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"loopwise/builtins/draw"
+	"loopwise/builtins/em"
 	"loopwise/runtime"
 )
 
@@ -16,7 +20,8 @@ const refPlots = "drawn with gonum.org/v1/plot; axis units with SI prefixes by p
 // Plot is a drawn plot: its data (what replay records and compares), the
 // picture, and the file it was written to.
 type Plot struct {
-	line draw.Line
+	pic  picture
+	what string // what is drawn, for the summary: "k against d"
 	cols []string
 	dims []runtime.Dim
 	rows [][]float64
@@ -30,26 +35,19 @@ func (p *Plot) Kind() string { return "a plot" }
 // Tabulate implements runtime.Tabular: the plotted data, x first.
 func (p *Plot) Tabulate() ([]string, []runtime.Dim, [][]float64) { return p.cols, p.dims, p.rows }
 
+// picture is what the draw package draws: a line plot or a map.
+type picture interface {
+	SVG() ([]byte, error)
+	PNG() ([]byte, error)
+}
+
 // SVG implements runtime.Picture.
-func (p *Plot) SVG() ([]byte, error) { return p.line.SVG() }
+func (p *Plot) SVG() ([]byte, error) { return p.pic.SVG() }
 
 // Summary is the one line a script records: the file's name and what is
 // drawn, the same whether or not the session writes files.
 func (p *Plot) Summary(digits int) string {
-	ys := make([]string, len(p.line.Ys))
-	for i, y := range p.line.Ys {
-		ys[i] = y.Name
-	}
-	log := ""
-	switch {
-	case p.line.LogX && p.line.LogY:
-		log = ", log x and y"
-	case p.line.LogX:
-		log = ", log x"
-	case p.line.LogY:
-		log = ", log y"
-	}
-	return fmt.Sprintf("%s: %s against %s, %d points%s", p.File, strings.Join(ys, ", "), p.line.X.Name, len(p.rows), log)
+	return fmt.Sprintf("%s: %s", p.File, p.what)
 }
 
 // Show adds where the file went.
@@ -70,6 +68,7 @@ type plotNamer struct{ n int }
 func plotFuncs() []*runtime.Func {
 	names := &plotNamer{}
 	return []*runtime.Func{
+		fieldMapFunc(names),
 		{
 			Name: "plot", Params: []string{"table", "x", "y", "file"}, MinArgs: 3, MaxArgs: -1,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -117,6 +116,168 @@ func plotFuncs() []*runtime.Func {
 			},
 		},
 	}
+}
+
+func fieldMapFunc(names *plotNamer) *runtime.Func {
+	return &runtime.Func{
+		Name: "field_map", Params: []string{"field", "origin", "side1", "side2", "n1", "n2", "t", "options"}, MinArgs: 6, MaxArgs: -1,
+		CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+			return fieldMapBuiltin(env, names, args)
+		},
+		Help: &runtime.Help{
+			Signature: `field_map(field, origin: position [m], side1, side2: perpendicular vectors [m], n1, n2: whole numbers[, t: s][, "arrows"][, "log"][, file]) -> plot`,
+			Summary:   `A field's magnitude on an n1 × n2 grid over the rectangle origin + u·side1 + v·side2, drawn as colour with a colour bar; "arrows" adds the direction of the field's part in the plane at every point, "log" colours by the logarithm (a field falling off from a wire spans decades). The paths of the field's source are drawn on top, projected onto the plane.`,
+			Method:    "sample_plane on the grid (its work and limits), then a heat map; the recorded data are u, v and the magnitude (and the in-plane components with arrows)",
+			Example:   "field_map(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, \"arrows\")",
+			Reference: refPlots,
+		},
+	}
+}
+
+// fieldMapBuiltin samples a field on a rectangle and draws it as a map.
+func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (runtime.Value, error) {
+	const fn = "field_map"
+	args, file := fileArg(args)
+	arrows, logColor := false, false
+	for len(args) > 0 {
+		opt, ok := args[len(args)-1].(string)
+		if !ok {
+			break
+		}
+		switch opt {
+		case "arrows":
+			arrows = true
+		case "log":
+			logColor = true
+		default:
+			return nil, errorf("%s: unknown option %q; the options are \"arrows\", \"log\" and a file name ending in .svg or .png", fn, opt)
+		}
+		args = args[:len(args)-1]
+	}
+	if len(args) < 6 || len(args) > 7 {
+		return nil, errorf("%s takes a field, origin, side1, side2, n1, n2[, t], then options; got %d arguments before the options", fn, len(args))
+	}
+	f, err := fieldArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	r := readArgs(fn, args)
+	o, s1, s2 := r.point(1), r.point(2), r.point(3)
+	if r.err != nil {
+		return nil, r.err
+	}
+	l1, l2 := r3.Norm(s1), r3.Norm(s2)
+	if l1 == 0 || l2 == 0 {
+		return nil, errorf("%s: side1 and side2 must have a length", fn)
+	}
+	e1, e2 := r3.Scale(1/l1, s1), r3.Scale(1/l2, s2)
+	// perpendicular within rounding of the components as typed (common
+	// practice: a relative 1e-9 is far below any drawn difference)
+	if math.Abs(r3.Dot(e1, e2)) > 1e-9 {
+		return nil, errorf("%s: side1 and side2 must be perpendicular (the map is a rectangle); use sample_plane for a parallelogram", fn)
+	}
+	v, err := samplePlane(env, args)
+	if err != nil {
+		if e := new(argError); errors.As(err, &e) {
+			return nil, errorf("%s", strings.Replace(e.msg, "sample_plane", fn, 1))
+		}
+		return nil, err
+	}
+	tab := v.(*Table)
+	n1, n2 := r.count(4, 2, maxPoints), r.count(5, 2, maxPoints)
+	sym := f.sym
+	mag := "|" + sym + "|"
+	unit := runtime.DisplayUnitOf(f.dim)
+	m := &draw.Map{
+		U:        draw.Column{Name: "u", Unit: "m", Units: bestUnits(dimLength)},
+		V:        draw.Column{Name: "v", Unit: "m", Units: bestUnits(dimLength)},
+		Mag:      draw.Column{Name: mag, Unit: unit, Units: bestUnits(f.dim)},
+		LogColor: logColor,
+	}
+	// a side along a coordinate axis is labelled and numbered by it
+	u0, v0 := 0.0, 0.0
+	if name, at, ok := alongAxis(o, e1); ok {
+		m.U.Name, u0 = name, at
+	}
+	if name, at, ok := alongAxis(o, e2); ok {
+		m.V.Name, v0 = name, at
+	}
+	for i := 0; i < n1; i++ {
+		m.U.Values = append(m.U.Values, u0+l1*float64(i)/float64(n1-1))
+	}
+	for j := 0; j < n2; j++ {
+		m.V.Values = append(m.V.Values, v0+l2*float64(j)/float64(n2-1))
+	}
+	p := &Plot{pic: m, cols: []string{m.U.Name, m.V.Name, mag}, dims: []runtime.Dim{dimLength, dimLength, f.dim}}
+	if arrows {
+		p.cols = append(p.cols, sym+"u", sym+"v")
+		p.dims = append(p.dims, f.dim, f.dim)
+	}
+	for _, row := range tab.Rows { // u, v, x, y, z, Fx, Fy, Fz, |F|
+		m.Mag.Values = append(m.Mag.Values, row[8])
+		rec := []float64{u0 + row[0], v0 + row[1], row[8]}
+		if arrows {
+			fv := em.Vec{X: row[5], Y: row[6], Z: row[7]}
+			fu, fw := r3.Dot(fv, e1), r3.Dot(fv, e2)
+			m.ArrowU, m.ArrowV = append(m.ArrowU, fu), append(m.ArrowV, fw)
+			rec = append(rec, fu, fw)
+		}
+		p.rows = append(p.rows, rec)
+	}
+	if f.of != nil {
+		for _, t := range f.of.terms {
+			m.Paths = append(m.Paths, projectPath(t.path, o, e1, e2, u0, v0)...)
+		}
+	}
+	p.what = fmt.Sprintf("%s on %d × %d points", mag, n1, n2)
+	if logColor {
+		p.what += ", log colour"
+	}
+	if arrows {
+		p.what += ", arrows"
+	}
+	m.Title = mag + " in the plane"
+	return writePlot(env, names, fn, file, p)
+}
+
+// alongAxis reports whether the unit vector e is the x, y or z axis
+// itself, and gives the axis's name and o's coordinate on it.
+func alongAxis(o, e em.Vec) (string, float64, bool) {
+	switch e {
+	case em.Vec{X: 1}:
+		return "x", o.X, true
+	case em.Vec{Y: 1}:
+		return "y", o.Y, true
+	case em.Vec{Z: 1}:
+		return "z", o.Z, true
+	}
+	return "", 0, false
+}
+
+// bestUnits is the unit chooser of a column of dimension d.
+func bestUnits(d runtime.Dim) func(float64) (string, float64) {
+	return func(big float64) (string, float64) { return runtime.BestUnit(d, big, 4) }
+}
+
+// projectPath gives a path's runs of joined primitives as polylines in
+// the plane's coordinates (u along e1, v along e2 from o).
+func projectPath(p em.Path, o, e1, e2 em.Vec, u0, v0 float64) [][][2]float64 {
+	const perPrim = 24 // points per primitive: smooth arcs at drawing size
+	const most = 20000 // points per path: a long helix stays drawable
+	var out [][][2]float64
+	total := 0
+	for _, run := range p.Loops() {
+		var line [][2]float64
+		for _, q := range p.Prims[run[0]:run[1]] {
+			for k := 0; k <= perPrim && total < most; k++ {
+				x := r3.Sub(q.Point(float64(k)/perPrim), o)
+				line = append(line, [2]float64{u0 + r3.Dot(x, e1), v0 + r3.Dot(x, e2)})
+				total++
+			}
+		}
+		out = append(out, line)
+	}
+	return out
 }
 
 func describeArg(v runtime.Value) string {
@@ -225,12 +386,8 @@ func makePlot(env runtime.Env, names *plotNamer, fn, file, logAxes string, cols 
 	if len(rows) < 2 {
 		return nil, errorf("%s: the table has %d rows; a line needs at least two", fn, len(rows))
 	}
-	if file != "" && !filepath.IsLocal(filepath.FromSlash(file)) {
-		// refused here, not only by the session, so that a script checked
-		// without an output directory is refused as well
-		return nil, errorf("%s: the file name %q leaves the output directory; give a plain name such as field.svg", fn, file)
-	}
-	p := &Plot{line: draw.Line{LogX: strings.Contains(logAxes, "x"), LogY: strings.Contains(logAxes, "y")}}
+	line := &draw.Line{LogX: strings.Contains(logAxes, "x"), LogY: strings.Contains(logAxes, "y")}
+	p := &Plot{pic: line}
 	column := func(j int) draw.Column {
 		c := draw.Column{Name: cols[j], Unit: runtime.DisplayUnitOf(dims[j]), Values: make([]float64, len(rows))}
 		if dims[j].IsZero() {
@@ -248,9 +405,18 @@ func makePlot(env runtime.Env, names *plotNamer, fn, file, logAxes string, cols 
 		}
 		return c
 	}
-	p.line.X = column(pick[0])
+	line.X = column(pick[0])
+	var ys []string
 	for _, j := range pick[1:] {
-		p.line.Ys = append(p.line.Ys, column(j))
+		line.Ys = append(line.Ys, column(j))
+		ys = append(ys, cols[j])
+	}
+	p.what = fmt.Sprintf("%s against %s, %d points", strings.Join(ys, ", "), cols[pick[0]], len(rows))
+	switch logAxes {
+	case "xy":
+		p.what += ", log x and y"
+	case "x", "y":
+		p.what += ", log " + logAxes
 	}
 	for _, j := range pick {
 		p.cols = append(p.cols, cols[j])
@@ -263,12 +429,23 @@ func makePlot(env runtime.Env, names *plotNamer, fn, file, logAxes string, cols 
 			p.rows[i][k] = r[j]
 		}
 	}
+	return writePlot(env, names, fn, file, p)
+}
+
+// writePlot draws p and writes it to file in the output directory (a
+// numbered name when file is "").
+func writePlot(env runtime.Env, names *plotNamer, fn, file string, p *Plot) (*Plot, error) {
+	if file != "" && !filepath.IsLocal(filepath.FromSlash(file)) {
+		// refused here, not only by the session, so that a script checked
+		// without an output directory is refused as well
+		return nil, errorf("%s: the file name %q leaves the output directory; give a plain name such as field.svg", fn, file)
+	}
 	var data []byte
 	var err error
 	if strings.EqualFold(filepath.Ext(file), ".png") {
-		data, err = p.line.PNG()
+		data, err = p.pic.PNG()
 	} else {
-		data, err = p.line.SVG()
+		data, err = p.pic.SVG()
 	}
 	if err != nil {
 		return nil, errorf("%s: %v", fn, err)

@@ -14,7 +14,7 @@ import (
 // plotScript draws the mutual inductance of two coaxial loops against
 // their gap; the numbers are only guarded against drift here (the formula
 // is tested in induction_test.go).
-const plotScript = "# gap\n\n```lw\nr2 = 15 mm\nk(d) = maxwell_mutual(20 mm, r2, d)\nt = sweep(k, 1 mm, 20 mm, 6)\nplot(t, \"d\", \"k\")\nplot_fn(k, 1 mm, 5 mm, 3, \"fn.svg\")\n```\n"
+const plotScript = "# gap\n\n```lw\nr2 = 15 mm\nk(d) = maxwell_mutual(20 mm, r2, d)\nt = sweep(k, 1 mm, 20 mm, 6)\nplot(t, \"d\", \"k\")\nplot_fn(k, 1 mm, 5 mm, 3, \"fn.svg\")\nfield_map(b_field(source(circle([0, 0, 0] m, [0, 0, 1], r2), 1 A)), [-40, 0, -40] mm, [80, 0, 0] mm, [0, 0, 80] mm, 4, 4)\n```\n"
 
 // TestPlotRecordCheck: a plot writes its SVG into the output directory when
 // recording, a check without an output directory matches the recorded
@@ -32,18 +32,18 @@ func TestPlotRecordCheck(t *testing.T) {
 		t.Fatal(err)
 	}
 	text := string(rec)
-	for _, want := range []string{"plot-1.svg: k against d, 6 points", "fn.svg: k against d, 3 points", "d [mm]"} {
+	for _, want := range []string{"plot-1.svg: k against d, 6 points", "fn.svg: k against d, 3 points", "d [mm]", "plot-2.svg: |B| on 4 × 4 points", "x [mm]"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("recorded script lacks %q:\n%s", want, text)
 		}
 	}
-	for _, f := range []string{"plot-1.svg", "fn.svg"} {
+	for _, f := range []string{"plot-1.svg", "fn.svg", "plot-2.svg"} {
 		svg, err := os.ReadFile(filepath.Join(dir, f))
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !strings.Contains(string(svg), "k [nH]") || !strings.Contains(string(svg), "d [mm]") {
-			t.Errorf("%s lacks its axis labels", f)
+		if !strings.Contains(string(svg), "[mm]") || !strings.Contains(string(svg), "<path") {
+			t.Errorf("%s lacks its axis labels or its lines", f)
 		}
 	}
 	again, err := runtime.ParseScript("gap.lw", rec)
@@ -63,14 +63,17 @@ func TestPlotRecordCheck(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var plotRows int
+	var plotRows, mapRows int
 	for _, d := range rep.Drifts {
 		if strings.HasPrefix(d.Stmt, "plot") && strings.Contains(d.What, "k [nH]") {
 			plotRows++
 		}
+		if strings.HasPrefix(d.Stmt, "field_map") && strings.Contains(d.What, "|B|") {
+			mapRows++
+		}
 	}
-	if plotRows == 0 {
-		t.Errorf("no drift of the plotted data reported: %+v", rep.Drifts)
+	if plotRows == 0 || mapRows == 0 {
+		t.Errorf("drift of the plotted data not reported (plot %d, map %d): %+v", plotRows, mapRows, rep.Drifts)
 	}
 }
 
@@ -117,6 +120,56 @@ func TestPlotRefuses(t *testing.T) {
 		{`plot_log("y", t, "z", "Bx")`, `a log axis needs every value above zero`},
 		{`plot_log("w", u, "d", "k")`, `plot_log: the first argument names the log axes: "x", "y" or "xy", not "w"`},
 		{`plot(u, "d", "k", "a.pdf")`, `plot: the file "a.pdf" must end in .svg or .png`},
+	} {
+		_, err := s.Eval(lang.Pos{Line: 1, Col: 1}, c.stmt)
+		if err == nil || !strings.Contains(err.Error(), c.msg) {
+			t.Errorf("%s: %v; want %q", c.stmt, err, c.msg)
+		}
+	}
+}
+
+// TestFieldMap: a map of B around a loop records its grid (x and z, as the
+// sides run along those axes) and magnitude, writes an SVG labelled with
+// both axes and the colour bar's unit, and refuses sides that are not
+// perpendicular and unknown options.
+func TestFieldMap(t *testing.T) {
+	dir := t.TempDir()
+	s := runtime.NewSession(builtins.Standard())
+	s.OutDir = dir
+	eval(t, s, "loop = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)")
+	res, err := s.Eval(lang.Pos{Line: 1, Col: 1}, `field_map(b_field(loop), [-50, 0, -40] mm, [100, 0, 0] mm, [0, 0, 80] mm, 4, 3, "arrows", "map.svg")`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cols, _, rows := res.Value.(runtime.Tabular).Tabulate()
+	if strings.Join(cols, " ") != "x z |B| Bu Bv" || len(rows) != 12 {
+		t.Fatalf("columns %q, %d rows", cols, len(rows))
+	}
+	// the grid's corners: x from -50 mm, z from -40 mm to 40 mm
+	if rows[0][0] != -0.05 || rows[0][1] != -0.04 || rows[11][1] != 0.04 {
+		t.Errorf("grid corners: %v … %v", rows[0], rows[11])
+	}
+	// on the plane y = 0 the in-plane components carry all of B (By = 0
+	// by the loop's symmetry): |B|² = Bu² + Bv² to rounding
+	for _, r := range rows {
+		if d := r[2]*r[2] - (r[3]*r[3] + r[4]*r[4]); d > 1e-12*r[2]*r[2] || d < -1e-12*r[2]*r[2] {
+			t.Errorf("row %v: |B|² − Bu² − Bv² = %g", r, d)
+		}
+	}
+	svg, err := os.ReadFile(filepath.Join(dir, "map.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"x [mm]", "z [mm]", "|B| [µT]"} {
+		if !strings.Contains(string(svg), want) {
+			t.Errorf("map.svg lacks %q", want)
+		}
+	}
+	for _, c := range []struct{ stmt, msg string }{
+		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [1, 0, 1] mm, 3, 3)`, "side1 and side2 must be perpendicular"},
+		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [0, 0, 1] mm, 3, 3, "dots")`, `unknown option "dots"`},
+		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [0, 0, 1] mm, 3, 3, "../m.svg")`, "leaves the output directory"},
+		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [0, 0, 1] mm, 1, 3)`, "field_map:"},
 	} {
 		_, err := s.Eval(lang.Pos{Line: 1, Col: 1}, c.stmt)
 		if err == nil || !strings.Contains(err.Error(), c.msg) {
