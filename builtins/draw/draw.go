@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"strconv"
 	"strings"
 	"unicode"
 
@@ -73,9 +74,9 @@ func writeOut(c canvas) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// palette holds the series colours: distinct in hue and lightness, so they
+// seriesColors holds the series colours: distinct in hue and lightness, so they
 // stay apart in grey print too (common practice).
-var palette = []color.Color{
+var seriesColors = []color.Color{
 	color.RGBA{R: 0x1f, G: 0x4e, B: 0x99, A: 0xff},
 	color.RGBA{R: 0xd9, G: 0x5f, B: 0x02, A: 0xff},
 	color.RGBA{R: 0x1b, G: 0x9e, B: 0x77, A: 0xff},
@@ -119,11 +120,11 @@ func (l *Line) plot() (*plot.Plot, error) {
 	p.Y.Label.Text = Label(names, yUnit)
 	if l.LogX {
 		p.X.Scale = plot.LogScale{}
-		p.X.Tick.Marker = plot.LogTicks{Prec: -1}
+		p.X.Tick.Marker = logTicks{}
 	}
 	if l.LogY {
 		p.Y.Scale = plot.LogScale{}
-		p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+		p.Y.Tick.Marker = logTicks{}
 	}
 	p.Add(plotter.NewGrid())
 	for i, y := range l.Ys {
@@ -136,9 +137,9 @@ func (l *Line) plot() (*plot.Plot, error) {
 		if err != nil {
 			return nil, err
 		}
-		ln.Color = palette[i%len(palette)]
+		ln.Color = seriesColors[i%len(seriesColors)]
 		ln.Width = vg.Points(1.5)
-		if i >= len(palette) {
+		if i >= len(seriesColors) {
 			ln.Dashes = []vg.Length{vg.Points(4), vg.Points(2)}
 		}
 		p.Add(ln)
@@ -147,6 +148,10 @@ func (l *Line) plot() (*plot.Plot, error) {
 		}
 	}
 	p.Legend.Top = true
+	if !l.LogY { // a little room above and below the lines
+		pad := 0.04 * (p.Y.Max - p.Y.Min)
+		p.Y.Min, p.Y.Max = p.Y.Min-pad, p.Y.Max+pad
+	}
 	return p, nil
 }
 
@@ -217,4 +222,34 @@ func Prefixed(unit string, big float64) (string, float64) {
 	}
 	k = max(-5, min(4, k))
 	return prefixes[k] + unit, math.Pow10(3 * k)
+}
+
+// logTicks marks a log axis: every power of ten labelled, with the 2×
+// and 5× steps labelled too when fewer than two powers fall in the range,
+// and unlabelled minor ticks at the other steps.
+type logTicks struct{}
+
+func (logTicks) Ticks(lo, hi float64) []plot.Tick {
+	if !(lo > 0) || !(hi > lo) {
+		return plot.DefaultTicks{}.Ticks(lo, hi)
+	}
+	powers := 0
+	for k := math.Ceil(math.Log10(lo)); k <= math.Floor(math.Log10(hi)); k++ {
+		powers++
+	}
+	var ts []plot.Tick
+	for k := math.Floor(math.Log10(lo)); k <= math.Ceil(math.Log10(hi)); k++ {
+		for m := 1; m <= 9; m++ {
+			x := float64(m) * math.Pow(10, k)
+			if x < lo*(1-1e-12) || x > hi*(1+1e-12) {
+				continue
+			}
+			t := plot.Tick{Value: x}
+			if m == 1 || (powers < 2 && (m == 2 || m == 5)) {
+				t.Label = strconv.FormatFloat(x, 'g', 6, 64)
+			}
+			ts = append(ts, t)
+		}
+	}
+	return ts
 }

@@ -173,3 +173,30 @@ func TestLinePNG(t *testing.T) {
 		t.Errorf("not a PNG: % x", b[:8])
 	}
 }
+
+// TestLogTicks: powers of ten are labelled; within less than two powers
+// the 2× and 5× steps are labelled too, so an axis never has fewer than
+// two labels over a range of more than 2.5×.
+func TestLogTicks(t *testing.T) {
+	labels := func(lo, hi float64) []string {
+		var out []string
+		for _, tk := range (logTicks{}).Ticks(lo, hi) {
+			if tk.Label != "" {
+				out = append(out, tk.Label)
+			}
+		}
+		return out
+	}
+	for _, c := range []struct {
+		lo, hi float64
+		want   string
+	}{
+		{6.5, 29, "10 20"},
+		{1e-3, 1, "0.001 0.01 0.1 1"},
+		{1.5, 9, "2 5"},
+	} {
+		if got := strings.Join(labels(c.lo, c.hi), " "); got != c.want {
+			t.Errorf("labels on [%g, %g]: %q, want %q", c.lo, c.hi, got, c.want)
+		}
+	}
+}

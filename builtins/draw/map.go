@@ -8,6 +8,7 @@ import (
 	"strconv"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/palette"
 	"gonum.org/v1/plot/palette/moreland"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
@@ -150,7 +151,7 @@ func (m *Map) plots() (main, bar *plot.Plot, err error) {
 	if m.LogColor {
 		bar.Y.Tick.Marker = powerTicks{}
 	}
-	bar.Add(&plotter.ColorBar{ColorMap: cm, Vertical: true})
+	bar.Add(&colorBar{cm: cm})
 	return main, bar, nil
 }
 
@@ -227,4 +228,36 @@ func (powerTicks) Ticks(lo, hi float64) []plot.Tick {
 		}
 	}
 	return plain
+}
+
+// colorBar draws a colour map's range as a column of filled rectangles:
+// plain vector shapes, so every SVG viewer shows it (an embedded image is
+// not shown by all).
+type colorBar struct{ cm palette.ColorMap }
+
+// barSteps is the number of rectangles: finer than the eye tells apart at
+// the bar's height (common practice).
+const barSteps = 128
+
+func (b *colorBar) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return 0, 1, b.cm.Min(), b.cm.Max()
+}
+
+func (b *colorBar) Plot(c draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&c)
+	lo, hi := b.cm.Min(), b.cm.Max()
+	for i := 0; i < barSteps; i++ {
+		y0 := lo + (hi-lo)*float64(i)/barSteps
+		y1 := lo + (hi-lo)*float64(i+1)/barSteps
+		col, err := b.cm.At((y0 + y1) / 2)
+		if err != nil {
+			continue
+		}
+		// overlap each rectangle a little so no seam shows between them
+		top := ty(y1)
+		if i < barSteps-1 {
+			top += vg.Points(0.5)
+		}
+		c.FillPolygon(col, []vg.Point{{X: tx(0), Y: ty(y0)}, {X: tx(1), Y: ty(y0)}, {X: tx(1), Y: top}, {X: tx(0), Y: top}})
+	}
 }
