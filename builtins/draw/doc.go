@@ -11,8 +11,16 @@
 // of letters gets an engineering prefix from f to T and any other unit is
 // drawn as given.
 //
+// # Plots
+//
+// Line draws one or several series of one unit against a column, on
+// linear or log axes. Map draws a quantity on a rectangular grid as colour
+// (linear or log) with a colour bar, optional direction arrows and
+// polylines on top.
+//
 // # Limits
 //
-// Only line plots and maps on a regular grid; a log axis needs every value
-// on it above zero. Output is SVG or PNG.
+// A log axis or log colour needs every value on it above zero. Output is
+// SVG or PNG; a map draws one shape per grid cell, so an SVG of a large
+// grid is large (a few hundred bytes per cell).
 package draw
