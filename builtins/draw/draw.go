@@ -226,20 +226,29 @@ func Prefixed(unit string, big float64) (string, float64) {
 
 // logTicks marks a log axis: every power of ten labelled, with the 2×
 // and 5× steps labelled too when fewer than two powers fall in the range,
-// and unlabelled minor ticks at the other steps.
+// and unlabelled minor ticks at the other steps. Over more than a dozen
+// decades only every n-th power is marked, so that labels do not collide.
 type logTicks struct{}
 
 func (logTicks) Ticks(lo, hi float64) []plot.Tick {
 	if !(lo > 0) || !(hi > lo) {
 		return plot.DefaultTicks{}.Ticks(lo, hi)
 	}
+	kLo, kHi := math.Floor(math.Log10(lo)), math.Ceil(math.Log10(hi))
 	powers := 0
 	for k := math.Ceil(math.Log10(lo)); k <= math.Floor(math.Log10(hi)); k++ {
 		powers++
 	}
+	step := math.Max(1, math.Ceil((kHi-kLo)/12))
 	var ts []plot.Tick
-	for k := math.Floor(math.Log10(lo)); k <= math.Ceil(math.Log10(hi)); k++ {
+	for k := kLo; k <= kHi; k++ {
+		if math.Mod(k, step) != 0 {
+			continue
+		}
 		for m := 1; m <= 9; m++ {
+			if step > 1 && m > 1 {
+				break
+			}
 			x := float64(m) * math.Pow(10, k)
 			if x < lo*(1-1e-12) || x > hi*(1+1e-12) {
 				continue

@@ -194,6 +194,8 @@ func TestLogTicks(t *testing.T) {
 		{6.5, 29, "10 20"},
 		{1e-3, 1, "0.001 0.01 0.1 1"},
 		{1.5, 9, "2 5"},
+		// 60 decades: every 5th power (ceil(60/12) = 5), from 1e-30 to 1e30
+		{1e-30, 1e30, "1e-30 1e-25 1e-20 1e-15 1e-10 1e-05 1 100000 1e+10 1e+15 1e+20 1e+25 1e+30"},
 	} {
 		if got := strings.Join(labels(c.lo, c.hi), " "); got != c.want {
 			t.Errorf("labels on [%g, %g]: %q, want %q", c.lo, c.hi, got, c.want)
