@@ -165,6 +165,17 @@ func TestFieldMap(t *testing.T) {
 			t.Errorf("map.svg lacks %q", want)
 		}
 	}
+	// the loop's path is drawn on top: one polyline more than the map of
+	// the same field given as a user function, which has no source
+	eval(t, s, "F(p) = b_at(loop, p)")
+	eval(t, s, `field_map(F, [-50, 0, -40] mm, [100, 0, 0] mm, [0, 0, 80] mm, 4, 3, "arrows", "user.svg")`)
+	user, err := os.ReadFile(filepath.Join(dir, "user.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a, b := strings.Count(string(svg), "<path"), strings.Count(string(user), "<path"); a != b+1 {
+		t.Errorf("paths: %d with the source, %d without; want one more", a, b)
+	}
 	for _, c := range []struct{ stmt, msg string }{
 		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [1, 0, 1] mm, 3, 3)`, "side1 and side2 must be perpendicular"},
 		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [0, 0, 1] mm, 3, 3, "dots")`, `unknown option "dots"`},

@@ -191,13 +191,21 @@ func (a *arrows) Plot(c draw.Canvas, p *plot.Plot) {
 }
 
 // powerTicks marks an axis that holds log10 of values with the values:
-// major ticks at powers of ten, minor ones at 2…9 times them.
+// major ticks at powers of ten, minor ones at 2…9 times them; over more
+// than a dozen decades only every n-th power.
 type powerTicks struct{}
 
 func (powerTicks) Ticks(lo, hi float64) []plot.Tick {
 	var ts []plot.Tick
+	step := math.Max(1, math.Ceil((math.Ceil(hi)-math.Floor(lo))/12)) // as logTicks
 	for k := math.Floor(lo); k <= math.Ceil(hi); k++ {
+		if math.Mod(k, step) != 0 {
+			continue
+		}
 		for m := 1; m <= 9; m++ {
+			if step > 1 && m > 1 {
+				break
+			}
 			x := k + math.Log10(float64(m))
 			if x < lo || x > hi {
 				continue

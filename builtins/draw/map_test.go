@@ -91,3 +91,26 @@ func TestMapRefuses(t *testing.T) {
 		t.Error("log colour of a zero accepted")
 	}
 }
+
+// TestPowerTicks: the colour bar of a log map is labelled with values at
+// powers of ten, every n-th one over many decades.
+func TestPowerTicks(t *testing.T) {
+	var got []string
+	for _, tk := range (powerTicks{}).Ticks(-9, 3) {
+		if tk.Label != "" {
+			got = append(got, tk.Label)
+		}
+	}
+	if strings.Join(got, " ") != "1e-09 1e-08 1e-07 1e-06 1e-05 0.0001 0.001 0.01 0.1 1 10 100 1000" {
+		t.Errorf("12 decades: %q", got)
+	}
+	got = nil
+	for _, tk := range (powerTicks{}).Ticks(-30, 30) {
+		if tk.Label != "" {
+			got = append(got, tk.Label)
+		}
+	}
+	if len(got) != 13 { // every 5th power: ceil(60/12) = 5
+		t.Errorf("60 decades: %q", got)
+	}
+}
