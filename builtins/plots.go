@@ -97,7 +97,7 @@ func plotFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: `plot_log(axes: "x", "y" or "xy", table, x: column name, y: column name[, more y columns…][, file]) -> plot`,
 				Summary:   "plot with logarithmic axes: every value on a log axis must be above zero.",
-				Method:    "as plot; ticks at powers of ten",
+				Method:    "as plot; ticks at powers of ten (and at 2× and 5× within less than two decades)",
 				Example:   "f(d) = maxwell_mutual(20 mm, 15 mm, d)\nplot_log(\"y\", sweep(f, 1 mm, 100 mm, 12), \"d\", \"f\")",
 				Reference: refPlots,
 			},
@@ -127,7 +127,7 @@ func fieldMapFunc(names *plotNamer) *runtime.Func {
 		Help: &runtime.Help{
 			Signature: `field_map(field, origin: position [m], side1, side2: perpendicular vectors [m], n1, n2: whole numbers[, t: s][, "arrows"][, "log"][, file]) -> plot`,
 			Summary:   `A field's magnitude on an n1 × n2 grid over the rectangle origin + u·side1 + v·side2, drawn as colour with a colour bar; "arrows" adds the direction of the field's part in the plane at every point, "log" colours by the logarithm (a field falling off from a wire spans decades). The paths of the field's source are drawn on top, projected onto the plane.`,
-			Method:    "sample_plane on the grid (its work and limits), then a heat map; the recorded data are u, v and the magnitude (and the in-plane components with arrows)",
+			Method:    "sample_plane on the grid (its work and limits), then a heat map; the recorded data are the grid's coordinates (x, y or z for a side along that axis, else u and v from origin), the magnitude, and with arrows the in-plane components",
 			Example:   "field_map(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, \"arrows\")",
 			Reference: refPlots,
 		},
