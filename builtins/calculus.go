@@ -19,8 +19,11 @@ type Field struct {
 	sym  string // "B", "A", "E", or "F" for a user function (table columns)
 	// src and which are set for B and A of a source, which the parallel
 	// kernel samples at many points at once.
-	src     *Source
-	which   em.Which
+	src   *Source
+	which em.Which
+	// of is the source of a field of a source (B, A or E), whose paths a
+	// field map draws.
+	of      *Source
 	dim     runtime.Dim // zero and user == true: found on first evaluation
 	user    bool
 	timeDep bool
@@ -115,6 +118,7 @@ func sourceField(which em.Which, src *Source) *Field {
 		desc:      name + " of " + src.Show(6),
 		sym:       name,
 		src:       src,
+		of:        src,
 		which:     which,
 		dim:       d,
 		timeDep:   src.timeDependent(),
@@ -151,6 +155,7 @@ func inducedField(src *Source) *Field {
 	return &Field{
 		pointCost: w,
 		desc:      "E of " + src.Show(6),
+		of:        src,
 		sym:       "E",
 		dim:       dimEfield,
 		timeDep:   src.timeDependent(),

@@ -93,6 +93,7 @@ func Standard() runtime.Library {
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},
 		{"tables", append(tableFuncs(), exportFuncs()...)},
+		{"plots", plotFuncs()},
 	} {
 		for _, f := range fam.funcs {
 			f.Help.Family = fam.name

@@ -37,20 +37,21 @@ Every command takes -h for its own usage.
 
 // commandUsage is what -h prints for each command.
 var commandUsage = map[string]string{
-	"run": `usage: loopwise run [-budget SECONDS] FILE|DIR...
+	"run": `usage: loopwise run [-budget SECONDS] [-out DIR] FILE|DIR...
   Evaluate each script (directories are searched for *.lw) and print the
   worked calculation: statements, results and cautions. Stops a file at its
   first error (FILE:LINE:COL, the line and a caret) and exits 1.
-` + budgetUsage,
+` + budgetUsage + outUsage,
 	"check": `usage: loopwise check [-tol R] [-budget SECONDS] FILE|DIR...
   Re-evaluate each script and compare every recorded result with the new
   one, numbers within the relative tolerance R (default 1e-9). Exits 1 and
-  reports each drifted result when any differs.
+  reports each drifted result when any differs. Writes no files: a plot's
+  data is compared, its picture is not drawn to disk.
 ` + budgetUsage,
-	"record": `usage: loopwise record [-budget SECONDS] FILE|DIR...
+	"record": `usage: loopwise record [-budget SECONDS] [-out DIR] FILE|DIR...
   Evaluate each script and write the new results into it, in place and
   atomically: on an error the file is left untouched.
-` + budgetUsage,
+` + budgetUsage + outUsage,
 	"version": `usage: loopwise version
   Print the version of this build: module version, source revision and Go
   version.
@@ -175,6 +176,10 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 	if code != 0 {
 		return code
 	}
+	args, out, code := takeOut("run", args, stderr)
+	if code != 0 {
+		return code
+	}
 	files, code := expand("run", args, stderr)
 	if code != 0 {
 		return code
@@ -189,7 +194,9 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 		}
 		sc, err := load(f)
 		if err == nil {
-			err = sc.Run(scriptSession(budget, stderr), stdout)
+			s := scriptSession(budget, stderr)
+			s.OutDir = outDirFor(f, out, len(files) > 1)
+			err = sc.Run(s, stdout)
 		}
 		if err != nil {
 			fmt.Fprintln(stderr, err)
@@ -255,6 +262,10 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 	if code != 0 {
 		return code
 	}
+	args, out, code := takeOut("record", args, stderr)
+	if code != 0 {
+		return code
+	}
 	files, code := expand("record", args, stderr)
 	if code != 0 {
 		return code
@@ -264,7 +275,9 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var data []byte
 		if err == nil {
-			data, err = sc.Record(scriptSession(budget, stderr))
+			s := scriptSession(budget, stderr)
+			s.OutDir = outDirFor(f, out, len(files) > 1)
+			data, err = sc.Record(s)
 		}
 		if err == nil {
 			if werr := runtime.WriteFileAtomic(f, data); werr != nil {

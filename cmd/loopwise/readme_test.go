@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"os"
+	"path/filepath"
 	"slices"
 	"sort"
 	"strings"
@@ -66,5 +67,40 @@ func TestReadmeReservedNames(t *testing.T) {
 	sort.Strings(listed)
 	if want := runtime.ReservedCalls(); !slices.Equal(listed, want) {
 		t.Errorf("README lists %v, the engine reserves %v", listed, want)
+	}
+}
+
+// TestReadmePlots runs the statements of the README's "Plots" section as a
+// script with an output directory: every plot is written, numbered unless
+// named.
+func TestReadmePlots(t *testing.T) {
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, sec, ok := strings.Cut(string(data), "\n## Plots\n")
+	if !ok {
+		t.Fatal("README has no Plots section")
+	}
+	_, after, ok := strings.Cut(sec, "```lw\n")
+	if !ok {
+		t.Fatal("the Plots section has no lw block")
+	}
+	block, _, _ := strings.Cut(after, "```")
+	sc, err := runtime.ParseScript("plots.lw", []byte("```lw\n"+block+"```\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	s := newSession()
+	s.OutDir = dir
+	var out bytes.Buffer
+	if err := sc.Run(s, &out); err != nil {
+		t.Fatalf("%v\n%s", err, out.String())
+	}
+	for _, f := range []string{"plot-1.svg", "coupling-log.svg", "plot-2.svg", "plot-3.svg"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Errorf("README's plots: %v", err)
+		}
 	}
 }

@@ -17,6 +17,7 @@ import (
 	"github.com/peterh/liner"
 	"golang.org/x/term"
 
+	"loopwise/builtins"
 	"loopwise/lang"
 	"loopwise/runtime"
 )
@@ -129,6 +130,9 @@ func (c *console) eval(text string) (quit bool) {
 	case st.Kind == lang.Empty:
 	case st.Kind == lang.Assign:
 		fmt.Fprintf(c.out, "%s = %s\n", st.Name, res.Text)
+		if p, ok := res.Value.(*builtins.Plot); ok {
+			fmt.Fprintln(c.out, p.Where()) // a named plot also says where it went
+		}
 	default:
 		fmt.Fprintln(c.out, res.Text)
 	}
@@ -295,6 +299,7 @@ func (c *console) load(st *lang.Statement) {
 func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	c := newConsole(stdout, stderr)
 	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
+		c.s.OutDir = promptOut // piped input writes no files
 		return terminalLoop(c)
 	}
 	c.s.SetProgress(progressPrinter(stderr))

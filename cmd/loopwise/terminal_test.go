@@ -347,3 +347,26 @@ func TestPromptRestoreStoppedByCtrlC(t *testing.T) {
 		t.Errorf("journals left: %v", j)
 	}
 }
+
+// TestPromptPlot: at the prompt a plot is written into ./loopwise-out and
+// says where; a named plot says it too.
+func TestPromptPlot(t *testing.T) {
+	dir, state := t.TempDir(), t.TempDir()
+	tm := startTerm(t, state, dir)
+	tm.expect(`lw> `)
+	tm.send("k(d) = maxwell_mutual(20 mm, 15 mm, d)\r")
+	tm.expect(`lw> `)
+	tm.send("plot_fn(k, 1 mm, 5 mm, 3)\r")
+	tm.expect(`plot-1.svg: k against d, 3 points\r?\nwritten to loopwise-out/plot-1.svg`)
+	tm.send("p = plot_fn(k, 1 mm, 5 mm, 3, \"near.svg\")\r")
+	tm.expect(`p = near.svg: k against d, 3 points\r?\nwritten to loopwise-out/near.svg`)
+	tm.send("\x04")
+	if code := tm.exitCode(); code != 0 {
+		t.Errorf("Ctrl-D: exit %d, want 0", code)
+	}
+	for _, f := range []string{"plot-1.svg", "near.svg"} {
+		if _, err := os.Stat(filepath.Join(dir, "loopwise-out", f)); err != nil {
+			t.Error(err)
+		}
+	}
+}
