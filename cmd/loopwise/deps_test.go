@@ -20,7 +20,7 @@ var allowedImports = map[string][]string{
 	"runtime":      {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
 	"builtins":     {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "gonum.org/v1/gonum"},
 	"builtins/em":  {"gonum.org/v1/gonum"},
-	"cmd/loopwise": {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term"},
+	"cmd/loopwise": {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term", "github.com/yuin/goldmark"},
 }
 
 func TestImportPolicy(t *testing.T) {

@@ -28,7 +28,10 @@ const usage = `usage:
                                     (relative tolerance R, default 1e-9); exit 1 on drift
                                     or when a file holds no statement
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
-  run, check and record take -budget SECONDS: the work one statement may do
+  loopwise report [-o OUT.html] FILE
+                                    write the script as one self-contained HTML page:
+                                    prose, results, tables, plots, cautions, drift status
+  run, check, record and report take -budget SECONDS: the work one statement may do
   (default 60 s; at the prompt 5 s, changed with :budget SECONDS)
   loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
@@ -51,6 +54,7 @@ var commandUsage = map[string]string{
   Evaluate each script and write the new results into it, in place and
   atomically: on an error the file is left untouched.
 ` + budgetUsage,
+	"report": reportUsage,
 	"version": `usage: loopwise version
   Print the version of this build: module version, source revision and Go
   version.
@@ -128,6 +132,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return checkFiles(rest, stdout, stderr)
 	case "record":
 		return recordFiles(rest, stdout, stderr)
+	case "report":
+		return reportFiles(rest, stdout, stderr)
 	case "help", "-h", "-help", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0
