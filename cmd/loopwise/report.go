@@ -419,6 +419,7 @@ a { color: #0b57d0; }
 code, pre, output, .math { font-family: ui-monospace, "SFMono-Regular", Menlo, Consolas, "DejaVu Sans Mono", monospace; font-size: .9em; }
 :not(pre) > code { background: var(--code); padding: .1em .3em; border-radius: 3px; }
 pre { overflow-x: auto; }
+pre code { font-size: 1em; }
 .meta { border: 1px solid var(--line); border-radius: 6px; padding: .6rem .9rem; margin-bottom: 1.2rem; font-size: .9rem; color: var(--muted); }
 .meta dl { display: grid; grid-template-columns: max-content 1fr; gap: .1rem .8rem; margin: .4rem 0 0; }
 .meta dt { font-weight: 600; } .meta dd { margin: 0; overflow-wrap: anywhere; }

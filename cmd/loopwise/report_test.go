@@ -29,6 +29,17 @@ const reportScript = "# Test page\n\n" +
 // on it and returns the page and the exit status.
 func writeReport(t *testing.T, script string) (string, int, string) {
 	t.Helper()
+	out, code, msg := writeReportFile(t, script)
+	page, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatalf("no page written: %v (%s)", err, msg)
+	}
+	return string(page), code, msg
+}
+
+// writeReportFile is writeReport returning the page's file name.
+func writeReportFile(t *testing.T, script string) (string, int, string) {
+	t.Helper()
 	dir := t.TempDir()
 	path := filepath.Join(dir, "t.lw")
 	if err := os.WriteFile(path, []byte(script), 0o644); err != nil {
@@ -37,11 +48,7 @@ func writeReport(t *testing.T, script string) (string, int, string) {
 	out := filepath.Join(dir, "t.html")
 	var stdout, stderr bytes.Buffer
 	code := run([]string{"report", path, "-o", out}, nil, &stdout, &stderr)
-	page, err := os.ReadFile(out)
-	if err != nil {
-		t.Fatalf("no page written: %v (stderr %s)", err, stderr.String())
-	}
-	return string(page), code, stdout.String() + stderr.String()
+	return out, code, stdout.String() + stderr.String()
 }
 
 // node helpers over golang.org/x/net/html
@@ -185,7 +192,7 @@ func TestReportPage(t *testing.T) {
 	}
 	// mathematics as text, never blank; "$5 and $6" stays prose
 	math := byClass(doc, "math")
-	if len(math) != 2 || math[0] != "Φ = μ_0 N I A / l" || math[1] != "ε = -(dΦ)/(dt)" {
+	if len(math) != 2 || math[0] != "Φ = μ₀ N I A / l" || math[1] != "ε = -(dΦ)/(dt)" {
 		t.Errorf("mathematics %q", math)
 	}
 	if !strings.Contains(page, "costs $5 and $6.") {
@@ -224,5 +231,45 @@ func TestReportRawHTML(t *testing.T) {
 	}
 	if !strings.Contains(page, "[image: a plot]") {
 		t.Error("a Markdown image is not shown as a link")
+	}
+}
+
+// TestMathText: TeX becomes readable text; what is not known stays as
+// written, never blank.
+func TestMathText(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{`\mu_0 I / (2 \pi r)`, "μ₀ I / (2 π r)"},
+		{`R^2 + z^{-3}`, "R² + z⁻³"},
+		{`\frac{d\Phi}{dt}`, "(dΦ)/(dt)"},
+		{`\mathcal{E}`, `\mathcal{E}`},
+		{`\left( a \right)`, "( a )"},
+		{`\mathrm{}`, `\mathrm{}`},
+		{`\mathrm{d}t \cdot \vec{B}`, "dt · B"},
+	}
+	for _, c := range cases {
+		if got := mathText(c.in); got != c.want {
+			t.Errorf("mathText(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
+// TestMathDollars: which dollars open mathematics (pandoc's rules).
+func TestMathDollars(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{"a $x$ b", `<p>a <span class="math" title="x">x</span> b</p>`},
+		{"costs $5 and $6", "<p>costs $5 and $6</p>"},
+		{"$ x$ and $x $", "<p>$ x$ and $x $</p>"},
+		{"$$\na\n$$", `<p><span class="math display" title="a">a</span></p>`},
+		{"$$ never closed", "<p>$$ never closed</p>"},
+		{"`$x$` in code", "<p><code>$x$</code> in code</p>"},
+	}
+	for _, c := range cases {
+		var b bytes.Buffer
+		if err := markdown.Convert([]byte(c.in), &b); err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.TrimSpace(b.String()); got != c.want {
+			t.Errorf("%q renders as %q, want %q", c.in, got, c.want)
+		}
 	}
 }

@@ -16,7 +16,8 @@ import (
 
 // Mathematics in the prose, $…$ inline and $$…$$ on its own, is shown as
 // readable text in a style of its own: common TeX commands become the
-// characters they stand for (\mu → μ, \cdot → ·, \frac{a}{b} → (a)/(b)),
+// characters they stand for (\mu → μ, \cdot → ·, \frac{a}{b} → (a)/(b),
+// digits after _ and ^ → sub- and superscript digits),
 // everything else stays as written, and the TeX source is kept in the
 // element's title. It is written here by hand because the goldmark math
 // extensions we know of either emit markup for a script to typeset in the
@@ -110,25 +111,38 @@ var texWords = map[string]string{
 	"cdot": "·", "times": "×", "approx": "≈", "le": "≤", "leq": "≤", "ge": "≥", "geq": "≥",
 	"ne": "≠", "neq": "≠", "pm": "±", "infty": "∞", "partial": "∂", "nabla": "∇",
 	"int": "∫", "oint": "∮", "iint": "∬", "sum": "∑", "sqrt": "√", "to": "→", "propto": "∝",
-	"ll": "≪", "gg": "≫", "sim": "∼", "hat": "", "vec": "", "mathrm": "", "text": "",
-	"mathbf": "", "left": "", "right": "", ",": "\u2009", ";": " ", "quad": "\u2003",
+	"ll": "≪", "gg": "≫", "sim": "∼", "left": "", "right": "", ",": "\u2009", ";": " ", "quad": "\u2003",
 	"ln": "ln", "sin": "sin", "cos": "cos", "exp": "exp", "log": "log", "tanh": "tanh",
 }
 
 var (
+	texWrap    = regexp.MustCompile(`\\(?:mathrm|text|mathbf|hat|vec|operatorname)\{([^{}]*)\}`)
 	texFrac    = regexp.MustCompile(`\\frac\{([^{}]*)\}\{([^{}]*)\}`)
 	texCommand = regexp.MustCompile(`\\([A-Za-z]+|[,;])`)
+	// a single digit or sign after _ or ^, or a run of them in braces
+	texScript = regexp.MustCompile(`([_^])(?:([0-9+-])|\{([0-9+-]+)\})`)
+	subDigits = strings.NewReplacer("0", "₀", "1", "₁", "2", "₂", "3", "₃", "4", "₄", "5", "₅", "6", "₆", "7", "₇", "8", "₈", "9", "₉", "+", "₊", "-", "₋")
+	supDigits = strings.NewReplacer("0", "⁰", "1", "¹", "2", "²", "3", "³", "4", "⁴", "5", "⁵", "6", "⁶", "7", "⁷", "8", "⁸", "9", "⁹", "+", "⁺", "-", "⁻")
 )
 
 // mathText turns TeX into readable text; commands it does not know stay
 // as written.
 func mathText(tex string) string {
-	t := texFrac.ReplaceAllString(tex, "($1)/($2)")
+	t := texWrap.ReplaceAllString(tex, "$1")
+	t = texFrac.ReplaceAllString(t, "($1)/($2)")
 	t = texCommand.ReplaceAllStringFunc(t, func(m string) string {
 		if r, ok := texWords[m[1:]]; ok {
 			return r
 		}
 		return m
+	})
+	t = texScript.ReplaceAllStringFunc(t, func(m string) string {
+		g := texScript.FindStringSubmatch(m)
+		digits := g[2] + g[3]
+		if g[1] == "_" {
+			return subDigits.Replace(digits)
+		}
+		return supDigits.Replace(digits)
 	})
 	t = strings.Join(strings.Fields(t), " ")
 	if strings.TrimSpace(t) == "" {
