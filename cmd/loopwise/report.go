@@ -180,12 +180,22 @@ func renderReport(in reportInput) ([]byte, error) {
 		return nil, err
 	}
 	rep := sc.Report(in.Results)
+	// a script that opens with a level-one heading keeps it above the
+	// status box: the page reads as the script does
+	var heading string
+	text := body.String()
+	if strings.HasPrefix(text, "<h1") {
+		if k := strings.Index(text, "</h1>\n"); k >= 0 {
+			heading, text = text[:k+len("</h1>\n")], text[k+len("</h1>\n"):]
+		}
+	}
 	v := pageView{
 		Title:   pageTitle(sc),
+		Heading: template.HTML(heading),
 		Script:  filepath.Base(sc.Path),
 		Version: in.Version,
 		When:    in.When.UTC().Format("2006-01-02 15:04:05 UTC"),
-		Body:    template.HTML(body.String()),
+		Body:    template.HTML(text),
 		Checked: rep.Results,
 		Drifted: rep.Drifted,
 	}
@@ -220,7 +230,7 @@ func pageTitle(sc *runtime.Script) string {
 
 type pageView struct {
 	Title, Script, Version, When string
-	Body                         template.HTML
+	Heading, Body                template.HTML
 	Checked, Drifted             int
 	Stopped                      bool
 	ErrorLine                    int
@@ -427,8 +437,8 @@ pre code { font-size: 1em; }
 .status.ok { color: var(--ok); } .status.bad { color: var(--bad); }
 .block { border-left: 3px solid var(--line); margin: 1rem 0; padding-left: .6rem; }
 .stmt { margin: .5rem 0 .9rem; }
-.stmt .code { margin: 0; padding: .4rem .6rem; background: var(--code); border-radius: 4px; white-space: pre-wrap; overflow-wrap: anywhere; }
-.ln { display: inline-block; min-width: 2.2em; color: var(--muted); text-decoration: none; user-select: none; }
+.stmt .code { margin: 0; padding: .4rem .6rem .4rem 2.8em; text-indent: -2.2em; background: var(--code); border-radius: 4px; white-space: pre-wrap; overflow-wrap: anywhere; }
+.ln { display: inline-block; min-width: 2.2em; text-indent: 0; color: var(--muted); text-decoration: none; user-select: none; }
 .result { padding: .2rem .6rem; overflow-wrap: anywhere; }
 .result output { font-weight: 600; }
 .mark { color: var(--muted); }
@@ -470,7 +480,7 @@ img { max-width: 100%; }
 </head>
 <body>
 <main>
-<header class="meta">
+{{.Heading}}<header class="meta">
 {{- if .Stopped}}
 <p class="status bad" id="status">The evaluation stopped at an error{{if .ErrorLine}} at <a href="#L{{.ErrorLine}}">line {{.ErrorLine}}</a>{{end}}; the results after it are not shown.</p>
 {{- else if .Drifted}}

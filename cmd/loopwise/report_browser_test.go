@@ -64,6 +64,7 @@ type pageFacts struct {
 	CautionsH   []int    `json:"cautionsH"` // rendered heights in CSS px
 	Plots       int      `json:"plots"`
 	EmptyPlots  int      `json:"emptyPlots"` // plots whose SVG has an empty bounding box
+	HiddenLns   int      `json:"hiddenLns"`  // line numbers drawn outside their statement's box
 	ScrollWidth int      `json:"scrollWidth"`
 	Width       int      `json:"width"`
 }
@@ -81,6 +82,9 @@ const factsJS = `(() => {
     cautionsH: all('.caution').map(e => Math.round(e.getBoundingClientRect().height)),
     plots: svgs.length,
     emptyPlots: svgs.filter(s => { const b = s.getBBox(); return !(b.width > 0 && b.height > 0); }).length,
+    hiddenLns: all('.stmt .ln').filter(a => { const r = document.createRange(); r.selectNodeContents(a);
+      const t = r.getBoundingClientRect(), box = a.parentElement.getBoundingClientRect();
+      return !(t.width > 0 && t.left >= box.left && t.right <= box.right); }).length,
     scrollWidth: document.documentElement.scrollWidth,
     width: window.innerWidth,
   };
@@ -219,6 +223,9 @@ func TestReportInBrowser(t *testing.T) {
 						t.Errorf("%d px: caution %d is %d px high: it can be missed", width, k+1, h)
 					}
 				}
+				if f.HiddenLns > 0 {
+					t.Errorf("%d px: %d line numbers are drawn outside their statement", width, f.HiddenLns)
+				}
 				if f.EmptyPlots > 0 {
 					t.Errorf("%d px: %d of %d plots have an empty bounding box", width, f.EmptyPlots, f.Plots)
 				}
@@ -274,5 +281,24 @@ func TestReportPrints(t *testing.T) {
 	}
 	if !f.Print || f.LineNumbers != "none" || f.CautionStyle != "solid" {
 		t.Errorf("print media %v, line numbers display %q, caution border %q; want true, none, solid", f.Print, f.LineNumbers, f.CautionStyle)
+	}
+}
+
+// TestReportPlotInBrowser: an inlined plot has a non-empty bounding box
+// and, wider than a phone, shrinks to the page instead of widening it.
+func TestReportPlotInBrowser(t *testing.T) {
+	ctx := browser(t)
+	out := filepath.Join(t.TempDir(), "plot.html")
+	if err := os.WriteFile(out, []byte(plotPage(t)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, width := range []int{390, 1280} {
+		f := shoot(t, ctx, out, filepath.Join(shotDir(t), fmt.Sprintf("plot-%d.png", width)), width)
+		if f.Plots != 1 || f.EmptyPlots != 0 {
+			t.Errorf("%d px: %d plots, %d with an empty bounding box", width, f.Plots, f.EmptyPlots)
+		}
+		if f.ScrollWidth > f.Width {
+			t.Errorf("%d px: the page scrolls sideways (%d px wide)", width, f.ScrollWidth)
+		}
 	}
 }
