@@ -31,7 +31,8 @@ const usage = `usage:
   loopwise report [-o OUT.html] FILE
                                     write the script as one self-contained HTML page:
                                     prose, results, tables, plots, cautions, drift status
-  run, check, record and report take -budget SECONDS: the work one statement may do
+  loopwise watch [-port N] FILE     serve the report on 127.0.0.1 and update it on every save
+  run, check, record, report and watch take -budget SECONDS: the work one statement may do
   (default 60 s; at the prompt 5 s, changed with :budget SECONDS)
   loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
@@ -55,6 +56,7 @@ var commandUsage = map[string]string{
   atomically: on an error the file is left untouched.
 ` + budgetUsage,
 	"report": reportUsage,
+	"watch":  watchUsage,
 	"version": `usage: loopwise version
   Print the version of this build: module version, source revision and Go
   version.
@@ -134,6 +136,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return recordFiles(rest, stdout, stderr)
 	case "report":
 		return reportFiles(rest, stdout, stderr)
+	case "watch":
+		return watchFiles(rest, stdout, stderr)
 	case "help", "-h", "-help", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0

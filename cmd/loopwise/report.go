@@ -122,6 +122,14 @@ type reportInput struct {
 	Digits  int
 	Version string
 	When    time.Time
+
+	// for the live view (watch)
+	Live         bool
+	Gen          int           // the number of this page
+	LoadErr      error         // the script could not be read (Script is nil)
+	Path         string        // the script's file, when Script is nil
+	LastGood     template.HTML // the article of the last evaluation without an error
+	LastGoodWhen time.Time
 }
 
 // markdown renders prose: CommonMark with our mathematics extension.
@@ -131,6 +139,18 @@ var markdown = goldmark.New(goldmark.WithExtensions(mathExtension{}, localImages
 
 // renderReport writes the page.
 func renderReport(in reportInput) ([]byte, error) {
+	page, _, err := renderReportParts(in)
+	return page, err
+}
+
+// renderReportParts writes the page, and returns also its article (the
+// script's content, without the title and the status box).
+func renderReportParts(in reportInput) (page []byte, article template.HTML, err error) {
+	if in.Script == nil {
+		v := pageView{Title: filepath.Base(in.Path), Script: in.Path, Version: in.Version, When: in.When.UTC().Format("2006-01-02 15:04:05 UTC"),
+			Stopped: true, LoadErr: in.LoadErr.Error()}
+		return in.finish(v)
+	}
 	sc := in.Script
 	byLine := make(map[int]runtime.StatementResult, len(in.Results))
 	for _, r := range in.Results {
@@ -154,7 +174,7 @@ func renderReport(in reportInput) ([]byte, error) {
 			continue
 		}
 		if err := flush(); err != nil {
-			return nil, err
+			return nil, "", err
 		}
 		if sc.Fence(i) {
 			if inBlock {
@@ -167,7 +187,7 @@ func renderReport(in reportInput) ([]byte, error) {
 		}
 		if r, ok := byLine[i]; ok {
 			if err := stmtTmpl.Execute(&body, stmtView(r, in.Digits)); err != nil {
-				return nil, err
+				return nil, "", err
 			}
 			i = r.Stmt.End
 			continue
@@ -177,7 +197,7 @@ func renderReport(in reportInput) ([]byte, error) {
 		}
 	}
 	if err := flush(); err != nil {
-		return nil, err
+		return nil, "", err
 	}
 	rep := sc.Report(in.Results)
 	// a script that opens with a level-one heading keeps it above the
@@ -207,11 +227,24 @@ func renderReport(in reportInput) ([]byte, error) {
 		}
 		v.Stopped = true
 	}
+	return in.finish(v)
+}
+
+// finish adds what the live view shows and writes the page.
+func (in reportInput) finish(v pageView) ([]byte, template.HTML, error) {
+	v.Script = filepath.Base(v.Script)
+	if in.Live {
+		v.Live = template.HTML(fmt.Sprintf(liveScript, in.Gen))
+		if (in.Err != nil || in.LoadErr != nil) && in.LastGood != "" {
+			v.LastGood = in.LastGood
+			v.LastGoodWhen = in.LastGoodWhen.UTC().Format("2006-01-02 15:04:05 UTC")
+		}
+	}
 	var page bytes.Buffer
 	if err := pageTmpl.Execute(&page, v); err != nil {
-		return nil, err
+		return nil, "", err
 	}
-	return page.Bytes(), nil
+	return page.Bytes(), v.Heading + v.Body, nil
 }
 
 func isRecordedLine(t string) bool {
@@ -234,6 +267,10 @@ type pageView struct {
 	Checked, Drifted             int
 	Stopped                      bool
 	ErrorLine                    int
+	LoadErr                      string        // the script could not be read
+	Live                         template.HTML // the live view's script
+	LastGood                     template.HTML
+	LastGoodWhen                 string
 }
 
 // statementView is one statement as the page shows it.
@@ -249,7 +286,9 @@ type statementView struct {
 	Cautions  []string
 	Drifts    []runtime.Drift
 	Error     string
-	Recorded  string // for a statement not evaluated
+	// ErrorSource is the source line and caret under the error message
+	ErrorSource string
+	Recorded    string // for a statement not evaluated
 }
 
 type tableView struct {
@@ -261,7 +300,9 @@ type tableView struct {
 func stmtView(r runtime.StatementResult, digits int) statementView {
 	v := statementView{Line: r.Stmt.Line + 1, Text: r.Text, Evaluated: r.Evaluated(), Drifts: r.Drifts, Recorded: r.Recorded}
 	if r.Err != nil {
-		v.Error = r.Err.Error()
+		// the message wraps; the source line and its caret keep their
+		// columns (and scroll on a narrow screen)
+		v.Error, v.ErrorSource, _ = strings.Cut(r.Err.Error(), "\n")
 	}
 	res := r.Result
 	if res == nil {
@@ -369,7 +410,7 @@ var funcs = template.FuncMap{"rel": relPercent}
 var stmtTmpl = template.Must(template.New("stmt").Funcs(funcs).Parse(`<div class="stmt{{if .Error}} failed{{else if .Drifts}} drifted{{else if not .Evaluated}} skipped{{end}}" id="L{{.Line}}">
 <pre class="code"><a class="ln" href="#L{{.Line}}">{{.Line}}</a><code>{{.Text}}</code></pre>
 {{- if .Error}}
-<div class="error" role="alert"><strong>Error at line {{.Line}}</strong><pre>{{.Error}}</pre></div>
+<div class="error" role="alert"><strong>Error at line {{.Line}}</strong><p class="msg">{{.Error}}</p>{{if .ErrorSource}}<pre>{{.ErrorSource}}</pre>{{end}}</div>
 {{- else if not .Evaluated}}
 <div class="skipped-note">Not evaluated: the evaluation stopped at an error above.{{if .Recorded}} Recorded result: <span class="rec">{{.Recorded}}</span>{{end}}</div>
 {{- else}}
@@ -448,6 +489,7 @@ pre code { font-size: 1em; }
 .caution strong { color: var(--warn); margin-right: .3rem; }
 .error, .drift { margin: .4rem 0; padding: .5rem .7rem; border: 2px solid var(--bad); border-left-width: 6px; border-radius: 4px; background: #fdecea; }
 .error pre { margin: .3rem 0 0; white-space: pre; }
+.error .msg { margin: .3rem 0 0; overflow-wrap: anywhere; font-family: ui-monospace, Menlo, Consolas, monospace; font-size: .9em; }
 .drift ul { margin: .3rem 0 0; padding-left: 1.2rem; }
 .rec, .now { font-family: ui-monospace, Menlo, Consolas, monospace; }
 .skipped .code { opacity: .6; }
@@ -462,6 +504,8 @@ figure.plot svg { max-width: 100%; height: auto; }
 .math { background: #f3f0ff; padding: 0 .25em; border-radius: 3px; white-space: pre-wrap; }
 .math.display { display: block; text-align: center; padding: .5rem; margin: .6rem 0; overflow-x: auto; }
 img { max-width: 100%; }
+.last-good { margin-top: 2rem; border-top: 3px dashed var(--line); opacity: .75; }
+.last-good-note { font-weight: 600; color: var(--muted); }
 @media (max-width: 480px) {
   main { padding: .6rem; } body { font-size: 15px; }
   .block { padding-left: .4rem; }
@@ -481,8 +525,11 @@ img { max-width: 100%; }
 <body>
 <main>
 {{.Heading}}<header class="meta">
-{{- if .Stopped}}
-<p class="status bad" id="status">The evaluation stopped at an error{{if .ErrorLine}} at <a href="#L{{.ErrorLine}}">line {{.ErrorLine}}</a>{{end}}; the results after it are not shown.</p>
+{{- if .LoadErr}}
+<p class="status bad" id="status">The script cannot be read.</p>
+<div class="error" role="alert"><pre>{{.LoadErr}}</pre></div>
+{{- else if .Stopped}}
+<p class="status bad" id="status">The evaluation stopped at an error{{if .ErrorLine}} at <a href="#L{{.ErrorLine}}">line {{.ErrorLine}}</a>{{end}}; the results after it are not shown.{{if .LastGood}} The last results evaluated without an error are <a href="#last-good">below</a>.{{end}}</p>
 {{- else if .Drifted}}
 <p class="status bad" id="status">{{.Drifted}} of {{.Checked}} recorded results no longer match.</p>
 {{- else}}
@@ -497,7 +544,14 @@ img { max-width: 100%; }
 <article>
 {{.Body}}
 </article>
+{{- if .LastGood}}
+<section class="last-good" id="last-good">
+<p class="last-good-note">The last results evaluated without an error ({{.LastGoodWhen}}):</p>
+{{.LastGood}}
+</section>
+{{- end}}
 </main>
+{{- .Live}}
 </body>
 </html>
 `))

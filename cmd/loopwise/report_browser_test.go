@@ -302,3 +302,50 @@ func TestReportPlotInBrowser(t *testing.T) {
 		}
 	}
 }
+
+// TestWatchInBrowser: the open page updates by itself when the script is
+// saved, and keeps its scroll position.
+func TestWatchInBrowser(t *testing.T) {
+	ctx := browser(t)
+	prose := strings.Repeat("A paragraph of prose that makes the page long enough to scroll.\n\n", 60)
+	script := func(n string) string { return "# W\n\n" + prose + "```lw\na = 2 m * " + n + "\n```\n" }
+	path, url, stop := startWatch(t, script("3"))
+	defer stop()
+	ctx, cancel := context.WithTimeout(ctx, time.Minute)
+	defer cancel()
+	if err := chromedp.Do(ctx, chromedp.EmulateViewport(390, 700), chromedp.Navigate(url+"/"), chromedp.WaitReady("body")); err != nil {
+		t.Fatal(err)
+	}
+	y0, err := chromedp.Run(ctx, chromedp.Evaluate[float64](`window.scrollTo(0, 1500); window.scrollY`))
+	if err != nil || y0 != 1500 {
+		t.Fatalf("scrolled to %v (%v), want 1500", y0, err)
+	}
+	if err := os.WriteFile(path, []byte(script("5")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	type state struct {
+		Result string  `json:"result"`
+		Y      float64 `json:"y"`
+	}
+	deadline := time.Now().Add(15 * time.Second)
+	for {
+		s, err := chromedp.Run(ctx, chromedp.Evaluate[state](`({result: document.querySelector('.result output').innerText, y: window.scrollY})`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s.Result == "10 m" {
+			if s.Y != 1500 {
+				t.Errorf("after the update the page is scrolled to %v, want 1500", s.Y)
+			}
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("the page still shows %q", s.Result)
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	img, err := chromedp.Run(ctx, chromedp.CaptureScreenshot())
+	if err == nil {
+		os.WriteFile(filepath.Join(shotDir(t), "watch-390.png"), img, 0o644)
+	}
+}
