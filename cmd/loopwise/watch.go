@@ -109,7 +109,7 @@ func (w *watcher) serve(ctx context.Context, ln net.Listener) error {
 	mux := http.NewServeMux()
 	mux.HandleFunc("/", w.handlePage)
 	mux.HandleFunc("/gen", w.handleGen)
-	srv := &http.Server{Handler: mux, BaseContext: func(net.Listener) context.Context { return ctx }}
+	srv := &http.Server{Handler: localOnly(ln.Addr().String(), mux), BaseContext: func(net.Listener) context.Context { return ctx }}
 	done := make(chan error, 1)
 	go func() { done <- srv.Serve(ln) }()
 	tick := time.NewTicker(watchPoll)
@@ -129,6 +129,20 @@ func (w *watcher) serve(ctx context.Context, ln net.Listener) error {
 			}
 		}
 	}
+}
+
+// localOnly refuses a request that names another host than the address
+// served: a web page elsewhere could otherwise reach the server through a
+// name that resolves to 127.0.0.1 (DNS rebinding) and read the script.
+func localOnly(addr string, h http.Handler) http.Handler {
+	_, port, _ := net.SplitHostPort(addr)
+	return http.HandlerFunc(func(rw http.ResponseWriter, r *http.Request) {
+		if r.Host != "127.0.0.1:"+port && r.Host != "localhost:"+port {
+			http.Error(rw, "this server answers only to 127.0.0.1:"+port, http.StatusForbidden)
+			return
+		}
+		h.ServeHTTP(rw, r)
+	})
 }
 
 // fileSum identifies the content of a file; nil when it cannot be read.

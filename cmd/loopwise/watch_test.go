@@ -103,6 +103,13 @@ func TestWatch(t *testing.T) {
 	if strings.Index(page, "Error at line 5") > strings.Index(page, `id="last-good"`) {
 		t.Error("the error is not above the last good results")
 	}
+	req, _ := http.NewRequest("GET", url+"/", nil)
+	req.Host = "elsewhere.example:80"
+	if r, err := http.DefaultClient.Do(req); err != nil {
+		t.Error(err)
+	} else if r.StatusCode != http.StatusForbidden {
+		t.Errorf("a request for another host: %s, want 403", r.Status)
+	}
 	stop()
 	if _, err := http.Get(url + "/"); err == nil {
 		t.Error("the server still answers after it stopped")
