@@ -363,43 +363,109 @@ func res0(text string) string {
 // prose as written, statements indented, each followed by its result. It
 // stops at the first error.
 func (sc *Script) Run(s *Session, w io.Writer) error {
+	i := 0 // the next line to write
+	writeUpTo := func(end int) {
+		for ; i < end; i++ {
+			line := sc.Lines[i]
+			switch {
+			case sc.fence[i] || isResultLineInBlock(sc, i):
+			case sc.block[i] && strings.TrimSpace(line) != "":
+				fmt.Fprintf(w, "    %s\n", strings.TrimLeft(line, " \t")) // a comment line
+			default:
+				fmt.Fprintln(w, strings.TrimRight(line, " \t"))
+			}
+		}
+	}
+	err := sc.evaluate(s, func(st ScriptStmt, res *Result) {
+		writeUpTo(st.Line)
+		line := sc.Lines[st.Line]
+		indent := len(line) - len(strings.TrimLeft(line, " \t"))
+		for j := st.Line; j <= st.End; j++ {
+			l := sc.Lines[j]
+			cut := min(indent, len(l)-len(strings.TrimLeft(l, " \t")))
+			fmt.Fprintf(w, "    %s\n", strings.TrimRight(l[cut:], " \t"))
+		}
+		if res.Text != "" && res.Stmt.Kind != lang.Empty {
+			fmt.Fprintf(w, "    %s %s\n", ResultMark, strings.ReplaceAll(res.Text, "\n", "\n      "))
+		}
+		for _, c := range res.Cautions {
+			fmt.Fprintf(w, "    %s %s\n", CautionMark, c)
+		}
+		i = st.End + 1
+	})
+	if err != nil {
+		return err
+	}
+	writeUpTo(len(sc.Lines))
+	return nil
+}
+
+// evaluate is the one replay loop that Run, Check, Record and Evaluate
+// share: it evaluates the statements in order in s and hands each result
+// to fn. It refuses a script without statements and stops at the first
+// error, which it returns.
+func (sc *Script) evaluate(s *Session, fn func(st ScriptStmt, res *Result)) error {
 	if err := sc.requireStatements(); err != nil {
 		return err
 	}
-	next := 0
-	for i := 0; i < len(sc.Lines); i++ {
-		line := sc.Lines[i]
-		if next < len(sc.Stmts) && sc.Stmts[next].Line == i {
-			st := sc.Stmts[next]
-			next++
-			res, err := sc.evalStmt(s, st)
-			if err != nil {
-				return err
-			}
-			indent := len(line) - len(strings.TrimLeft(line, " \t"))
-			for j := st.Line; j <= st.End; j++ {
-				l := sc.Lines[j]
-				cut := min(indent, len(l)-len(strings.TrimLeft(l, " \t")))
-				fmt.Fprintf(w, "    %s\n", strings.TrimRight(l[cut:], " \t"))
-			}
-			if res.Text != "" && res.Stmt.Kind != lang.Empty {
-				fmt.Fprintf(w, "    %s %s\n", ResultMark, strings.ReplaceAll(res.Text, "\n", "\n      "))
-			}
-			for _, c := range res.Cautions {
-				fmt.Fprintf(w, "    %s %s\n", CautionMark, c)
-			}
-			i = st.End
-			continue
+	for _, st := range sc.Stmts {
+		res, err := sc.evalStmt(s, st)
+		if err != nil {
+			return err
 		}
-		switch {
-		case sc.fence[i] || isResultLineInBlock(sc, i):
-		case sc.block[i] && strings.TrimSpace(line) != "":
-			fmt.Fprintf(w, "    %s\n", strings.TrimLeft(line, " \t")) // a comment line
-		default:
-			fmt.Fprintln(w, strings.TrimRight(line, " \t"))
-		}
+		fn(st, res)
 	}
 	return nil
+}
+
+// StatementResult is one statement of an evaluated script: its result now
+// and how that compares with what the script records.
+type StatementResult struct {
+	Stmt ScriptStmt
+	Text string // the statement as evaluated (Script.Text)
+	// Result is the statement's result; nil when it failed (Err) or was
+	// not reached because an earlier statement failed.
+	Result *Result
+	Err    error
+	// Recorded is the recorded result text, or ""; RecordedCautions the
+	// recorded cautions.
+	Recorded         string
+	RecordedCautions []string
+	// Drifts are the recorded results that no longer match (see Check).
+	Drifts []Drift
+}
+
+// Evaluated reports whether the statement ran (with or without an error).
+func (r StatementResult) Evaluated() bool { return r.Result != nil || r.Err != nil }
+
+// Evaluate re-evaluates the script in s and returns every statement with
+// its result and its drifts against the recorded results (relative
+// tolerance tol, as Check). It stops at the first error: that statement
+// carries it in Err, the statements after it are returned unevaluated, and
+// the error is also returned. A script without statements returns only
+// the error.
+func (sc *Script) Evaluate(s *Session, tol float64) ([]StatementResult, error) {
+	out := make([]StatementResult, len(sc.Stmts))
+	for k, st := range sc.Stmts {
+		out[k] = StatementResult{Stmt: st, Text: sc.Text(st), Recorded: sc.Recorded(st)}
+		for _, c := range st.Cautions {
+			out[k].RecordedCautions = append(out[k].RecordedCautions, cautionText(sc.Lines[c]))
+		}
+	}
+	k := 0
+	err := sc.evaluate(s, func(st ScriptStmt, res *Result) {
+		out[k].Result = res
+		out[k].Drifts = sc.checkStmt(st, res, tol)
+		k++
+	})
+	if err != nil {
+		var none *NoStatementsError
+		if errors.As(err, &none) {
+			return nil, err
+		}
+		out[k].Err = err
+	}
+	return out, err
 }
 
 func isResultLineInBlock(sc *Script, i int) bool {
@@ -448,25 +514,31 @@ type CheckReport struct {
 // with relative tolerance tol: values, every cell of a table, the numbers
 // in text, and the cautions. An error stops the check.
 func (sc *Script) Check(s *Session, tol float64) (CheckReport, error) {
-	rep := CheckReport{Statements: len(sc.Stmts)}
-	if err := sc.requireStatements(); err != nil {
-		return rep, err
-	}
-	for _, st := range sc.Stmts {
-		res, err := sc.evalStmt(s, st)
-		if err != nil {
-			return rep, err
+	results, err := sc.Evaluate(s, tol)
+	return checkReport(len(sc.Stmts), results), err
+}
+
+// checkReport sums up the evaluated statements of a check.
+func checkReport(statements int, results []StatementResult) CheckReport {
+	rep := CheckReport{Statements: statements}
+	for _, r := range results {
+		if r.Result == nil {
+			continue
 		}
-		ds := sc.checkStmt(st, res, tol)
-		if res.Record != "" || st.Result >= 0 {
+		if r.Result.Record != "" || r.Stmt.Result >= 0 {
 			rep.Results++
 		}
-		if len(ds) > 0 {
+		if len(r.Drifts) > 0 {
 			rep.Drifted++
-			rep.Drifts = append(rep.Drifts, ds...)
+			rep.Drifts = append(rep.Drifts, r.Drifts...)
 		}
 	}
-	return rep, nil
+	return rep
+}
+
+// Report sums up the results of Evaluate as Check does.
+func (sc *Script) Report(results []StatementResult) CheckReport {
+	return checkReport(len(sc.Stmts), results)
 }
 
 // checkStmt compares one statement's recorded lines with its result now.
@@ -772,18 +844,14 @@ func parseRecorded(text string) (Value, string, bool) {
 // their statement's last line. It returns an error, and no text, if any
 // statement fails.
 func (sc *Script) Record(s *Session) ([]byte, error) {
-	if err := sc.requireStatements(); err != nil {
-		return nil, err
-	}
 	results := make(map[int][]string, len(sc.Stmts))
-	for _, st := range sc.Stmts {
-		res, err := sc.evalStmt(s, st)
-		if err != nil {
-			return nil, err
-		}
+	err := sc.evaluate(s, func(st ScriptStmt, res *Result) {
 		if res.Record != "" {
 			results[st.End] = append([]string{ResultMark + " " + res.Record}, moreLines(res)...)
 		}
+	})
+	if err != nil {
+		return nil, err
 	}
 	firstOf := make(map[int]int, len(sc.Stmts)) // last line -> first line
 	for _, st := range sc.Stmts {
@@ -920,3 +988,11 @@ func relText(rel float64) string {
 	}
 	return fmt.Sprintf(" by %+.3g%%", 100*rel)
 }
+
+// Prose reports whether line i (0-based) is prose: outside every block of
+// statements and not one of their fences.
+func (sc *Script) Prose(i int) bool { return !sc.block[i] && !sc.fence[i] }
+
+// Fence reports whether line i (0-based) opens or closes a block of
+// statements.
+func (sc *Script) Fence(i int) bool { return sc.fence[i] }

@@ -557,3 +557,34 @@ func TestTableNoiseCells(t *testing.T) {
 		t.Errorf("noise cells drift:\n%s", report(rep))
 	}
 }
+
+// TestEvaluate: every statement comes back with its result and its drifts;
+// the first error stops the evaluation at its statement, whose error names
+// its line, and the statements after it are not evaluated.
+func TestEvaluate(t *testing.T) {
+	text := "# x\n\n```lw\na = 2 m\n↳ 2 m\np = a * 3\n↳ 6.3 m\nq = a / nosuch\nr = 1\n↳ 1\n```\n"
+	sc := parse(t, text)
+	res, err := sc.Evaluate(stdSession(), 1e-9)
+	if err == nil || !strings.Contains(err.Error(), "t.lw:8:") {
+		t.Fatalf("error %v, want one at t.lw:8", err)
+	}
+	if len(res) != 4 {
+		t.Fatalf("%d results, want 4", len(res))
+	}
+	if r := res[0]; r.Result == nil || r.Result.Record != "2 m" || r.Recorded != "2 m" || len(r.Drifts) != 0 {
+		t.Errorf("first statement: %+v", r)
+	}
+	if r := res[1]; r.Result == nil || r.Result.Record != "6 m" || len(r.Drifts) != 1 || r.Drifts[0].Recorded != "6.3 m" {
+		t.Errorf("second statement: %+v", r)
+	}
+	if r := res[2]; r.Err != err || r.Result != nil || !r.Evaluated() {
+		t.Errorf("third statement: %+v", r)
+	}
+	if r := res[3]; r.Evaluated() || r.Recorded != "1" {
+		t.Errorf("fourth statement: %+v", r)
+	}
+	rep := sc.Report(res)
+	if rep.Drifted != 1 || rep.Results != 2 || rep.Statements != 4 {
+		t.Errorf("report %+v", rep)
+	}
+}

@@ -22,7 +22,7 @@ var allowedImports = map[string][]string{
 	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "gonum.org/v1/gonum"},
 	"builtins/em":   {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},
-	"cmd/loopwise":  {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term"},
+	"cmd/loopwise":  {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term", "github.com/yuin/goldmark"},
 }
 
 func TestImportPolicy(t *testing.T) {

@@ -28,7 +28,11 @@ const usage = `usage:
                                     (relative tolerance R, default 1e-9); exit 1 on drift
                                     or when a file holds no statement
   loopwise record FILE|DIR...       rewrite recorded results in place (atomically)
-  run, check and record take -budget SECONDS: the work one statement may do
+  loopwise report [-o OUT.html] FILE
+                                    write the script as one self-contained HTML page:
+                                    prose, results, tables, plots, cautions, drift status
+  loopwise watch [-port N] FILE     serve the report on 127.0.0.1 and update it on every save
+  run, check, record, report and watch take -budget SECONDS: the work one statement may do
   (default 60 s; at the prompt 5 s, changed with :budget SECONDS)
   loopwise version                  the version of this build
   loopwise help                     this text; type :help at the prompt for the language
@@ -52,6 +56,8 @@ var commandUsage = map[string]string{
   Evaluate each script and write the new results into it, in place and
   atomically: on an error the file is left untouched.
 ` + budgetUsage + outUsage,
+	"report": reportUsage,
+	"watch":  watchUsage,
 	"version": `usage: loopwise version
   Print the version of this build: module version, source revision and Go
   version.
@@ -129,6 +135,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return checkFiles(rest, stdout, stderr)
 	case "record":
 		return recordFiles(rest, stdout, stderr)
+	case "report":
+		return reportFiles(rest, stdout, stderr)
+	case "watch":
+		return watchFiles(rest, stdout, stderr)
 	case "help", "-h", "-help", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0
