@@ -6,6 +6,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -238,7 +239,8 @@ func TestReportInBrowser(t *testing.T) {
 	}
 }
 
-// lead is a recorded result's first word cut to four characters, with the
+// lead is a recorded result's first word, rounded to 6 significant digits
+// as the page shows it and cut to four characters, with the
 // rest of its words: "9.9253928432 uH" gives "9.92" and "uH".
 func lead(r string) string {
 	f := strings.Fields(r)
@@ -246,6 +248,13 @@ func lead(r string) string {
 		return r
 	}
 	n := f[0]
+	// the page rounds to 6 significant digits, which can carry into the
+	// leading digits (9.99999991912 shows as 10): round the same way first
+	if v, err := strconv.ParseFloat(n, 64); err == nil {
+		if g := strconv.FormatFloat(v, 'g', 6, 64); !strings.Contains(g, "e") {
+			n = g
+		}
+	}
 	if len(n) > 4 && strings.ContainsAny(n[:1], "0123456789-") {
 		n = n[:4]
 	}
