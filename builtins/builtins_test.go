@@ -136,3 +136,20 @@ func TestSweepKeepsHertz(t *testing.T) {
 		}
 	}
 }
+
+// TestRecordedTableKeepsHertz: a recorded table heads a column of cycle
+// frequencies in Hz too, as the table shows it (SI Brochure, 9th ed.,
+// Table 4 note: the hertz for periodic phenomena).
+func TestRecordedTableKeepsHertz(t *testing.T) {
+	sc, err := runtime.ParseScript("t.lw", []byte("```lw\nh(f) = f + 1 Hz\nsweep(h, 50 Hz, 1 kHz, 2)\n```\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := sc.Record(runtime.NewSession(builtins.Standard()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(out), "│ f [kHz]  h [kHz]") {
+		t.Errorf("recorded:\n%s", out)
+	}
+}

@@ -194,6 +194,9 @@ type Table struct {
 
 func (t *Table) Kind() string { return "a table" }
 
+// CycleColumns implements runtime.CycleColumns.
+func (t *Table) CycleColumns() []bool { return t.Cyc }
+
 // Tabulate implements runtime.Tabular.
 func (t *Table) Tabulate() ([]string, []runtime.Dim, [][]float64) { return t.Cols, t.Dims, t.Rows }
 
@@ -206,11 +209,7 @@ func (t *Table) columnUnits(digits int) ([]string, []float64) {
 		for _, r := range t.Rows {
 			big = math.Max(big, math.Abs(r[j]))
 		}
-		if j < len(t.Cyc) && t.Cyc[j] {
-			units[j], scales[j] = runtime.BestCycleUnit(t.Dims[j], big, digits)
-		} else {
-			units[j], scales[j] = runtime.BestUnit(t.Dims[j], big, digits)
-		}
+		units[j], scales[j] = runtime.ColumnUnit(t, j, t.Dims[j], big, digits)
 	}
 	return units, scales
 }

@@ -59,7 +59,7 @@ func gridOf(t Tabular) grid {
 	}
 	g.units, g.scales = make([]string, n), make([]float64, n)
 	for j := range n {
-		g.units[j], g.scales[j] = BestUnit(dims[j], big[j], RecordDigits)
+		g.units[j], g.scales[j] = ColumnUnit(t, j, dims[j], big[j], RecordDigits)
 	}
 	if len(rows) <= RecordRows {
 		g.cells = clean

@@ -54,6 +54,24 @@ type Tabular interface {
 	Tabulate() (cols []string, dims []Dim, rows [][]float64)
 }
 
+// CycleColumns is implemented by tables whose columns may hold cycle
+// frequencies (see Quantity.Cyc): such a column is shown in Hz. The slice
+// may be shorter than the columns.
+type CycleColumns interface {
+	CycleColumns() []bool
+}
+
+// ColumnUnit picks the unit column j of t is shown in, for its largest
+// magnitude big: BestUnit, or Hz for a column of cycle frequencies.
+func ColumnUnit(t Tabular, j int, d Dim, big float64, digits int) (string, float64) {
+	if c, ok := t.(CycleColumns); ok {
+		if cyc := c.CycleColumns(); j < len(cyc) && cyc[j] {
+			return BestCycleUnit(d, big, digits)
+		}
+	}
+	return BestUnit(d, big, digits)
+}
+
 // Picture is implemented by values that draw themselves (plots): the
 // report inlines the SVG; replay compares their data through Tabular.
 type Picture interface {

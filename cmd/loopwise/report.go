@@ -340,7 +340,7 @@ func tableOf(t runtime.Tabular, digits int) *tableView {
 		for _, r := range rows {
 			big = max(big, abs(r[j]))
 		}
-		unit, scale := runtime.BestUnit(dims[j], big, digits)
+		unit, scale := runtime.ColumnUnit(t, j, dims[j], big, digits)
 		scales[j] = scale
 		if unit != "" {
 			c += " [" + unit + "]"
