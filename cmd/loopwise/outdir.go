@@ -22,32 +22,12 @@ const promptOut = "loopwise-out"
 // or record, anywhere before "--". On a missing value it has printed why
 // and code is 2.
 func takeOut(cmd string, args []string, stderr io.Writer) (rest []string, out string, code int) {
-	for i := 0; i < len(args); i++ {
-		a := args[i]
-		if a == "--" {
-			rest = append(rest, args[i:]...)
-			break
-		}
-		name, val, hasVal := strings.Cut(strings.TrimPrefix(a, "-"), "=")
-		if !strings.HasPrefix(a, "-") || (name != "out" && name != "-out") {
-			rest = append(rest, a)
-			continue
-		}
-		if !hasVal {
-			if i+1 == len(args) {
-				fmt.Fprintf(stderr, "loopwise %s: -out needs a directory\n", cmd)
-				return nil, "", 2
-			}
-			i++
-			val = args[i]
-		}
-		if val == "" {
-			fmt.Fprintf(stderr, "loopwise %s: -out needs a directory\n", cmd)
-			return nil, "", 2
-		}
-		out = val
+	rest, out, found, code := takeFlag(cmd, "out", "a directory", args, stderr)
+	if code == 0 && found && out == "" {
+		fmt.Fprintf(stderr, "loopwise %s: -out needs a directory\n", cmd)
+		return nil, "", 2
 	}
-	return rest, out, 0
+	return rest, out, code
 }
 
 // outDirFor is the output directory of script: out if given (for one
