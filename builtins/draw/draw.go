@@ -111,6 +111,7 @@ func (l *Line) plot() (*plot.Plot, error) {
 	xUnit, xSize := Scale(l.X)
 	yUnit, ySize := Scale(l.Ys...)
 	p := plot.New()
+	p.X.Tick.Marker, p.Y.Tick.Marker = plainTicks{}, plainTicks{}
 	p.Title.Text = l.Title
 	p.X.Label.Text = Label([]string{l.X.Name}, xUnit)
 	names := make([]string, len(l.Ys))
@@ -222,6 +223,34 @@ func Prefixed(unit string, big float64) (string, float64) {
 	}
 	k = max(-5, min(4, k))
 	return prefixes[k] + unit, math.Pow10(3 * k)
+}
+
+// plainTicks are gonum's default ticks with labels written without
+// trailing zeros ("-250", not "-250.00"), so that an axis reads like the
+// numbers in results.
+type plainTicks struct{}
+
+func (plainTicks) Ticks(lo, hi float64) []plot.Tick {
+	ts := plot.DefaultTicks{}.Ticks(lo, hi)
+	for i, t := range ts {
+		if t.Label != "" {
+			ts[i].Label = plainLabel(t.Value)
+		}
+	}
+	return ts
+}
+
+// plainLabel writes x with at most 10 significant digits and no trailing
+// zeros (the tick values are sums of steps and carry rounding).
+func plainLabel(x float64) string {
+	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 10, 64), 64)
+	if err != nil {
+		return strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	if v == 0 {
+		v = 0 // no "-0"
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
 }
 
 // logTicks marks a log axis: every power of ten labelled, with the 2×

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -199,6 +200,35 @@ func TestLogTicks(t *testing.T) {
 	} {
 		if got := strings.Join(labels(c.lo, c.hi), " "); got != c.want {
 			t.Errorf("labels on [%g, %g]: %q, want %q", c.lo, c.hi, got, c.want)
+		}
+	}
+}
+
+// TestPlainTicks: linear axes are labelled like numbers in results, with
+// no trailing zeros and no rounding residue.
+func TestPlainTicks(t *testing.T) {
+	for _, c := range []struct {
+		lo, hi float64
+		want   []string
+	}{
+		{-250, 250, []string{"-250", "0", "250"}},
+		{0, 0.3, []string{"0", "0.15", "0.3"}},
+	} {
+		var got []string
+		for _, tk := range (plainTicks{}).Ticks(c.lo, c.hi) {
+			if tk.Label != "" {
+				got = append(got, tk.Label)
+			}
+		}
+		for _, w := range c.want {
+			if !slices.Contains(got, w) {
+				t.Errorf("ticks of [%g, %g]: %q, want %q among them", c.lo, c.hi, got, w)
+			}
+		}
+		for _, g := range got {
+			if strings.Contains(g, ".") && strings.HasSuffix(g, "0") {
+				t.Errorf("ticks of [%g, %g]: label %q has trailing zeros", c.lo, c.hi, g)
+			}
 		}
 	}
 }

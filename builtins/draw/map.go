@@ -116,6 +116,7 @@ func (m *Map) plots() (main, bar *plot.Plot, err error) {
 	cm.SetMin(lo)
 	cm.SetMax(hi)
 	main = plot.New()
+	main.X.Tick.Marker, main.Y.Tick.Marker = plainTicks{}, plainTicks{}
 	main.Title.Text = m.Title
 	main.X.Label.Text = Label([]string{m.U.Name}, lenUnit)
 	main.Y.Label.Text = Label([]string{m.V.Name}, lenUnit)
