@@ -224,17 +224,9 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
-	// Flags may come before or after the file names.
-	var files []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return 2
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		files = append(files, fs.Arg(0))
-		args = fs.Args()[1:]
+	files, err := parseInterleaved(fs, args)
+	if err != nil {
+		return 2
 	}
 	if !(*tol >= 0 && *tol < 1) { // also refuses NaN
 		fmt.Fprintf(stderr, "loopwise check: -tol must be at least 0 and below 1, got %g\n", *tol)
@@ -311,4 +303,21 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "%s: recorded\n", f)
 	}
 	return status
+}
+
+// parseInterleaved parses fs's flags from args wherever they stand among
+// the file names (the flag package alone stops at the first name), and
+// returns the names in order.
+func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
+	var files []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		if fs.NArg() == 0 {
+			return files, nil
+		}
+		files = append(files, fs.Arg(0))
+		args = fs.Args()[1:]
+	}
 }

@@ -42,16 +42,9 @@ func reportFiles(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	out := fs.String("o", "", "the HTML file to write")
 	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
-	var files []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return 2
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		files = append(files, fs.Arg(0))
-		args = fs.Args()[1:]
+	files, err := parseInterleaved(fs, args)
+	if err != nil {
+		return 2
 	}
 	if len(files) != 1 {
 		fmt.Fprintf(stderr, "loopwise report: name one script file\n%s", reportUsage)

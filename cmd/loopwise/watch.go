@@ -43,16 +43,9 @@ func watchFiles(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	port := fs.Int("port", 0, "the port to serve on (0: a free one)")
 	tol := fs.Float64("tol", runtime.DefaultTolerance, "relative tolerance for numeric results")
-	var files []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return 2
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		files = append(files, fs.Arg(0))
-		args = fs.Args()[1:]
+	files, err := parseInterleaved(fs, args)
+	if err != nil {
+		return 2
 	}
 	if len(files) != 1 {
 		fmt.Fprintf(stderr, "loopwise watch: name one script file\n%s", watchUsage)
