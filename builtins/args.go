@@ -23,6 +23,9 @@ func ordinal(i int) string {
 func quantity(fn string, args []runtime.Value, i int) (runtime.Quantity, error) {
 	q, ok := args[i].(runtime.Quantity)
 	if !ok {
+		if _, c := args[i].(runtime.Complex); c {
+			return q, errorf("%s: the %s argument must be a real quantity, not %s; take abs(z), re(z) or im(z) first", fn, ordinal(i), runtime.TypeName(args[i]))
+		}
 		return q, errorf("%s: the %s argument must be a quantity, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
 	}
 	return q, nil

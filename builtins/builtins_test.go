@@ -43,7 +43,10 @@ func TestHelpComplete(t *testing.T) {
 			t.Errorf("%s: help incomplete", c.Name)
 			continue
 		}
-		eval(t, runtime.NewSession(lib), c.Help.Example)
+		s := runtime.NewSession(lib)
+		for _, stmt := range strings.Split(c.Help.Example, "\n") {
+			eval(t, s, stmt)
+		}
 	}
 }
 

@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"math"
+	"math/cmplx"
 
 	"loopwise/runtime"
 )
@@ -60,6 +61,8 @@ func guardFinite(f *runtime.Func) {
 			for _, c := range x.V {
 				ok = ok && !math.IsNaN(c) && !math.IsInf(c, 0)
 			}
+		case runtime.Complex:
+			ok = !cmplx.IsNaN(x.V) && !cmplx.IsInf(x.V)
 		}
 		if !ok {
 			return nil, errorf("%s: the result is not a finite number; the sizes or values are beyond what double precision can hold", f.Name)
@@ -82,6 +85,7 @@ func Standard() runtime.Library {
 		funcs []*runtime.Func
 	}{
 		{"math", mathFuncs()},
+		{"complex numbers", complexFuncs()},
 		{"vectors", vectorFuncs()},
 		{"geometry", geometryFuncs()},
 		{"fields", sourceFuncs()},
@@ -101,5 +105,5 @@ func Standard() runtime.Library {
 		}
 		fs = append(fs, fam.funcs...)
 	}
-	return runtime.Library{Funcs: fs, Consts: constants(), Caution: Caution}
+	return runtime.Library{Funcs: fs, Consts: append(constants(), complexConstants()...), Caution: Caution}
 }

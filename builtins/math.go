@@ -81,7 +81,7 @@ func mathFuncs() []*runtime.Func {
 		unary("sinh", "Hyperbolic sine.", "sinh(1)", math.Sinh),
 		unary("cosh", "Hyperbolic cosine.", "cosh(1)", math.Cosh),
 		unary("tanh", "Hyperbolic tangent.", "tanh(1)", math.Tanh),
-		unary("exp", "Exponential e^x.", "exp(-1 ms/(2 ms))", math.Exp),
+		complexable(unary("exp", "Exponential e^x; of a complex plain number, the complex exponential (exp(j*pi) is -1).", "exp(-1 ms/(2 ms))", math.Exp), complexExp),
 		unary("ln", "Natural logarithm.", "ln(10)", math.Log),
 		unary("log10", "Logarithm to base 10.", "log10(1000)", math.Log10),
 		unary("floor", "Largest whole number not above x.", "floor(2.7)", math.Floor),
@@ -90,12 +90,15 @@ func mathFuncs() []*runtime.Func {
 		{
 			Name: "sqrt", Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
 			Call: func(args []runtime.Value) (runtime.Value, error) {
+				if z, ok := args[0].(runtime.Complex); ok {
+					return complexSqrt(z)
+				}
 				q, err := quantity("sqrt", args, 0)
 				if err != nil {
 					return nil, err
 				}
 				if q.V < 0 {
-					return nil, errorf("sqrt: the argument is negative (%s)", runtime.Format(q, 6))
+					return nil, errorf("sqrt: the argument is negative (%s); for the complex root, make it complex: sqrt(x + 0j)", runtime.Format(q, 6))
 				}
 				for _, e := range q.D {
 					if e%2 != 0 {
@@ -105,8 +108,8 @@ func mathFuncs() []*runtime.Func {
 				return runtime.Quantity{V: math.Sqrt(q.V), D: halfDim(q.D)}, nil
 			},
 			Help: &runtime.Help{
-				Signature: "sqrt(x: any unit with even powers) -> unit^(1/2)",
-				Summary:   "Square root; the unit's powers are halved (sqrt(4 m^2) is 2 m).",
+				Signature: "sqrt(x: any unit with even powers, real or complex) -> unit^(1/2)",
+				Summary:   "Square root; the unit's powers are halved (sqrt(4 m^2) is 2 m). Of a complex value, the principal root (real part ≥ 0).",
 				Example:   "sqrt(2 H * 8 H)",
 				Reference: refGoMath,
 			},
@@ -114,13 +117,16 @@ func mathFuncs() []*runtime.Func {
 		{
 			Name: "abs", Params: []string{"x"}, MinArgs: 1, MaxArgs: 1,
 			Call: func(args []runtime.Value) (runtime.Value, error) {
+				if z, ok := args[0].(runtime.Complex); ok {
+					return complexAbs(z), nil
+				}
 				q, err := quantity("abs", args, 0)
 				if err != nil {
 					return nil, err
 				}
 				return runtime.Quantity{V: math.Abs(q.V), D: q.D, Cyc: q.Cyc}, nil
 			},
-			Help: &runtime.Help{Signature: "abs(x: any unit) -> same unit", Summary: "Absolute value.", Example: "abs(-3 mV)", Reference: refGoMath},
+			Help: &runtime.Help{Signature: "abs(x: any unit, real or complex) -> same unit", Summary: "Absolute value; of a complex value, its magnitude.", Example: "abs(-3 mV)", Reference: refGoMath},
 		},
 		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> rad", "atan2(1 mm, -1 mm) as deg",
 			func(y, x runtime.Quantity) runtime.Quantity {
@@ -185,4 +191,17 @@ func sameDimN(name, summary, sig, example string, f func(a, b float64) float64) 
 		},
 		Help: &runtime.Help{Signature: sig, Summary: summary, Example: example, Reference: refGoMath},
 	}
+}
+
+// complexable lets a real function of one argument take a complex one too.
+func complexable(f *runtime.Func, c func(runtime.Complex) (runtime.Value, error)) *runtime.Func {
+	call := f.Call
+	f.Call = func(args []runtime.Value) (runtime.Value, error) {
+		if z, ok := args[0].(runtime.Complex); ok {
+			return c(z)
+		}
+		return call(args)
+	}
+	f.Help.Signature = f.Name + "(x: plain number, real or complex) -> plain number"
+	return f
 }

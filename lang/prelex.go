@@ -21,6 +21,9 @@ type Literal struct {
 	Unit        string // unit expression text, such as "kg*m^2/s^2"
 	Off         int    // rune offset of the literal in the expression
 	UnitOff     int    // rune offset of the unit text
+	// Imag marks an imaginary literal, a number with j glued to it ("4j",
+	// "2.5j ohm"); Unit is "" when no unit follows.
+	Imag bool
 }
 
 // Rewritten is an expression with its unit literals replaced by
@@ -153,6 +156,24 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			if j+1 < len(r) && r[j] == '.' && isIdentStart(r[j+1]) && !exponentAt(r, j+1) {
 				// "0.e", "2.m": the engine would read a broken number
 				return nil, errAt(j, 1, "a decimal point must be followed by a digit, as in %s.0", num)
+			}
+			if j < len(r) && r[j] == 'j' && (j+1 >= len(r) || !isIdentPart(r[j+1])) {
+				// an imaginary literal: "4j", "4j ohm"
+				if _, err := strconv.ParseFloat(num, 64); err != nil {
+					return nil, errAt(i, j-i, "number %q is too large", Abbrev(num, 40))
+				}
+				unit, uoff, end := "", j+1, j+1
+				if us, ue, err := unitAfter(j + 1); err == nil && us >= 0 && units.IsUnit(firstAtom(string(r[us:ue]))) {
+					if err := unitTail(r, us, ue, num+"j", errAt); err != nil {
+						return nil, err
+					}
+					unit, uoff, end = string(r[us:ue]), us, ue
+				}
+				ph := newLit(num, unit, i, uoff)
+				w.Lits[len(w.Lits)-1].Imag = true
+				emit(ph, i)
+				i = end
+				continue
 			}
 			us, ue, err := unitAfter(j)
 			if err != nil {

@@ -159,7 +159,7 @@ func (p *program) errorAt(loc file.Location, msg string) *lang.Error {
 // dispatcher, every number is a Quantity and every call goes through
 // __call. It records the first problem it meets.
 type patcher struct {
-	lits   map[string]Quantity
+	lits   map[string]Value
 	negs   map[string]Quantity // offset literals (°C): the value of -number
 	negOf  map[*ast.ConstantNode]Quantity
 	params map[string]int
@@ -323,9 +323,17 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 		return nil, err
 	}
 	p := &program{st: st, rw: rw, off: off}
-	lits := make(map[string]Quantity, len(rw.Lits))
+	lits := make(map[string]Value, len(rw.Lits))
 	negs := map[string]Quantity{}
 	for _, l := range rw.Lits {
+		if l.Imag {
+			z, err := imagLiteral(l)
+			if err != nil {
+				return nil, st.Errorf(off+l.Off, max(1, l.UnitOff-l.Off+utf8.RuneCountInString(l.Unit)), "%s", err)
+			}
+			lits[l.Placeholder] = z
+			continue
+		}
 		u, err := ParseUnit(l.Unit)
 		if err != nil {
 			var ue *UnitError
@@ -507,4 +515,27 @@ func (s *Session) callFunc(p ...any) (any, error) {
 		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
 	}
 	return f.Invoke(s, args)
+}
+
+// imagLiteral is the value of an imaginary literal: "4j" or "4j ohm".
+func imagLiteral(l lang.Literal) (Complex, error) {
+	if l.Unit == "" {
+		x, err := strconv.ParseFloat(l.Number, 64)
+		if err != nil {
+			return Complex{}, fmt.Errorf("number %q is too large", lang.Abbrev(l.Number, 40))
+		}
+		return Complex{V: complex(0, x)}, nil
+	}
+	u, err := ParseUnit(l.Unit)
+	if err != nil {
+		return Complex{}, err
+	}
+	if u.Offset != 0 {
+		return Complex{}, fmt.Errorf("an imaginary value cannot be in %s, which has an offset; use K", l.Unit)
+	}
+	x, err := LiteralValue(l.Number, u)
+	if err != nil {
+		return Complex{}, err
+	}
+	return Complex{V: complex(0, x), D: u.Dim}, nil
 }

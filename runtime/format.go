@@ -273,6 +273,8 @@ func Format(v Value, digits int) string {
 		return formatQuantity(x, digits)
 	case Vector:
 		return formatVector(x, digits)
+	case Complex:
+		return formatComplex(x, digits)
 	case *Func:
 		if x.Body != "" {
 			return x.Signature() + " = " + x.Body
@@ -358,6 +360,13 @@ func FormatIn(v Value, unit string, digits int) (string, error) {
 // expression being shown, quoted in a hint when only the angle is missing
 // or extra (50 Hz as rad/s).
 func FormatInExpr(v Value, unit string, digits int, expr string) (string, error) {
+	if u, polar := splitPolar(unit); polar || isComplex(v, nil) {
+		z, ok := v.(Complex)
+		if !ok {
+			return "", &DimError{Msg: fmt.Sprintf("only a complex value has a polar form, not %s", TypeName(v))}
+		}
+		return formatComplexIn(z, u, polar, digits)
+	}
 	u, err := ParseUnit(unit)
 	if err != nil {
 		return "", err

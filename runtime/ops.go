@@ -62,6 +62,9 @@ func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 	if x, ok := a.(Adder); ok && sign > 0 {
 		return x.Plus(b)
 	}
+	if isComplex(a, b) {
+		return complexArith(op, a, b)
+	}
 	switch x := a.(type) {
 	case Quantity:
 		if y, ok := b.(Quantity); ok {
@@ -116,6 +119,9 @@ func productDim(a, b Value, q int) (Dim, error) {
 // Mul is a * b: quantities, or a vector scaled by a quantity.
 func Mul(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if isComplex(a, b) {
+		return complexArith("*", a, b)
+	}
 	_, okA := dimOf(a)
 	_, okB := dimOf(b)
 	if !okA || !okB {
@@ -161,6 +167,9 @@ func checkFiniteVec(v Vector) (Value, error) {
 // Div is a / b.
 func Div(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if isComplex(a, b) {
+		return complexArith("/", a, b)
+	}
 	y, ok := b.(Quantity)
 	if !ok {
 		return nil, dimErr("cannot divide %s by %s", TypeName(a), TypeName(b))
@@ -207,6 +216,9 @@ func Mod(a, b Value) (Value, error) {
 // the right: a^2^0.5 is a^(2^0.5), which no unit allows.
 func Pow(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if isComplex(a, b) {
+		return complexPow(a, b)
+	}
 	x, ok1 := a.(Quantity)
 	y, ok2 := b.(Quantity)
 	if !ok1 || !ok2 {
@@ -242,6 +254,8 @@ func Neg(a Value) (Value, error) {
 		return Quantity{V: -x.V, D: x.D, Cyc: x.Cyc}, nil
 	case Vector:
 		return Vector{[3]float64{-x.V[0], -x.V[1], -x.V[2]}, x.D}, nil
+	case Complex:
+		return Complex{V: -x.V, D: x.D}, nil
 	}
 	return nil, dimErr("cannot negate %s", TypeName(a))
 }
@@ -249,6 +263,9 @@ func Neg(a Value) (Value, error) {
 // Compare implements ==, !=, <, <=, >, >=.
 func Compare(op string, a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if isComplex(a, b) {
+		return compareComplex(op, a, b)
+	}
 	switch x := a.(type) {
 	case Quantity:
 		y, ok := b.(Quantity)
@@ -302,6 +319,9 @@ func MakeVector(args []Value) (Value, error) {
 	first := -1
 	for i, a := range args {
 		q, ok := normalize(a).(Quantity)
+		if _, c := a.(Complex); c {
+			return nil, dimErr("vector component %d is complex; vectors have real components (take re(z), im(z) or abs(z) first)", i+1)
+		}
 		if !ok {
 			return nil, dimErr("vector component %d is %s, not a quantity", i+1, TypeName(a))
 		}

@@ -8,6 +8,7 @@ import (
 	"io"
 	"io/fs"
 	"math"
+	"math/cmplx"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -702,6 +703,27 @@ func relChange(rec, now float64) float64 {
 func Matches(recorded string, v Value, nowText string, tol float64) (ok bool, now string, rel float64) {
 	if recorded == nowText {
 		return true, nowText, 0
+	}
+	if z, form, ok := parseComplexRecorded(recorded); ok {
+		// a complex result is compared as a point in the plane:
+		// |z_now - z_recorded| within tol of the larger magnitude
+		x, isC := v.(Complex)
+		now = nowText
+		if t, err := FormatIn(v, form, RecordDigits); err == nil {
+			now = t
+		}
+		if !isC || x.D != z.D {
+			return false, now, math.NaN()
+		}
+		scale := math.Max(cmplx.Abs(z.V), cmplx.Abs(x.V))
+		diff := cmplx.Abs(x.V - z.V)
+		rel = math.Inf(1)
+		if a := cmplx.Abs(z.V); a > 0 {
+			rel = diff / a
+		} else if diff == 0 {
+			rel = 0
+		}
+		return diff <= tol*scale, now, rel
 	}
 	rv, unit, parsed := parseRecorded(recorded)
 	if !parsed {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/cmplx"
 	"os"
 	"path/filepath"
 	"sort"
@@ -20,6 +21,9 @@ type Constant struct {
 	Name  string
 	Value Value
 	Help  *Help
+	// Shadowable lets a user assign the name (j, the imaginary unit, is a
+	// natural loop or node name); the assignment carries a note.
+	Shadowable bool
 }
 
 // Library is what a session starts with: builtin functions and constants.
@@ -128,6 +132,9 @@ func NewSession(lib Library) *Session {
 	for _, c := range lib.Consts {
 		s.vars[c.Name] = c.Value
 		s.kinds[c.Name] = kindConst
+		if c.Shadowable {
+			s.kinds[c.Name] = kindBuiltin
+		}
 		s.help[c.Name] = c.Help
 	}
 	return s
@@ -153,6 +160,9 @@ type Result struct {
 // shadowNote is the note for a name that hides a builtin.
 func (s *Session) shadowNote(name string) string {
 	if s.kinds[name] == kindBuiltin {
+		if _, f := s.vars[name].(*Func); !f {
+			return fmt.Sprintf("note: %s now names your value; the built-in %s is hidden in this session (literals such as 4j keep their meaning)", name, name)
+		}
 		return fmt.Sprintf("note: %s now names your value; the builtin %s is hidden in this session", name, name)
 	}
 	return ""
@@ -278,6 +288,10 @@ func checkResult(st *lang.Statement, v Value) error {
 				bad = "gave a vector with a component that is not finite"
 			}
 		}
+	case Complex:
+		if cmplx.IsNaN(x.V) || cmplx.IsInf(x.V) {
+			bad = "gave a complex number that is not finite"
+		}
 	}
 	if bad == "" {
 		return nil
@@ -345,6 +359,8 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 		case Quantity:
 			d = x.D
 		case Vector:
+			d = x.D
+		case Complex:
 			d = x.D
 		default:
 			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s; cannot assign %s", name, decl, TypeName(v))

@@ -6,8 +6,8 @@ import (
 	"math"
 )
 
-// A Value is what an expression evaluates to: Quantity, Vector, *Func or
-// bool (from comparisons).
+// A Value is what an expression evaluates to: Quantity, Complex, Vector,
+// *Func or bool (from comparisons).
 type Value = any
 
 // Quantity is a float64 magnitude in coherent SI units with its dimension.
@@ -197,6 +197,11 @@ func TypeName(v Value) string {
 			return "a vector of plain numbers"
 		}
 		return "a vector of " + x.D.Describe()
+	case Complex:
+		if x.D.IsZero() {
+			return "a complex number"
+		}
+		return "a complex " + x.D.Describe()
 	case *Func:
 		return "the function " + x.Name
 	case Shower:
