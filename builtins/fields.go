@@ -38,8 +38,8 @@ func fieldErr(fn string, err error) error {
 func sourceFuncs() []*runtime.Func {
 	return []*runtime.Func{
 		fnc("source", []string{"path", "current"}, 2, 2, &runtime.Help{
-			Signature: "source(path, current: A, or a function of time returning A) -> source",
-			Summary:   "A path carrying a current, constant or a function of time giving the instantaneous current (an AC current is written with its peak value: I(t) = I_pk * sin(...)). Sources add with +: the fields superpose.",
+			Signature: "source(path, current: A, complex A (peak phasor), or a function of time returning A) -> source",
+			Summary:   "A path carrying a current: constant, a function of time giving the instantaneous current (an AC current is written with its peak value: I(t) = I_pk * sin(...)), or a peak phasor such as polar(2 A, 30 deg), for flux and emf phasors at a frequency. Sources add with +: the fields superpose.",
 			Example:   "source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)",
 			Reference: "superposition of Biot–Savart fields",
 		}, func(args []runtime.Value) (runtime.Value, error) {
@@ -49,6 +49,10 @@ func sourceFuncs() []*runtime.Func {
 			}
 			switch c := args[1].(type) {
 			case runtime.Quantity:
+				if c.D != dimCurrent {
+					return nil, errorf("source: the current must be in A, not %s", c.D.Describe())
+				}
+			case runtime.Complex:
 				if c.D != dimCurrent {
 					return nil, errorf("source: the current must be in A, not %s", c.D.Describe())
 				}

@@ -143,6 +143,8 @@ func currentAt(env runtime.Env, fn string, cur runtime.Value, t float64, hasT bo
 	switch c := cur.(type) {
 	case runtime.Quantity:
 		return c.V, nil
+	case runtime.Complex:
+		return 0, errorf("%s: the source's current %s is a phasor, which stands for a sinusoid at a frequency; this builtin needs an instantaneous current (write it as a function of time), or use a builtin that takes the frequency (emf, flux)", fn, runtime.Format(c, 6))
 	case *runtime.Func:
 		if !hasT {
 			return 0, errorf("%s: the source's current %s depends on time; give the time as the last argument", fn, c.Signature())

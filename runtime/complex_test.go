@@ -80,7 +80,7 @@ func TestComplexRefusals(t *testing.T) {
 		{"(1 + 1j) < 2", "complex values have no order"},
 		{"(1 + 1j) ohm + 1 V", "cannot add resistance (Ω) and voltage (V)"},
 		{"[1, 2, 3] m * 1j", "vectors have real components"},
-		{"[1j, 0, 0]", "complex number"},
+		{"[1j, 0, 0]", "is complex; vectors have real components"},
 		{"sin(2j)", "take abs(z), re(z) or im(z) first"},
 		{"(1 + 1j) m ^ 0.5", "fractional exponent"},
 		{"2 m ^ (1j)", "dimensionless base"},

@@ -1,0 +1,87 @@
+package builtins
+
+import (
+	"math"
+
+	"loopwise/builtins/em"
+	"loopwise/runtime"
+)
+
+// Phasor results. A source whose currents are complex (peak phasors,
+// polar(2 A, 30 deg)) stands for currents Iₖ·cos(ωt + φₖ) at one
+// frequency; fields and fluxes are linear in the currents, so the flux
+// phasor is Σ Φₖ·Iₖ with Φₖ the flux per ampere of term k, and the EMF
+// phasor is −jω times it (Faraday's law for e^{jωt} time dependence).
+
+// hasPhasor reports whether some current of s is a phasor.
+func (s *Source) hasPhasor() bool {
+	for _, t := range s.terms {
+		if _, ok := t.current.(runtime.Complex); ok {
+			return true
+		}
+	}
+	return false
+}
+
+// phasorOf reads a term's current as a peak phasor: a complex current as
+// it is, a constant real one with phase 0.
+func phasorOf(fn string, cur runtime.Value) (complex128, error) {
+	switch c := cur.(type) {
+	case runtime.Complex:
+		return c.V, nil
+	case runtime.Quantity:
+		return complex(c.V, 0), nil
+	case *runtime.Func:
+		return 0, errorf("%s: the current %s is a function of time, which has no single phasor; for a phasor result give each current as a peak phasor, such as polar(2 A, 30 deg), or for the instantaneous value give a time (s) instead of a frequency", fn, c.Signature())
+	}
+	return 0, errorf("%s: a current must be in A", fn)
+}
+
+// angularFrequency reads argument i as a frequency: a cycle frequency
+// (Hz, s^-1) gives ω = 2πf; an angular velocity in rad/s is ω itself.
+// ok is false (and err nil) when the argument is not a frequency.
+func angularFrequency(fn string, args []runtime.Value, i int) (omega float64, ok bool, err error) {
+	if len(args) <= i {
+		return 0, false, nil
+	}
+	q, isQ := args[i].(runtime.Quantity)
+	if !isQ {
+		return 0, false, nil
+	}
+	switch q.D {
+	case dimHertz:
+		omega = 2 * math.Pi * q.V
+	case dimAngle.Div(dimTime):
+		omega = q.V
+	default:
+		return 0, false, nil
+	}
+	if !(omega > 0) {
+		return 0, true, errorf("%s: the frequency must be above zero, not %s", fn, runtime.Format(q, 6))
+	}
+	return omega, true, nil
+}
+
+// fluxPhasor is Σ Φₖ·Iₖ over the terms of a phasor source, through a
+// closed path or a surface.
+func fluxPhasor(env runtime.Env, fn string, src *Source, target runtime.Value) (complex128, error) {
+	if len(src.uniform) > 0 {
+		return 0, errorf("%s: a uniform field is static, so it has no part in a phasor at a frequency; leave it out of this source", fn)
+	}
+	var sum complex128
+	for _, term := range src.terms {
+		i, err := phasorOf(fn, term.current)
+		if err != nil {
+			return 0, err
+		}
+		if i == 0 {
+			continue
+		}
+		phi1, err := fluxOf(env, fn, []em.Source{{Path: term.path, I: 1}}, em.Vec{}, target)
+		if err != nil {
+			return 0, err
+		}
+		sum += complex(phi1, 0) * i
+	}
+	return sum, nil
+}
