@@ -64,6 +64,9 @@ func angle(fn string, args []runtime.Value, i int) (float64, error) {
 // vector returns argument i as a vector.
 func vector(fn string, args []runtime.Value, i int) (runtime.Vector, error) {
 	v, ok := args[i].(runtime.Vector)
+	if _, c := args[i].(runtime.CVector); c {
+		return v, errorf("%s: the %s argument must be a real vector, not %s; take re(v) or im(v) first (abs(v) is the length of a complex vector)", fn, ordinal(i), runtime.TypeName(args[i]))
+	}
 	if !ok {
 		return v, errorf("%s: the %s argument must be a vector, not %s", fn, ordinal(i), runtime.TypeName(args[i]))
 	}

@@ -24,6 +24,9 @@ func complexFuncs() []*runtime.Func {
 		return &runtime.Func{
 			Name: name, Params: []string{"z"}, MinArgs: 1, MaxArgs: 1,
 			Call: func(args []runtime.Value) (runtime.Value, error) {
+				if v, ok := args[0].(runtime.CVector); ok {
+					return runtime.Vector{V: [3]float64{f(v.V[0]), f(v.V[1]), f(v.V[2])}, D: v.D}, nil
+				}
 				z, err := complexArg(name, args, 0)
 				if err != nil {
 					return nil, err
@@ -31,17 +34,20 @@ func complexFuncs() []*runtime.Func {
 				return runtime.Quantity{V: f(z.V), D: z.D}, nil
 			},
 			Help: &runtime.Help{
-				Signature: name + "(z: complex, any unit) -> same unit (real)",
+				Signature: name + "(z: complex, any unit) -> same unit (real); of a complex vector, a real vector",
 				Summary:   summary, Example: example, Reference: refComplex,
 			},
 		}
 	}
 	return []*runtime.Func{
-		part("re", "Real part of a complex quantity (of a real one, itself).", "re((3 + 4j) ohm)", func(z complex128) float64 { return real(z) }),
-		part("im", "Imaginary part of a complex quantity, as a real quantity of the same unit (0 for a real one).", "im((3 + 4j) ohm)", func(z complex128) float64 { return imag(z) }),
+		part("re", "Real part of a complex quantity (of a real one, itself); of a field phasor, the field at ωt = 0.", "re((3 + 4j) ohm)", func(z complex128) float64 { return real(z) }),
+		part("im", "Imaginary part of a complex quantity, as a real quantity of the same unit (0 for a real one); of a field phasor, minus the field at ωt = 90°.", "im((3 + 4j) ohm)", func(z complex128) float64 { return imag(z) }),
 		{
 			Name: "conj", Params: []string{"z"}, MinArgs: 1, MaxArgs: 1,
 			Call: func(args []runtime.Value) (runtime.Value, error) {
+				if v, ok := args[0].(runtime.CVector); ok {
+					return runtime.CVector{V: [3]complex128{cmplx.Conj(v.V[0]), cmplx.Conj(v.V[1]), cmplx.Conj(v.V[2])}, D: v.D}, nil
+				}
 				z, err := complexArg("conj", args, 0)
 				if err != nil {
 					return nil, err

@@ -63,6 +63,10 @@ func guardFinite(f *runtime.Func) {
 			}
 		case runtime.Complex:
 			ok = !cmplx.IsNaN(x.V) && !cmplx.IsInf(x.V)
+		case runtime.CVector:
+			for _, c := range x.V {
+				ok = ok && !cmplx.IsNaN(c) && !cmplx.IsInf(c)
+			}
 		}
 		if !ok {
 			return nil, errorf("%s: the result is not a finite number; the sizes or values are beyond what double precision can hold", f.Name)

@@ -86,8 +86,8 @@ func sourceFuncs() []*runtime.Func {
 				return pointField(env, "b_at", em.FieldB, args)
 			},
 			Help: &runtime.Help{
-				Signature: "b_at(source, point: position [m][, t: s]) -> vector [T]",
-				Summary:   "Magnetic flux density B of the source at a point (at time t when a current is a function of time).",
+				Signature: "b_at(source, point: position [m][, t: s]) -> vector [T] (complex for phasor currents)",
+				Summary:   "Magnetic flux density B of the source at a point (at time t when a current is a function of time). When the currents are peak phasors (polar(2 A, 30 deg)), the phasor of B, a complex vector, peak like the currents.",
 				Method:    "closed forms for segments and arcs (elliptic integrals), adaptive quadrature for helices (asked for relative error 1e-12; the tests find it within 1e-10 of a 256-piece Gauss–Legendre sum)",
 				Example:   "b_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [0, 0, 0] m)",
 				Reference: refFields,
@@ -99,7 +99,7 @@ func sourceFuncs() []*runtime.Func {
 				return pointField(env, "a_at", em.FieldA, args)
 			},
 			Help: &runtime.Help{
-				Signature: "a_at(source, point: position [m][, t: s]) -> vector [Wb/m]",
+				Signature: "a_at(source, point: position [m][, t: s]) -> vector [Wb/m] (complex for phasor currents)",
 				Summary:   "Magnetic vector potential A of the source at a point (Coulomb gauge); its circulation around a loop is the flux through it.",
 				Method:    "closed forms for segments (log form) and arcs (incomplete elliptic integrals), adaptive quadrature for helices",
 				Example:   "a_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A), [10, 0, 0] mm)",
@@ -167,6 +167,9 @@ func fieldsOf(env runtime.Env, fn string, which em.Which, src *Source, pts []em.
 }
 
 func pointField(env runtime.Env, fn string, which em.Which, args []runtime.Value) (runtime.Value, error) {
+	if s, ok := args[0].(*Source); ok && s.hasPhasor() {
+		return pointPhasor(env, fn, which, s, args)
+	}
 	r := readArgs(fn, args)
 	src, x := r.source(0), r.point(1)
 	t, hasT := r.time(2)

@@ -120,13 +120,16 @@ func mathFuncs() []*runtime.Func {
 				if z, ok := args[0].(runtime.Complex); ok {
 					return complexAbs(z), nil
 				}
+				if v, ok := args[0].(runtime.CVector); ok {
+					return v.Norm(), nil
+				}
 				q, err := quantity("abs", args, 0)
 				if err != nil {
 					return nil, err
 				}
 				return runtime.Quantity{V: math.Abs(q.V), D: q.D, Cyc: q.Cyc}, nil
 			},
-			Help: &runtime.Help{Signature: "abs(x: any unit, real or complex) -> same unit", Summary: "Absolute value; of a complex value, its magnitude.", Example: "abs(-3 mV)", Reference: refGoMath},
+			Help: &runtime.Help{Signature: "abs(x: any unit, real or complex) -> same unit", Summary: "Absolute value; of a complex value, its magnitude; of a complex vector (a field phasor), √(Σ|cᵢ|²), which is √2 times the rms of the field's magnitude.", Example: "abs(-3 mV)", Reference: refGoMath},
 		},
 		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> rad", "atan2(1 mm, -1 mm) as deg",
 			func(y, x runtime.Quantity) runtime.Quantity {

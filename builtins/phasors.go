@@ -85,3 +85,69 @@ func fluxPhasor(env runtime.Env, fn string, src *Source, target runtime.Value) (
 	}
 	return sum, nil
 }
+
+// fieldPhasor is Σ Fₖ·Iₖ at one point over the terms of a phasor source,
+// Fₖ the field (B or A) per ampere of term k.
+func fieldPhasor(env runtime.Env, fn string, which em.Which, src *Source, x em.Vec) ([3]complex128, error) {
+	var sum [3]complex128
+	if len(src.uniform) > 0 {
+		return sum, errorf("%s: a uniform field is static, so it has no part in a phasor at a frequency; leave it out of this source", fn)
+	}
+	unit := runtime.Quantity{V: 1, D: dimCurrent}
+	for _, term := range src.terms {
+		i, err := phasorOf(fn, term.current)
+		if err != nil {
+			return sum, err
+		}
+		if i == 0 {
+			continue
+		}
+		one := &Source{terms: []sourceTerm{{path: term.path, current: unit}}}
+		out, err := fieldsOf(env, fn, which, one, []em.Vec{x}, 0, false)
+		if err != nil {
+			return sum, err
+		}
+		f := out[0]
+		sum[0] += complex(f.X, 0) * i
+		sum[1] += complex(f.Y, 0) * i
+		sum[2] += complex(f.Z, 0) * i
+	}
+	return sum, nil
+}
+
+// pointPhasor is b_at or a_at of a phasor source (no time), and e_at of
+// one at a frequency: E = −jωA.
+func pointPhasor(env runtime.Env, fn string, which em.Which, src *Source, args []runtime.Value) (runtime.Value, error) {
+	r := readArgs(fn, args)
+	x := r.point(1)
+	if r.err != nil {
+		return nil, r.err
+	}
+	d := dimTesla
+	if which == em.FieldA {
+		d = dimVpot
+	}
+	var omega float64
+	if fn == "e_at" {
+		w, ok, err := angularFrequency(fn, args, 2)
+		if err != nil {
+			return nil, err
+		}
+		if !ok {
+			return nil, errorf("%s: the source's currents are phasors; give the frequency (Hz or rad/s) as the last argument for the phasor of E = −jωA", fn)
+		}
+		omega, which, d = w, em.FieldA, dimEfield
+	} else if len(args) > 2 {
+		return nil, errorf("%s: the source's currents are phasors, so the field is a phasor too and takes no time; leave the time out", fn)
+	}
+	v, err := fieldPhasor(env, fn, which, src, x)
+	if err != nil {
+		return nil, err
+	}
+	if fn == "e_at" {
+		for k := range v {
+			v[k] *= complex(0, -omega)
+		}
+	}
+	return runtime.CVector{V: v, D: d}, nil
+}

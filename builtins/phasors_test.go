@@ -85,3 +85,37 @@ func mustUnitDim(t *testing.T, unit string) runtime.Dim {
 	}
 	return u.Dim
 }
+
+// TestFieldPhasors: B at the centre of a circular loop is μ0·I/(2R) along
+// its axis (D. J. Griffiths, Introduction to Electrodynamics, 4th ed. 2017,
+// Ex. 5.6 at z = 0), so for a peak phasor current I the B phasor is
+// μ0·I/(2R)·ẑ; tolerance 1e-13 (closed-form kernel, a few roundings). The
+// E phasor −jωA is compared with the instantaneous E of the same current
+// as a function of time, Re(E·e^{jωt}), at several instants (a different
+// route to d/dt; tolerance 1e-6 of |E|, the finite-difference derivative's
+// accuracy from its help).
+func TestFieldPhasors(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	eval(t, s, "c1 = circle([0, 0, 0] m, [0, 0, 1], 25 mm)")
+	eval(t, s, "src = source(c1, polar(2 A, 30 deg))")
+	b, ok := eval(t, s, "b_at(src, [0, 0, 0] m)").(runtime.CVector)
+	if !ok || b.D != mustUnitDim(t, "T") {
+		t.Fatalf("b_at of a phasor source is not a complex vector in T")
+	}
+	want := complex(builtins.VacuumPermeability*1/(2*0.025), 0) * cmplx.Rect(2, math.Pi/6)
+	if cmplx.Abs(b.V[2]-want) > 1e-13*cmplx.Abs(want) || b.V[0] != 0 && cmplx.Abs(b.V[0]) > 1e-13*cmplx.Abs(want) {
+		t.Errorf("B phasor at the centre %v, want [0, 0, %v]", b.V, want)
+	}
+	eval(t, s, "I(t) = 2 A * cos(2*pi*50 Hz*t + pi/6)")
+	eval(t, s, "srcT = source(c1, I)")
+	E := eval(t, s, "e_at(src, [12, 5, 3] mm, 50 Hz)").(runtime.CVector)
+	for _, ms := range []float64{0, 2.1, 7.7} {
+		e := eval(t, s, "e_at(srcT, [12, 5, 3] mm, "+strconv.FormatFloat(ms, 'g', -1, 64)+" ms)").(runtime.Vector)
+		ph := cmplx.Exp(complex(0, 2*math.Pi*50*ms*1e-3))
+		for k := range 3 {
+			if w := real(E.V[k] * ph); math.Abs(e.V[k]-w) > 1e-6*E.Norm().V {
+				t.Errorf("t = %g ms, component %d: e_at %g V/m, phasor gives %g V/m", ms, k, e.V[k], w)
+			}
+		}
+	}
+}

@@ -192,8 +192,8 @@ func regionFuncs() []*runtime.Func {
 			Name: "e_at", Params: []string{"source_or_region", "point", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: efieldBuiltin,
 			Help: &runtime.Help{
-				Signature: "e_at(source or region, point: position [m][, t: s]) -> vector [V/m]",
-				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes.",
+				Signature: "e_at(source or region, point: position [m][, t: s or f: Hz]) -> vector [V/m]",
+				Summary:   "The induced electric field at a point: of a source with changing currents (E = −∂A/∂t, give t) or of a region where B changes. Of a source whose currents are peak phasors, give the frequency: the phasor −jωA, a complex vector.",
 				Method:    "sources: closed-form A per ampere times dI/dt; regions: adaptive 3-D cubature of the volume integral to relative 1e-6, split at the point, with cells graded along the axis of long cylinders, and an error rather than a wrong number where it cannot meet the tolerance; solenoid regions integrate along the axis in closed form, the ideal solenoid is a closed form; a point inside a region costs many more integrand evaluations than one outside (the integrand is singular there; go test ./builtins/em -bench Induced times both)",
 				Example:   "e_at(dbdt_solenoid([0, 0, 0] m, [0, 0, 1], 20 mm, 2 m, 100 T/s), [10, 0, 0] mm)",
 				Reference: refRegions,
@@ -207,6 +207,9 @@ func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error)
 	var f *Field
 	switch v := args[0].(type) {
 	case *Source:
+		if v.hasPhasor() {
+			return pointPhasor(env, fn, em.FieldA, v, args)
+		}
 		f = inducedField(v)
 	case *Region:
 		f = regionField(v)

@@ -79,8 +79,7 @@ func TestComplexRefusals(t *testing.T) {
 	cases := []struct{ in, want string }{
 		{"(1 + 1j) < 2", "complex values have no order"},
 		{"(1 + 1j) ohm + 1 V", "cannot add resistance (Ω) and voltage (V)"},
-		{"[1, 2, 3] m * 1j", "vectors have real components"},
-		{"[1j, 0, 0]", "is complex; vectors have real components"},
+		{"[1, 2, 3] m * [1j, 0, 0]", "cannot multiply two vectors"},
 		{"sin(2j)", "take abs(z), re(z) or im(z) first"},
 		{"(1 + 1j) m ^ 0.5", "fractional exponent"},
 		{"2 m ^ (1j)", "dimensionless base"},
@@ -174,5 +173,24 @@ func TestComplexRecordAndCheck(t *testing.T) {
 	moved := strings.Replace(got, "-53.1301023542 deg", "-53.2 deg", 1)
 	if rep := check(t, moved, 1e-9); len(rep.Drifts) != 1 {
 		t.Errorf("a changed phase is not drift:\n%s", report(rep))
+	}
+}
+
+// TestComplexVectorRecorded: a complex vector is recorded and checked as
+// a whole (the norm of the change against the norm of the value).
+func TestComplexVectorRecorded(t *testing.T) {
+	src := "```lw\nv = [1 + 2j, 0, -3j] mT\nv * 2\nv.z\n```\n"
+	got := record(t, src)
+	for _, want := range []string{"↳ [1 + 2j, 0 + 0j, 0 - 3j] mT", "↳ [2 + 4j, 0 + 0j, 0 - 6j] mT", "↳ (0 - 3j) mT"} {
+		if !strings.Contains(got, want) {
+			t.Fatalf("recorded\n%s\nlacks %q", got, want)
+		}
+	}
+	if rep := check(t, got, 1e-9); len(rep.Drifts) != 0 {
+		t.Fatalf("a freshly recorded script drifts:\n%s", report(rep))
+	}
+	moved := strings.Replace(got, "[2 + 4j, 0 + 0j, 0 - 6j] mT", "[2 + 4j, 0 + 0.001j, 0 - 6j] mT", 1)
+	if rep := check(t, moved, 1e-9); len(rep.Drifts) != 1 {
+		t.Errorf("a changed component is not drift:\n%s", report(rep))
 	}
 }

@@ -275,6 +275,8 @@ func Format(v Value, digits int) string {
 		return formatVector(x, digits)
 	case Complex:
 		return formatComplex(x, digits)
+	case CVector:
+		return formatCVector(x, digits)
 	case *Func:
 		if x.Body != "" {
 			return x.Signature() + " = " + x.Body
@@ -360,6 +362,12 @@ func FormatIn(v Value, unit string, digits int) (string, error) {
 // expression being shown, quoted in a hint when only the angle is missing
 // or extra (50 Hz as rad/s).
 func FormatInExpr(v Value, unit string, digits int, expr string) (string, error) {
+	if cv, ok := v.(CVector); ok {
+		if _, polar := splitPolar(unit); polar {
+			return "", &DimError{Msg: "a complex vector has no polar form; show its components (v.x as polar)"}
+		}
+		return formatCVectorIn(cv, unit, digits)
+	}
 	if u, polar := splitPolar(unit); polar || isComplex(v, nil) {
 		z, ok := v.(Complex)
 		if !ok {

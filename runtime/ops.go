@@ -51,6 +51,17 @@ func checkFinite(q Quantity, what string) (Value, error) {
 	return q, nil
 }
 
+// vectorComplex reports operands that make a complex vector: a complex
+// vector on either side, or a complex scalar with a real vector.
+func vectorComplex(a, b Value) bool {
+	if isCVector(a) || isCVector(b) {
+		return true
+	}
+	_, va := a.(Vector)
+	_, vb := b.(Vector)
+	return isComplex(a, b) && (va || vb)
+}
+
 // Add is a + b.
 func Add(a, b Value) (Value, error) { return addSub(a, b, 1, "add", "+") }
 
@@ -61,6 +72,9 @@ func addSub(a, b Value, sign float64, verb, op string) (Value, error) {
 	a, b = normalize(a), normalize(b)
 	if x, ok := a.(Adder); ok && sign > 0 {
 		return x.Plus(b)
+	}
+	if vectorComplex(a, b) {
+		return cvectorArith(op, a, b)
 	}
 	if isComplex(a, b) {
 		return complexArith(op, a, b)
@@ -119,6 +133,9 @@ func productDim(a, b Value, q int) (Dim, error) {
 // Mul is a * b: quantities, or a vector scaled by a quantity.
 func Mul(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if vectorComplex(a, b) {
+		return cvectorArith("*", a, b)
+	}
 	if isComplex(a, b) {
 		return complexArith("*", a, b)
 	}
@@ -167,6 +184,9 @@ func checkFiniteVec(v Vector) (Value, error) {
 // Div is a / b.
 func Div(a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if vectorComplex(a, b) {
+		return cvectorArith("/", a, b)
+	}
 	if isComplex(a, b) {
 		return complexArith("/", a, b)
 	}
@@ -256,6 +276,8 @@ func Neg(a Value) (Value, error) {
 		return Vector{[3]float64{-x.V[0], -x.V[1], -x.V[2]}, x.D}, nil
 	case Complex:
 		return Complex{V: -x.V, D: x.D}, nil
+	case CVector:
+		return CVector{V: [3]complex128{-x.V[0], -x.V[1], -x.V[2]}, D: x.D}, nil
 	}
 	return nil, dimErr("cannot negate %s", TypeName(a))
 }
@@ -263,6 +285,17 @@ func Neg(a Value) (Value, error) {
 // Compare implements ==, !=, <, <=, >, >=.
 func Compare(op string, a, b Value) (Value, error) {
 	a, b = normalize(a), normalize(b)
+	if isCVector(a) || isCVector(b) {
+		x, okA := asCVector(a)
+		y, okB := asCVector(b)
+		if !okA || !okB || (op != "==" && op != "!=") {
+			return nil, dimErr("cannot compare %s with %s using %s", TypeName(a), TypeName(b), op)
+		}
+		if x.D != y.D {
+			return nil, dimErr("cannot compare vectors of %s and of %s", x.D.Describe(), y.D.Describe())
+		}
+		return (x.V == y.V) == (op == "=="), nil
+	}
 	if isComplex(a, b) {
 		return compareComplex(op, a, b)
 	}
@@ -318,10 +351,10 @@ func MakeVector(args []Value) (Value, error) {
 	var qs [3]Quantity
 	first := -1
 	for i, a := range args {
-		q, ok := normalize(a).(Quantity)
 		if _, c := a.(Complex); c {
-			return nil, dimErr("vector component %d is complex; vectors have real components (take re(z), im(z) or abs(z) first)", i+1)
+			return makeCVector(args)
 		}
+		q, ok := normalize(a).(Quantity)
 		if !ok {
 			return nil, dimErr("vector component %d is %s, not a quantity", i+1, TypeName(a))
 		}
@@ -344,6 +377,9 @@ func MakeVector(args []Value) (Value, error) {
 
 // Component returns component i (0, 1, 2) of a vector.
 func Component(v Value, i int) (Value, error) {
+	if c, ok := v.(CVector); ok {
+		return Complex{V: c.V[i], D: c.D}, nil
+	}
 	x, ok := v.(Vector)
 	if !ok {
 		return nil, dimErr("only a vector has components .x, .y, .z; this is %s", TypeName(v))
@@ -384,4 +420,32 @@ func angleGap(a, b Dim) int {
 		return 0
 	}
 	return int(kb) - int(ka)
+}
+
+// makeCVector builds a complex vector from three real or complex
+// quantities of one dimension (a plain zero fits any).
+func makeCVector(args []Value) (Value, error) {
+	var zs [3]Complex
+	first := -1
+	for i, a := range args {
+		z, ok := AsComplex(a)
+		if !ok {
+			return nil, dimErr("vector component %d is %s, not a quantity", i+1, TypeName(a))
+		}
+		zs[i] = z
+		if first < 0 && !(z.V == 0 && z.D.IsZero()) {
+			first = i
+		}
+	}
+	var v CVector
+	if first >= 0 {
+		v.D = zs[first].D
+	}
+	for i, z := range zs {
+		if z.D != v.D && !(z.V == 0 && z.D.IsZero()) {
+			return nil, dimErr("vector components must share one dimension: component %d is %s, component %d is %s", first+1, v.D.Describe(), i+1, z.D.Describe())
+		}
+		v.V[i] = z.V
+	}
+	return v, nil
 }

@@ -704,6 +704,30 @@ func Matches(recorded string, v Value, nowText string, tol float64) (ok bool, no
 	if recorded == nowText {
 		return true, nowText, 0
 	}
+	if rv, unit, ok := parseCVectorRecorded(recorded); ok {
+		x, isV := v.(CVector)
+		now = nowText
+		if unit != "" {
+			if t, err := FormatIn(v, unit, RecordDigits); err == nil {
+				now = t
+			}
+		}
+		if !isV || x.D != rv.D {
+			return false, now, math.NaN()
+		}
+		var d CVector
+		for i := range 3 {
+			d.V[i] = x.V[i] - rv.V[i]
+		}
+		scale := math.Max(rv.Norm().V, x.Norm().V)
+		rel = math.Inf(1)
+		if n := rv.Norm().V; n > 0 {
+			rel = d.Norm().V / n
+		} else if d.Norm().V == 0 {
+			rel = 0
+		}
+		return d.Norm().V <= tol*scale, now, rel
+	}
 	if z, form, ok := parseComplexRecorded(recorded); ok {
 		// a complex result is compared as a point in the plane:
 		// |z_now - z_recorded| within tol of the larger magnitude

@@ -292,6 +292,12 @@ func checkResult(st *lang.Statement, v Value) error {
 		if cmplx.IsNaN(x.V) || cmplx.IsInf(x.V) {
 			bad = "gave a complex number that is not finite"
 		}
+	case CVector:
+		for _, c := range x.V {
+			if cmplx.IsNaN(c) || cmplx.IsInf(c) {
+				bad = "gave a vector with a component that is not finite"
+			}
+		}
 	}
 	if bad == "" {
 		return nil
@@ -361,6 +367,8 @@ func (s *Session) assign(st *lang.Statement, v Value) error {
 		case Vector:
 			d = x.D
 		case Complex:
+			d = x.D
+		case CVector:
 			d = x.D
 		default:
 			return st.Errorf(st.ExprOff, utf8.RuneCountInString(st.Expr), "%s is declared in %s; cannot assign %s", name, decl, TypeName(v))

@@ -202,6 +202,11 @@ func TypeName(v Value) string {
 			return "a complex number"
 		}
 		return "a complex " + x.D.Describe()
+	case CVector:
+		if x.D.IsZero() {
+			return "a complex vector of plain numbers"
+		}
+		return "a complex vector of " + x.D.Describe()
 	case *Func:
 		return "the function " + x.Name
 	case Shower:
