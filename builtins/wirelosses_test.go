@@ -227,3 +227,20 @@ func TestWireLossErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestACFactorTerman: for 1 mm copper at the frequencies where
+// √2·a/δ = 2, 5 and 10, ac_factor against the classic round-wire table in
+// F. E. Terman, Radio Engineers' Handbook (1943), which is indexed by that
+// parameter: 1.078, 2.043, 3.799 (from memory; three decimals, so the
+// tolerance is half a unit in the last place, 5e-4, plus 1e-6 for the
+// rounding of the frequency written as text).
+func TestACFactorTerman(t *testing.T) {
+	for _, c := range []struct{ q, r float64 }{{2, 1.078}, {5, 2.043}, {10, 3.799}} {
+		delta := math.Sqrt2 * 0.5e-3 / c.q
+		f := rhoCu20 / (math.Pi * fmMu0 * delta * delta)
+		got := fmVal(t, "1", fmt.Sprintf(`ac_factor(1 mm, %.12g Hz, "copper")`, f))
+		if math.Abs(got-c.r) > 5e-4+1e-6 {
+			t.Errorf("√2 a/δ = %g (f = %.6g Hz): ac_factor = %.5f, Terman's table %.3f", c.q, f, got, c.r)
+		}
+	}
+}

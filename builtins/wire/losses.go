@@ -66,6 +66,11 @@ func InductanceRatio(x float64) float64 {
 		// double precision here, and x²/4 would underflow for tiny x
 		return 1 - x*x*x*x/96
 	}
+	if x > 1e8 {
+		// 2/x − 3/(8x³) to double precision (next term 3/(8x⁴)), and x²
+		// would overflow for huge x
+		return 2/x - 3/(8*x*x*x)
+	}
 	return imag(InternalImpedance(x)) / (x * x / 4)
 }
 

@@ -75,7 +75,7 @@ func TestImpedanceLowFrequency(t *testing.T) {
 // exponentially small part the expansion leaves out. The 3/(32x) term is
 // checked too: at x ≥ 5 it is over 20 times the tolerance.
 func TestImpedanceHighFrequency(t *testing.T) {
-	for _, x := range []float64{5, 8, 15, 30, 200, 1e4, 1e8} {
+	for _, x := range []float64{5, 8, 15, 30, 200, 1e4, 1e8, 1e9, 1e200} {
 		r := x/2 + 0.25 + 3/(32*x)
 		tol := 2*63/(1024*x*x*x) + math.Exp(-2*x) + 4e-16*r
 		if d := math.Abs(ResistanceRatio(x) - r); d > tol {
