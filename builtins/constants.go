@@ -100,6 +100,7 @@ func Standard() runtime.Library {
 		{"induced E", regionFuncs()},
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},
+		{"wire losses", wireLossFuncs()},
 		{"tables", append(tableFuncs(), exportFuncs()...)},
 		{"plots", plotFuncs()},
 	} {

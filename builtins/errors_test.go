@@ -445,6 +445,12 @@ func FuzzInduction(f *testing.F) {
 		"wheeler(1 cm, 3 cm, 40)",
 		"exposure_check(300 uT, 50 Hz)",
 		"voltage_check(60 V, \"ac\")",
+		// wire losses
+		"ac_factor(1 mm, 1 MHz, \"copper\")",
+		"ac_resistance(2 m, 0.3 mm, 50 kHz, \"aluminium\", 50 °C)",
+		"dowell_factor(3, 0.5 mm, 0.6 mm, 200 kHz, 1.7e-8 ohm*m)",
+		"coil_q(loop, 0.4 mm, 1 MHz, \"copper\")",
+		"coil_q_layers(small, 0.2 mm, 2, 0.25 mm, 100 kHz, \"copper\")",
 		// tables, grids, derivatives and extrema
 		"interpolate(sweep(I, 0 s, 10 ms, 41), \"t\", 1 ms, \"I\")",
 		"where_max(sample_line(b_field(src), [0,0,-1] m, [0,0,1] m, 9), \"|B|\", \"z\")",
