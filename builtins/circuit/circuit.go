@@ -398,8 +398,8 @@ func (c *Circuit) checkTopology(use, voltageLike, currentLike func(Element) bool
 				through = append(through, e.Name)
 			}
 		}
-		return fmt.Errorf("node%s %s %s joined to the rest of the circuit only through %s, which fix the current into %s: the equations are singular (add a resistance from %s to the rest)",
-			plural(len(cut.nodes)), quoteList(cut.nodes), isAre(len(cut.nodes)), describeAll(c, through), themIt(len(cut.nodes)), themIt(len(cut.nodes)))
+		return fmt.Errorf("node%s %s %s joined to the rest of the circuit only through %s, which %s the current into %s: the equations are singular (add a resistance from %s to the rest)",
+			plural(len(cut.nodes)), quoteList(cut.nodes), isAre(len(cut.nodes)), describeAll(c, through), fixFixes(len(through)), themIt(len(cut.nodes)), themIt(len(cut.nodes)))
 	}
 	return nil
 }
@@ -529,4 +529,11 @@ func themIt(n int) string {
 		return "it"
 	}
 	return "them"
+}
+
+func fixFixes(n int) string {
+	if n == 1 {
+		return "fixes"
+	}
+	return "fix"
 }

@@ -269,7 +269,7 @@ func (s *ACSolution) solveFor(phasor func(Element) complex128) ([]complex128, er
 	}
 	rx, err := s.fac.solve(rb)
 	if err != nil {
-		return nil, fmt.Errorf("solving the circuit at %g Hz: %v", s.freq, err)
+		return nil, fmt.Errorf("solving the circuit at %.6g Hz: %v", s.freq, err)
 	}
 	x := make([]complex128, n)
 	for i := range x {
@@ -280,7 +280,7 @@ func (s *ACSolution) solveFor(phasor func(Element) complex128) ([]complex128, er
 
 // singularAC explains a singular AC system by its most likely cause.
 func singularAC(c *Circuit, f, cond float64) error {
-	head := fmt.Sprintf("the circuit equations are singular at %g Hz (condition estimate %.3g)", f, cond)
+	head := fmt.Sprintf("the circuit equations are singular at %.6g Hz (condition estimate %.3g)", f, cond)
 	for _, cp := range c.Couplings {
 		a, _ := c.element(cp.A)
 		b, _ := c.element(cp.B)
@@ -411,7 +411,7 @@ func (s *ACSolution) InputImpedance(source string) (complex128, error) {
 	}
 	v, i := s.elementVI(x, e, unit)
 	if i == 0 {
-		return 0, fmt.Errorf("voltage source %s drives no current at %g Hz: the circuit it sees is open, its impedance infinite", source, s.freq)
+		return 0, fmt.Errorf("voltage source %s drives no current at %.6g Hz: the circuit it sees is open, its impedance infinite", source, s.freq)
 	}
 	// Passive convention for the source: a voltage source drives −i out of
 	// its From node into the network, across which it holds v, so
