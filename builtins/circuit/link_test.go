@@ -220,6 +220,7 @@ func TestTuningInSolver(t *testing.T) {
 		r := w * l / q
 		cs := SeriesTuning(w, l)
 		s := mustAC(t, &Circuit{Elements: []Element{V("V", "a", "0", 1), R("R", "a", "b", r), L("L", "b", "c", l), C("C", "c", "0", cs)}}, f)
+		checkCond(t, s, 1e6)
 		tol := math.Max(1e-12, 2*s.Cond()*eps) // as for the link circuits
 		if z := must[complex128](t)(s.InputImpedance("V")); crel(z, complex(r, 0)) > tol {
 			t.Errorf("Q = %g: series tuned Z = %v, want %g ohm", q, z, r)

@@ -131,6 +131,17 @@ func strongest(c *Circuit) string {
 	return desc
 }
 
+// Cond is the larger of the condition estimates of the resistive network
+// (equilibrated) and of the inductance matrix: derivatives carry a
+// relative error of about Cond·1.1e-16.
+func (s *StateSystem) Cond() float64 {
+	c := s.fac.cond
+	if s.chol != nil {
+		c = math.Max(c, s.chol.Cond())
+	}
+	return c
+}
+
 // Dim is the number of states.
 func (s *StateSystem) Dim() int { return len(s.States) }
 
