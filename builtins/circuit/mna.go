@@ -247,8 +247,29 @@ func (c *Circuit) AC(f float64) (*ACSolution, error) {
 	if err != nil {
 		return nil, err
 	}
+	if !allFinite(rx(x)) {
+		return nil, fmt.Errorf("the circuit's voltages or currents at %.6g Hz are too large to represent: the values are out of range", f)
+	}
 	sol.x = x
 	return sol, nil
+}
+
+// rx lists the real and imaginary parts of x.
+func rx(x []complex128) []float64 {
+	out := make([]float64, 0, 2*len(x))
+	for _, v := range x {
+		out = append(out, real(v), imag(v))
+	}
+	return out
+}
+
+func allFinite(x []float64) bool {
+	for _, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
 }
 
 // solveFor solves with each source at the phasor phasor(e).
@@ -360,7 +381,22 @@ func (s *ACSolution) Current(element string) (complex128, error) {
 		return 0, err
 	}
 	_, i := s.elementVI(s.x, e, sourcePhasor)
-	return i, nil
+	return finiteC(i, "current", element)
+}
+
+// finiteC and finiteF refuse a result that overflowed.
+func finiteC(z complex128, what, element string) (complex128, error) {
+	if cmplx.IsNaN(z) || cmplx.IsInf(z) {
+		return 0, fmt.Errorf("the %s of %s is too large to represent: the values are out of range", what, element)
+	}
+	return z, nil
+}
+
+func finiteF(v float64, what, element string) (float64, error) {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, fmt.Errorf("the %s of %s is too large to represent: the values are out of range", what, element)
+	}
+	return v, nil
 }
 
 // ElementVoltage is the peak phasor voltage (V) across element,
@@ -371,7 +407,7 @@ func (s *ACSolution) ElementVoltage(element string) (complex128, error) {
 		return 0, err
 	}
 	v, _ := s.elementVI(s.x, e, sourcePhasor)
-	return v, nil
+	return finiteC(v, "voltage", element)
 }
 
 // Power is the average power (W) element absorbs, ½·Re(V·I*) with peak
@@ -382,7 +418,7 @@ func (s *ACSolution) Power(element string) (float64, error) {
 		return 0, err
 	}
 	v, i := s.elementVI(s.x, e, sourcePhasor)
-	return 0.5 * real(v*cmplx.Conj(i)), nil
+	return finiteF(0.5*real(v*cmplx.Conj(i)), "power", element)
 }
 
 // InputImpedance is the impedance (ohm) the rest of the circuit presents
@@ -418,5 +454,5 @@ func (s *ACSolution) InputImpedance(source string) (complex128, error) {
 	// Z = v/(−i); a current source drives i into the network at its To
 	// node, across which the network holds V(To) − V(From) = −v, so again
 	// Z = −v/i.
-	return -v / i, nil
+	return finiteC(-v/i, "input impedance", source)
 }

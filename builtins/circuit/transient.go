@@ -33,6 +33,7 @@ type StateSystem struct {
 	caps   []float64     // capacitances, in state order
 	stateL map[string]int
 	stateC map[string]int
+	lNodes [][2]int // unknown indices of each inductor's From and To (−1: ground), in state order
 }
 
 // StateEquations builds the time-domain state equations. src gives the
@@ -88,6 +89,10 @@ func (c *Circuit) StateEquations(src func(name string, t float64) float64) (*Sta
 	// currents; capacitors, voltage sources and shorts are branch
 	// equations with known voltages.
 	s.lay = newLayout(&cc, isVoltageLike(true))
+	for _, st := range s.States[:s.nL] {
+		e, _ := cc.element(st.Element)
+		s.lNodes = append(s.lNodes, [2]int{s.lay.idx(e.From), s.lay.idx(e.To)})
+	}
 	n := s.lay.size
 	a := mat.NewDense(n, n, nil)
 	add := func(i, j int, v float64) {
@@ -198,6 +203,9 @@ func (s *StateSystem) At(t float64, y []float64) (*Instant, error) {
 	if err != nil {
 		return nil, fmt.Errorf("solving the circuit at t = %g s: %v", t, err)
 	}
+	if !allFinite(x) {
+		return nil, fmt.Errorf("the circuit's voltages or currents at t = %g s are too large to represent: the values are out of range", t)
+	}
 	in.x = x
 	return in, nil
 }
@@ -214,9 +222,8 @@ func (s *StateSystem) F(t float64, y, dy []float64) error {
 	}
 	if s.nL > 0 {
 		vl := mat.NewVecDense(s.nL, nil)
-		for _, st := range s.States[:s.nL] {
-			e, _ := s.c.element(st.Element)
-			vl.SetVec(s.stateL[e.Name], in.v(e.From)-in.v(e.To))
+		for i, pq := range s.lNodes {
+			vl.SetVec(i, in.at(pq[0])-in.at(pq[1]))
 		}
 		var di mat.VecDense
 		if err := s.chol.SolveVecTo(&di, vl); err != nil {
@@ -227,15 +234,24 @@ func (s *StateSystem) F(t float64, y, dy []float64) error {
 		for i := 0; i < s.nL; i++ {
 			dy[i] = di.AtVec(i)
 		}
+		if !allFinite(dy[:s.nL]) {
+			return fmt.Errorf("the inductor currents' rates at t = %g s are too large to represent: the values are out of range", t)
+		}
 	}
 	for j, st := range s.States[s.nL:] {
 		dy[s.nL+j] = in.x[s.lay.branch[st.Element]] / s.caps[j]
 	}
+	if !allFinite(dy) {
+		return fmt.Errorf("the capacitor voltages' rates at t = %g s are too large to represent: the values are out of range", t)
+	}
 	return nil
 }
 
-func (in *Instant) v(n string) float64 {
-	if i := in.sys.lay.idx(n); i >= 0 {
+func (in *Instant) v(n string) float64 { return in.at(in.sys.lay.idx(n)) }
+
+// at is unknown i of the solution, 0 for ground (−1).
+func (in *Instant) at(i int) float64 {
+	if i >= 0 {
 		return in.x[i]
 	}
 	return 0
@@ -258,7 +274,7 @@ func (in *Instant) ElementVoltage(element string) (float64, error) {
 	if !ok {
 		return 0, fmt.Errorf("the circuit has no element %q", element)
 	}
-	return in.v(e.From) - in.v(e.To), nil
+	return finiteF(in.v(e.From)-in.v(e.To), "voltage", element)
 }
 
 // Current is the current through element, From→To (A).
@@ -272,7 +288,7 @@ func (in *Instant) Current(element string) (float64, error) {
 	}
 	switch e.Kind {
 	case Resistor:
-		return (in.v(e.From) - in.v(e.To)) / e.Value, nil
+		return finiteF((in.v(e.From)-in.v(e.To))/e.Value, "current", element)
 	case Inductor:
 		return in.y[in.sys.stateL[e.Name]], nil
 	case CurrentSource:
