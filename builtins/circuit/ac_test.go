@@ -352,3 +352,25 @@ func TestNamedGround(t *testing.T) {
 		t.Errorf("V(b) = %v, want 4 V", v)
 	}
 }
+
+// Perfect coupling (k = 1 exactly) is allowed in AC while a resistance
+// closes the secondary: Z_in = jωL1 + ω²M²/(jωL2 + Z_L) with M² = L1·L2
+// simplifies to jωL1·Z_L/(jωL2 + Z_L) (the reflected-impedance formula,
+// derived in ReflectedImpedance, with the mutual term cancelling the
+// primary's own ω²L1L2). Written in this second form the check shares no
+// arithmetic with the solver. ωL2/|Z_L| = 10 keeps cond modest.
+func TestPerfectCouplingExact(t *testing.T) {
+	const f, l1, l2, rl = 1e3, 4e-3, 1e-3, 0.6
+	w := 2 * math.Pi * f
+	c := &Circuit{
+		Elements:  []Element{V("V", "p", "0", 1), L("L1", "p", "0", l1), L("L2", "s", "0", l2), R("RL", "s", "0", rl)},
+		Couplings: []Coupling{{"L1", "L2", math.Sqrt(l1 * l2)}},
+	}
+	s := mustAC(t, c, f)
+	checkCond(t, s, 1e6)
+	tol := math.Max(1e-12, 2*s.Cond()*eps)
+	want := complex(0, w*l1) * rl / complex(rl, w*l2)
+	if z := must[complex128](t)(s.InputImpedance("V")); crel(z, want) > tol {
+		t.Errorf("Z_in = %v, want %v (rel %.2g)", z, want, crel(z, want))
+	}
+}
