@@ -374,3 +374,23 @@ func TestPerfectCouplingExact(t *testing.T) {
 		t.Errorf("Z_in = %v, want %v (rel %.2g)", z, want, crel(z, want))
 	}
 }
+
+// At series resonance the inductor's and the capacitor's voltages are Q
+// times the source's, Q = (1/R)·√(L/C) (voltage magnification of a series
+// resonant circuit; standard circuit theory, from memory), and nothing in
+// the circuit has more. The rounding of f0 leaves a relative error of a
+// few eps·Q, inside 1e-12.
+func TestLargestVoltageAtResonance(t *testing.T) {
+	const r, l, cap, vs = 5.0, 1e-3, 1e-6, 10.0
+	c := &Circuit{Elements: []Element{V("Vs", "1", "0", vs), R("R", "1", "2", r), L("L", "2", "3", l), C("C", "3", "0", cap)}}
+	s := mustAC(t, c, 1/(2*math.Pi*math.Sqrt(l*cap)))
+	checkCond(t, s, 1e3)
+	name, peak := s.LargestVoltage()
+	q := math.Sqrt(l/cap) / r
+	if (name != "L" && name != "C") || math.Abs(peak-q*vs) > 1e-12*q*vs {
+		t.Errorf("largest voltage %s %g V, want L or C at Q·V = %g V", name, peak, q*vs)
+	}
+	if len(s.Elements()) != 4 {
+		t.Errorf("Elements() = %v", s.Elements())
+	}
+}

@@ -45,4 +45,26 @@
 // the inductance matrix with the mutual inductances, by Cholesky) and
 // dv_C/dt = i_C / C. The network matrix does not change with time and is
 // factorised once.
+//
+// # Errors and limits
+//
+// Every error is a plain error whose text is written for the user (it
+// names elements, nodes and values, never Go names); a caller adds the
+// statement's position. Nothing here panics on any Circuit, whatever its
+// values (a test feeds random circuits with extreme and non-finite
+// values). A system whose condition estimate exceeds 1e13 is refused as
+// singular; ACSolution.Cond and StateSystem.Cond report the estimate of an
+// accepted one (relative error about Cond·1.1e-16), and results that
+// overflow float64 are refused. The solver is dense: memory and time grow
+// as the square and the cube of (nodes + branch currents), twice that in
+// AC, which suits circuits of tens of elements.
+//
+// # For the language
+//
+// Arguments in SI: ohm, H, F, Hz (AC takes f; Link takes ω = 2πf in s^-1),
+// peak V and A. Results: Voltage, ElementVoltage (V), Current (A),
+// InputImpedance (ohm), all peak phasors; Power (W, average); link
+// efficiencies are plain fractions. LargestVoltage gives what a caution
+// about dangerous voltages needs (resonant circuits magnify the sources'
+// voltages by their Q).
 package circuit

@@ -5,13 +5,32 @@ import (
 	"math"
 )
 
-// Closed forms for the two-coil inductive link: a primary coil L1 with
-// series resistance R1 driven by a source, coupled by M = k·√(L1·L2) to a
+// Link is two coupled coils at one angular frequency, with closed forms
+// for the two-coil inductive link: a primary coil L1 with series
+// resistance R1 driven by a source, coupled by M = k·√(L1·L2) to a
 // secondary coil L2 with series resistance R2 that feeds a load R_L
 // through a tuning capacitor C2, either in series with the load
 // (series–series, "SS") or across it (series–parallel, "SP"). The primary
 // is tuned by a series capacitor C1, which sets the current the source
 // draws but not the efficiency.
+//
+// Efficiency is the power into the load over the power the source
+// delivers into the primary's terminals (coil losses counted, the
+// source's own internal resistance not, unless it is included in R1).
+// For a secondary loop closed by a load network of impedance zl that
+// passes all the power it takes to the load resistor (its reactive parts
+// lossless):
+//
+//	η = Re(Zr)/(R1 + Re(Zr)) · Re(zl)/(R2 + Re(zl)),
+//	Zr = ω²M²/Z2,  Z2 = R2 + jωL2 + zl.
+//
+// Derivation: the secondary current I2 flows through R2 and through zl, so
+// the secondary passes the fraction Re(zl)/(R2 + Re(zl)) of its power to
+// the load. The primary current I1 flows through R1 and through the
+// reflected impedance Zr (see ReflectedImpedance), and the power reaching
+// the secondary is ½|I1|²·Re(Zr), so the primary passes the fraction
+// Re(Zr)/(R1 + Re(Zr)). The primary's tuning capacitor is lossless and
+// changes neither fraction.
 //
 // Sources, from memory: M. Zargham and P. G. Gulak, "Maximum achievable
 // efficiency in near-field coupled power-transfer systems", IEEE Trans.
@@ -21,14 +40,8 @@ import (
 // transmission", IEEE Trans. Circuits and Systems I 59(9), 2012 (reflected
 // impedance and the efficiency of tuned links). Every formula is derived
 // in its comment from Kirchhoff's laws so that it can be checked without
-// them; the tests compare each with the general solver (AC) on the same
-// circuit.
-//
-// Efficiency here is the power into the load over the power the source
-// delivers into the primary's terminals (coil losses counted, the
-// source's own internal resistance not, unless it is included in R1).
-
-// Link is two coupled coils at one angular frequency.
+// them; the tests compare each with the general solver (Circuit.AC) on
+// the same circuit.
 type Link struct {
 	Omega  float64 // angular frequency ω = 2πf, s^-1
 	L1, R1 float64 // primary inductance (H) and series resistance (ohm)
@@ -95,18 +108,7 @@ func ParallelTuning(omega, l, r float64) float64 {
 	return l / (r*r + omega*omega*l*l)
 }
 
-// efficiency is the efficiency of a link whose secondary loop is the coil
-// (R2 + jωL2) in series with a load network of impedance zl that passes
-// all the power it takes to the load resistor (its reactive parts are
-// lossless).
-//
-// Derivation: the secondary current I2 flows through R2 and through zl,
-// so the secondary passes the fraction Re(zl)/(R2 + Re(zl)) of its power
-// to the load. The primary current I1 flows through R1 and through the
-// reflected impedance Zr = ω²M²/Z2 (Z2 = R2 + jωL2 + zl), and the power
-// reaching the secondary is ½|I1|²·Re(Zr), so the primary passes the
-// fraction Re(Zr)/(R1 + Re(Zr)). The primary's tuning capacitor is
-// lossless and changes neither fraction.
+// efficiency is η of the Link comment for the load network zl.
 func (l Link) efficiency(zl complex128) float64 {
 	z2 := complex(l.R2, l.Omega*l.L2) + zl
 	rr := real(ReflectedImpedance(l.Omega, l.M(), z2))
@@ -141,7 +143,8 @@ func (l Link) ParallelLoad(rl, c2 float64) complex128 {
 //
 //	η = ω²M²·R_L / [(R1·(R2 + R_L) + ω²M²)·(R2 + R_L)],
 //
-// the general form (efficiency above with zl = R_L + 1/(jωC2)) for any c2.
+// and for any c2 it is the general form of the Link comment with
+// zl = R_L + 1/(jωC2).
 func (l Link) EfficiencySS(rl, c2 float64) (float64, error) {
 	if err := l.Check(); err != nil {
 		return 0, err

@@ -327,6 +327,24 @@ func (s *ACSolution) Frequency() float64 { return s.freq }
 // solution's relative error is bounded by about Cond·1.1e-16.
 func (s *ACSolution) Cond() float64 { return s.fac.cond }
 
+// Elements is a copy of the solved circuit's elements, in order.
+func (s *ACSolution) Elements() []Element { return append([]Element(nil), s.c.Elements...) }
+
+// LargestVoltage is the element with the largest peak voltage across it
+// and that peak (V). At resonance it can be far above the sources' (Q
+// times, in a series RLC), which is what a caution about dangerous
+// voltages needs; the peak is √2 times the rms value such limits are
+// usually stated in.
+func (s *ACSolution) LargestVoltage() (element string, peak float64) {
+	for _, e := range s.c.Elements {
+		v, _ := s.elementVI(s.x, e, sourcePhasor)
+		if a := cmplx.Abs(v); a > peak || element == "" {
+			element, peak = e.Name, a
+		}
+	}
+	return element, peak
+}
+
 // Voltage is the peak phasor voltage of node (V) against ground.
 func (s *ACSolution) Voltage(node string) (complex128, error) {
 	if node == s.lay.ground {
