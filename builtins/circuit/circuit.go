@@ -160,6 +160,16 @@ func checkElement(e Element) error {
 	return nil
 }
 
+// index maps each element's name to its position (names are unique once
+// Check has passed).
+func (c *Circuit) index() map[string]int {
+	m := make(map[string]int, len(c.Elements))
+	for i, e := range c.Elements {
+		m[e.Name] = i
+	}
+	return m
+}
+
 // element returns the element named name.
 func (c *Circuit) element(name string) (Element, bool) {
 	for _, e := range c.Elements {
@@ -259,9 +269,11 @@ func (c *Circuit) checkInductanceMatrix() error {
 		return fmt.Errorf("couplings: the eigenvalues of the coupling matrix could not be computed")
 	}
 	vals := eig.Values(nil)
-	// Rounding in a symmetric eigensolver is about n·eps times the largest
-	// eigenvalue (at most n here); allow 100·n·eps below zero.
-	if vals[0] < -100*float64(n)*0x1p-52*float64(n) {
+	// A symmetric eigensolver's error is about n·eps times the largest
+	// eigenvalue, which is at most n for a matrix with unit diagonal and
+	// off-diagonal entries of at most 1; allow 100 times that below zero,
+	// so that couplings at k = 1 exactly (a semidefinite matrix) pass.
+	if tol := 100 * float64(n) * 0x1p-52 * float64(n); vals[0] < -tol {
 		var coupled []string
 		for _, cp := range c.Couplings {
 			coupled = append(coupled, cp.A, cp.B)

@@ -175,11 +175,13 @@ func (f *factored) solve(b []float64) ([]float64, error) {
 }
 
 // ACSolution is the sinusoidal steady state of a circuit at one
-// frequency. Values are peak phasors in SI units.
+// frequency. Values are peak phasors in SI units. Its methods only read
+// it and may be called from several goroutines.
 type ACSolution struct {
 	freq  float64
 	omega float64
 	c     Circuit // a copy of the solved circuit
+	index map[string]int
 	lay   *layout
 	fac   *factored
 	x     []complex128
@@ -242,7 +244,7 @@ func (c *Circuit) AC(f float64) (*ACSolution, error) {
 	if fac.singular() {
 		return nil, singularAC(&cc, f, fac.cond)
 	}
-	sol := &ACSolution{freq: f, omega: omega, c: cc, lay: lay, fac: fac}
+	sol := &ACSolution{freq: f, omega: omega, c: cc, index: cc.index(), lay: lay, fac: fac}
 	x, err := sol.solveFor(func(e Element) complex128 { return e.Phasor })
 	if err != nil {
 		return nil, err
@@ -358,11 +360,11 @@ func (s *ACSolution) Voltage(node string) (complex128, error) {
 }
 
 func (s *ACSolution) find(name string) (Element, error) {
-	e, ok := s.c.element(name)
+	i, ok := s.index[name]
 	if !ok {
 		return Element{}, fmt.Errorf("the circuit has no element %q", name)
 	}
-	return e, nil
+	return s.c.Elements[i], nil
 }
 
 func (s *ACSolution) v(x []complex128, n string) complex128 {

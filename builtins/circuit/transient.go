@@ -25,6 +25,7 @@ type StateSystem struct {
 	States []State
 
 	c      Circuit
+	index  map[string]int
 	lay    *layout
 	fac    *factored
 	src    func(name string, t float64) float64
@@ -55,7 +56,7 @@ func (c *Circuit) StateEquations(src func(name string, t float64) float64) (*Sta
 	if err := cc.checkTopology(all, isVoltageLike(true), isCurrentLike(true)); err != nil {
 		return nil, fmt.Errorf("in the time domain, %s", err)
 	}
-	s := &StateSystem{c: cc, src: src, stateL: map[string]int{}, stateC: map[string]int{}}
+	s := &StateSystem{c: cc, index: cc.index(), src: src, stateL: map[string]int{}, stateC: map[string]int{}}
 	for _, e := range cc.Elements {
 		if (e.Kind == VoltageSource || e.Kind == CurrentSource) && src == nil {
 			return nil, fmt.Errorf("%s %s needs a value over time, but no source function was given", e.Kind, e.Name)
@@ -270,19 +271,21 @@ func (in *Instant) Voltage(node string) (float64, error) {
 
 // ElementVoltage is V(From) − V(To) of element (V).
 func (in *Instant) ElementVoltage(element string) (float64, error) {
-	e, ok := in.sys.c.element(element)
+	i, ok := in.sys.index[element]
 	if !ok {
 		return 0, fmt.Errorf("the circuit has no element %q", element)
 	}
+	e := in.sys.c.Elements[i]
 	return finiteF(in.v(e.From)-in.v(e.To), "voltage", element)
 }
 
 // Current is the current through element, From→To (A).
 func (in *Instant) Current(element string) (float64, error) {
-	e, ok := in.sys.c.element(element)
+	i, ok := in.sys.index[element]
 	if !ok {
 		return 0, fmt.Errorf("the circuit has no element %q", element)
 	}
+	e := in.sys.c.Elements[i]
 	if k, ok := in.sys.lay.branch[e.Name]; ok {
 		return in.x[k], nil
 	}
