@@ -332,3 +332,21 @@ func (r *argReader) fail(err error) {
 		r.err = err
 	}
 }
+
+// positive reads argument i as a quantity of dimension d above zero.
+func (r *argReader) positive(i int, d runtime.Dim) float64 {
+	v := r.ofDim(i, d)
+	if r.err == nil && !(v > 0) {
+		r.err = errorf("%s: the %s argument must be above zero, not %s", r.fn, ordinal(i), runtime.Format(runtime.Quantity{V: v, D: d}, 6))
+	}
+	return v
+}
+
+// nonNegative reads argument i as a quantity of dimension d, zero or more.
+func (r *argReader) nonNegative(i int, d runtime.Dim) float64 {
+	v := r.ofDim(i, d)
+	if r.err == nil && v < 0 {
+		r.err = errorf("%s: the %s argument must not be negative, not %s", r.fn, ordinal(i), runtime.Format(runtime.Quantity{V: v, D: d}, 6))
+	}
+	return v
+}

@@ -37,6 +37,16 @@ func Caution(v runtime.Value) string {
 		if x.Exceeded {
 			return "caution: " + x.Text + " " + deferText
 		}
+	case *ACResult:
+		if name, peak := x.sol.LargestVoltage(); peak/math.Sqrt2 > elvAC {
+			return fmt.Sprintf("caution: %s peak (%s rms) across %s is above the AC extra-low-voltage limit (50 V rms; IEC 61140, from memory); a resonant circuit raises its source's voltage by its Q. %s", runtime.Format(runtime.Quantity{V: peak, D: dimVolt}, 4), runtime.Format(runtime.Quantity{V: peak / math.Sqrt2, D: dimVolt}, 4), name, deferText)
+		}
+	case runtime.Complex:
+		if x.D == dimVolt {
+			if a := x.Abs().V; a/math.Sqrt2 > elvAC {
+				return fmt.Sprintf("caution: a peak phasor of %s is %s rms, above the AC extra-low-voltage limit (50 V rms; IEC 61140, from memory). %s", runtime.Format(x.Abs(), 4), runtime.Format(runtime.Quantity{V: a / math.Sqrt2, D: dimVolt}, 4), deferText)
+			}
+		}
 	case runtime.Quantity:
 		a := math.Abs(x.V)
 		switch x.D {

@@ -90,6 +90,7 @@ func Standard() runtime.Library {
 	}{
 		{"math", mathFuncs()},
 		{"complex numbers", complexFuncs()},
+		{"circuits", append(circuitFuncs(), linkFuncs()...)},
 		{"vectors", vectorFuncs()},
 		{"geometry", geometryFuncs()},
 		{"fields", sourceFuncs()},

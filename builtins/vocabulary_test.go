@@ -16,6 +16,10 @@ func TestVocabulary(t *testing.T) {
 	lib := builtins.Standard()
 	names := map[string]bool{}
 	for _, f := range lib.Funcs {
+		// one builtin per name: a second would silently hide the first
+		if names[f.Name] {
+			t.Errorf("two builtins are named %s", f.Name)
+		}
 		names[f.Name] = true
 		// a source comes first wherever a builtin takes one
 		for i, p := range f.Params {

@@ -194,3 +194,21 @@ func TestComplexVectorRecorded(t *testing.T) {
 		t.Errorf("a changed component is not drift:\n%s", report(rep))
 	}
 }
+
+// TestTableNoiseFloor: cells below 1e-12 of their column's largest value
+// are rounding noise and match each other; a change above it is drift.
+func TestTableNoiseFloor(t *testing.T) {
+	src := "```lw\nk = 2 A\nf(x) = k * x\nsweep(f, 0 m, 1 m, 3)\n```\n"
+	got := record(t, src)
+	noisy := strings.Replace(got, "│     0        0\n", "│     0    1e-17\n", 1)
+	if noisy == got {
+		t.Fatalf("the recorded table has no zero row to perturb:\n%s", got)
+	}
+	if rep := check(t, noisy, 1e-9); len(rep.Drifts) != 0 {
+		t.Errorf("a cell of 1e-17 against a column of 2 is reported as drift:\n%s", report(rep))
+	}
+	big := strings.Replace(got, "│     0        0\n", "│     0    1e-09\n", 1)
+	if rep := check(t, big, 1e-9); len(rep.Drifts) != 1 {
+		t.Errorf("a cell of 1e-9 against a column of 2 is not drift:\n%s", report(rep))
+	}
+}

@@ -633,6 +633,19 @@ func (sc *Script) checkTable(base Drift, st ScriptStmt, t Tabular, tol float64) 
 	}
 	var ds []Drift
 	more := 0
+	// A cell below tableNoise of its column's largest magnitude is rounding
+	// noise (the imaginary part of a voltage in phase, a power that is zero
+	// in exact arithmetic): two such cells match.
+	floor := make([]float64, len(rec.cols))
+	for _, g := range []grid{rec, now} {
+		for i := range g.cells {
+			for j, x := range g.cells[i] {
+				if j < len(floor) {
+					floor[j] = math.Max(floor[j], tableNoise*math.Abs(x))
+				}
+			}
+		}
+	}
 	for i := range rec.cells {
 		if rec.labels != nil && rec.labels[i] != now.labels[i] {
 			d := d
@@ -642,6 +655,9 @@ func (sc *Script) checkTable(base Drift, st ScriptStmt, t Tabular, tol float64) 
 		for j := range rec.cells[i] {
 			a, b := rec.cells[i][j], now.cells[i][j]
 			if closeEnough(a, b, math.Max(math.Abs(a), math.Abs(b)), tol) {
+				continue
+			}
+			if j < len(floor) && math.Abs(a) <= floor[j] && math.Abs(b) <= floor[j] {
 				continue
 			}
 			if len(ds) == maxCellDrifts {
@@ -682,6 +698,11 @@ func sameColumns(a, b grid) bool {
 	}
 	return true
 }
+
+// tableNoise is the fraction of a column's largest magnitude below which a
+// cell is taken as rounding noise when a table is checked: far below the
+// accuracy of any method here (the finest asks for 1e-12).
+const tableNoise = 1e-12
 
 func relChange(rec, now float64) float64 {
 	if rec == 0 {

@@ -120,6 +120,10 @@ func (c *Circuit) Check() error {
 	return nil
 }
 
+// CheckElement checks one element on its own: its nodes, its kind and its
+// value (Check does this for every element, and the topology besides).
+func CheckElement(e Element) error { return checkElement(e) }
+
 func checkElement(e Element) error {
 	what := fmt.Sprintf("%s %s", e.Kind, e.Name)
 	if e.From == "" || e.To == "" {

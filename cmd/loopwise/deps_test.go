@@ -20,7 +20,7 @@ import (
 var allowedImports = map[string][]string{
 	"lang":          {},
 	"runtime":       {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
-	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "gonum.org/v1/gonum"},
+	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "loopwise/builtins/circuit", "gonum.org/v1/gonum"},
 	"builtins/em":   {"gonum.org/v1/gonum"},
 	"builtins/wire": {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},
