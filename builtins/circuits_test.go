@@ -152,3 +152,32 @@ func TestCircuitErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestComplexSweep: sweep_log spaces its points geometrically (1, 10,
+// 100, 1000 kHz here, exact to rounding), and a complex result fills four
+// columns: re, im, magnitude and angle of Z = R + jωL, compared with the
+// closed form to 1e-15 (a few roundings).
+func TestComplexSweep(t *testing.T) {
+	s := runtime.NewSession(builtins.Standard())
+	eval(t, s, "Z(f) = 2 ohm + 2j*pi*f*10 uH")
+	tab, ok := eval(t, s, "sweep_log(Z, 1 kHz, 1 MHz, 4)").(runtime.Tabular)
+	if !ok {
+		t.Fatal("sweep_log gives no table")
+	}
+	cols, _, rows := tab.Tabulate()
+	if strings.Join(cols, ",") != "f,re Z,im Z,|Z|,arg Z" {
+		t.Fatalf("columns %q", cols)
+	}
+	for i, r := range rows {
+		f := math.Pow(10, float64(3+i))
+		if math.Abs(r[0]-f) > 1e-15*f {
+			t.Errorf("row %d: f = %.17g, want %g", i+1, r[0], f)
+		}
+		z := complex(2, 2*math.Pi*f*10e-6)
+		for j, want := range []float64{real(z), imag(z), cmplx.Abs(z), cmplx.Phase(z)} {
+			if math.Abs(r[j+1]-want) > 1e-15*math.Abs(want) {
+				t.Errorf("row %d, %s = %.17g, want %.17g", i+1, cols[j+1], r[j+1], want)
+			}
+		}
+	}
+}

@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"math"
+	"math/cmplx"
 	"strings"
 
 	"loopwise/runtime"
@@ -60,11 +61,22 @@ func solveFuncs() []*runtime.Func {
 			},
 		},
 		{
+			Name: "sweep_log", Params: []string{"f", "from", "to", "n"}, MinArgs: 4, MaxArgs: 4,
+			CallEnv: sweepLogBuiltin,
+			Help: &runtime.Help{
+				Signature: "sweep_log(f: function of one quantity, from, to: unit of f's argument, both above zero, n: whole number) -> table",
+				Summary:   "As sweep, at n values evenly spaced in logarithm (from·(to/from)^s): for frequency responses over decades.",
+				Method:    "f at from·(to/from)^s for s = 0, 1/(n−1), …, 1; otherwise as sweep",
+				Example:   "Z(f) = 2 ohm + 2j*pi*f*10 uH\nsweep_log(Z, 1 kHz, 1 MHz, 4)",
+				Reference: "evaluation at logarithmically spaced points",
+			},
+		},
+		{
 			Name: "sweep", Params: []string{"f", "from", "to", "n"}, MinArgs: 4, MaxArgs: 4,
 			CallEnv: sweepBuiltin,
 			Help: &runtime.Help{
 				Signature: "sweep(f: function of one quantity, from, to: unit of f's argument, n: whole number) -> table",
-				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result or four for a vector: x, y, z, norm).",
+				Summary:   "f at n evenly spaced values from from to to, as a table (one column for the argument, one for a quantity result, four for a vector: x, y, z, norm, and four for a complex result: re, im, magnitude, angle).",
 				Method:    "f at (1 − s)·from + s·to for s = 0, 1/(n−1), …, 1; every value must be finite (an infinity or NaN is an error naming its argument); the whole sweep's work is estimated from the first call and refused beyond the work budget (:budget)",
 				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nsweep(k, 0 mm, 20 mm, 5)",
 				Reference: "evaluation at evenly spaced points",
@@ -216,12 +228,21 @@ type sweepAxis struct {
 	name     string
 	from, to runtime.Quantity
 	n        int
+	log      bool // geometric spacing (sweep_log)
 }
 
 // at is the axis's i-th value: (1−s)·from + s·to stays finite for finite
 // ends (to − from may not).
 func (a sweepAxis) at(i int) runtime.Quantity {
 	s := float64(i) / float64(a.n-1)
+	if a.log {
+		// from·(to/from)^s, exact at both ends
+		v := a.from.V * math.Pow(a.to.V/a.from.V, s)
+		if i == a.n-1 {
+			v = a.to.V
+		}
+		return runtime.Quantity{V: v, D: a.from.D, Cyc: a.from.Cyc && a.to.Cyc}
+	}
 	return runtime.Quantity{V: (1-s)*a.from.V + s*a.to.V, D: a.from.D, Cyc: a.from.Cyc && a.to.Cyc}
 }
 
@@ -268,6 +289,24 @@ func sweepBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	if err != nil {
 		return nil, err
 	}
+	return gridSweep(env, fn, f, []sweepAxis{x})
+}
+
+func sweepLogBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "sweep_log"
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	names := paramNames(f, "x")
+	x, err := readAxis(fn, args, 1, names[0], "", maxSweep)
+	if err != nil {
+		return nil, err
+	}
+	if !(x.from.V > 0 && x.to.V > 0) {
+		return nil, errorf("%s: from and to must both be above zero for evenly spaced logarithms, not %s and %s", fn, runtime.Format(x.from, 6), runtime.Format(x.to, 6))
+	}
+	x.log = true
 	return gridSweep(env, fn, f, []sweepAxis{x})
 }
 
@@ -356,6 +395,9 @@ func gridSweep(env runtime.Env, fn string, f *runtime.Func, axes []sweepAxis) (r
 			case runtime.Vector:
 				tab.Cols = append(tab.Cols, f.Name+".x", f.Name+".y", f.Name+".z", "|"+f.Name+"|")
 				tab.Dims = append(tab.Dims, r.D, r.D, r.D, r.D)
+			case runtime.Complex:
+				tab.Cols = append(tab.Cols, "re "+f.Name, "im "+f.Name, "|"+f.Name+"|", "arg "+f.Name)
+				tab.Dims = append(tab.Dims, r.D, r.D, r.D, dimAngle)
 			default:
 				return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
 			}
@@ -377,6 +419,15 @@ func gridSweep(env runtime.Env, fn string, f *runtime.Func, axes []sweepAxis) (r
 			}
 			c := runtime.CleanComponents(r.V)
 			row = append(row, c[0], c[1], c[2], r.Norm().V)
+		case runtime.Complex:
+			if r.D != tab.Dims[len(axes)] || out != 4 {
+				return nil, errorf("%s: %s changed its unit during the sweep", fn, f.Signature())
+			}
+			ph := 0.0
+			if r.V != 0 {
+				ph = cmplx.Phase(r.V)
+			}
+			row = append(row, real(r.V), imag(r.V), cmplx.Abs(r.V), ph)
 		default:
 			return nil, errorf("%s: %s must return a quantity or a vector, not %s", fn, f.Signature(), runtime.TypeName(v))
 		}
@@ -402,6 +453,10 @@ func finiteRow(fn string, f *runtime.Func, axes []sweepAxis, in []runtime.Value,
 			if math.IsNaN(c) || math.IsInf(c, 0) {
 				bad = runtime.FormatNumber(c, 6)
 			}
+		}
+	case runtime.Complex:
+		if cmplx.IsNaN(r.V) || cmplx.IsInf(r.V) {
+			bad = "a number that is not finite"
 		}
 	}
 	if bad == "" {
