@@ -289,7 +289,7 @@ func polarShort(z runtime.Complex, digits int) string {
 	if cmplx.Abs(z.V) == 0 {
 		return m
 	}
-	return m + " ∠ " + runtime.FormatNumber(cmplx.Phase(z.V)*180/math.Pi, min(digits, 6)) + "°"
+	return m + " ∠ " + runtime.FormatNumber(runtime.RoundAngle(cmplx.Phase(z.V)*180/math.Pi, digits), digits) + "°"
 }
 
 // Tabulate implements runtime.Tabular: one row per element, in the order

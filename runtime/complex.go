@@ -262,7 +262,23 @@ func polarText(z Complex, unit string, digits int) (string, error) {
 		}
 		m = t
 	}
-	return "polar(" + m + ", " + FormatNumber(ang, digits) + " deg)", nil
+	return "polar(" + m + ", " + FormatNumber(RoundAngle(ang, digits), digits) + " deg)", nil
+}
+
+// RoundAngle rounds an angle in degrees (|a| ≤ 180) at the place of the
+// digits-th significant digit of 100°, so that rounding noise in a phase
+// near 0 (1e-12°, from a solver's last bits) shows as 0 rather than as a
+// number of full precision.
+func RoundAngle(a float64, digits int) float64 {
+	q := math.Pow10(3 - digits)
+	r := math.Round(a/q) * q
+	switch {
+	case r == 0:
+		return 0 // no "-0"
+	case r <= -180:
+		return 180 // the angle range is (-180°, 180°]
+	}
+	return r
 }
 
 // splitPolar separates a trailing word "polar" from an "as" unit text:
