@@ -136,7 +136,7 @@ func fieldMapFunc(names *plotNamer) *runtime.Func {
 func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (runtime.Value, error) {
 	const fn = "field_map"
 	args, file := fileArg(args)
-	arrows, logColor := false, false
+	arrows, lines, logColor := false, false, false
 	for len(args) > 0 {
 		opt, ok := args[len(args)-1].(string)
 		if !ok {
@@ -145,10 +145,12 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 		switch opt {
 		case "arrows":
 			arrows = true
+		case "lines":
+			lines = true
 		case "log":
 			logColor = true
 		default:
-			return nil, errorf("%s: unknown option %q; the options are \"arrows\", \"log\" and a file name ending in .svg or .png", fn, opt)
+			return nil, errorf("%s: unknown option %q; the options are \"arrows\", \"lines\", \"log\" and a file name ending in .svg or .png", fn, opt)
 		}
 		args = args[:len(args)-1]
 	}
@@ -191,6 +193,8 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 		V:        draw.Column{Name: "v", Unit: "m", Units: bestUnits(dimLength)},
 		Mag:      draw.Column{Name: mag, Unit: unit, Units: bestUnits(f.dim)},
 		LogColor: logColor,
+		Arrows:   arrows,
+		Lines:    lines,
 	}
 	// a side along a coordinate axis is labelled and numbered by it
 	u0, v0 := 0.0, 0.0
@@ -207,17 +211,18 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 		m.V.Values = append(m.V.Values, v0+l2*float64(j)/float64(n2-1))
 	}
 	p := &Plot{pic: m, cols: []string{m.U.Name, m.V.Name, mag}, dims: []runtime.Dim{dimLength, dimLength, f.dim}}
-	if arrows {
+	inPlane := arrows || lines
+	if inPlane {
 		p.cols = append(p.cols, sym+"u", sym+"v")
 		p.dims = append(p.dims, f.dim, f.dim)
 	}
 	for _, row := range tab.Rows { // u, v, x, y, z, Fx, Fy, Fz, |F|
 		m.Mag.Values = append(m.Mag.Values, row[8])
 		rec := []float64{u0 + row[0], v0 + row[1], row[8]}
-		if arrows {
+		if inPlane {
 			fv := em.Vec{X: row[5], Y: row[6], Z: row[7]}
 			fu, fw := r3.Dot(fv, e1), r3.Dot(fv, e2)
-			m.ArrowU, m.ArrowV = append(m.ArrowU, fu), append(m.ArrowV, fw)
+			m.FieldU, m.FieldV = append(m.FieldU, fu), append(m.FieldV, fw)
 			rec = append(rec, fu, fw)
 		}
 		p.rows = append(p.rows, rec)
@@ -233,6 +238,9 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 	}
 	if arrows {
 		p.what += ", arrows"
+	}
+	if lines {
+		p.what += ", field lines"
 	}
 	m.Title = mag + " in the plane"
 	return writePlot(env, names, fn, file, p)

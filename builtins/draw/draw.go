@@ -66,12 +66,30 @@ func (l *Line) render(c canvas) ([]byte, error) {
 	return writeOut(c)
 }
 
+// writeOut writes the canvas. An SVG canvas of gonum.org/v1/plot v0.17.0
+// writes an embedded image (a large map's cells) as <image> with the
+// default preserveAspectRatio, under which a viewer keeps the image's own
+// proportions and shrinks it inside its rectangle; and it labels the PNG
+// data "data:image/jpg". Both are corrected here: the image fills its
+// rectangle exactly, its pixels are drawn as squares where the viewer
+// supports it (image-rendering: pixelated), and the data are labelled
+// PNG so that viewers that trust the label show it.
+//
+// SVG text names its font (font-family in each <text>'s style) and does
+// not embed it: gonum's vgsvg embeds fonts only when asked (EmbedFonts),
+// and each embedded face would add hundreds of kB to every plot. A viewer
+// without the named font draws the text in a font of its own.
 func writeOut(c canvas) ([]byte, error) {
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	return b.Bytes(), nil
+	out := b.Bytes()
+	if _, ok := c.(*vgsvg.Canvas); ok {
+		out = bytes.ReplaceAll(out, []byte(`xlink:href="data:image/jpg;base64,`), []byte(`xlink:href="data:image/png;base64,`))
+		out = bytes.ReplaceAll(out, []byte("<image x="), []byte(`<image preserveAspectRatio="none" style="image-rendering:pixelated" x=`))
+	}
+	return out, nil
 }
 
 // seriesColors holds the series colours: distinct in hue and lightness, so they
