@@ -277,9 +277,9 @@ func (t *tracer) toEdge(x, y, ex, ey float64) (float64, float64) {
 }
 
 // half traces from the seed in one direction (sign +1 along the field,
-// −1 against it); the points after the seed, with their arc lengths.
-func (t *tracer) half(x, y, sign float64, line int) [][2]float64 {
-	var out [][2]float64
+// −1 against it): the points after the seed, and whether the line closed
+// onto itself.
+func (t *tracer) half(x, y, sign float64, line int) (out [][2]float64, closed bool) {
 	h := t.h
 	s := 0.0
 	for step := 0; step < t.maxSteps && t.points < maxLinePoints; step++ {
@@ -316,6 +316,7 @@ func (t *tracer) half(x, y, sign float64, line int) [][2]float64 {
 			if m.line == line { // closes onto itself
 				out = append(out, [2]float64{m.x, m.y})
 				t.points++
+				closed = true
 			}
 			break
 		}
@@ -324,15 +325,18 @@ func (t *tracer) half(x, y, sign float64, line int) [][2]float64 {
 		t.points++
 		t.add(mark{x: x, y: y, line: line, s: sign * s})
 	}
-	return out
+	return out, closed
 }
 
 // trace draws one line from a seed; false if it is too short to keep.
 func (t *tracer) trace(x, y float64) bool {
 	line := len(t.lines)
 	t.add(mark{x: x, y: y, line: line})
-	fwd := t.half(x, y, 1, line)
-	back := t.half(x, y, -1, line)
+	fwd, closed := t.half(x, y, 1, line)
+	var back [][2]float64
+	if !closed { // a closed line needs no second half
+		back, _ = t.half(x, y, -1, line)
+	}
 	pts := make([][2]float64, 0, len(fwd)+len(back)+1)
 	for i := len(back) - 1; i >= 0; i-- {
 		pts = append(pts, back[i])
