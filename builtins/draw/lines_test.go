@@ -132,7 +132,7 @@ func TestLineCircleExact(t *testing.T) {
 // the bilinear interpolation. Each component of (−v, u)/r² is harmonic
 // with second derivatives of at most 2/r³, so bilinear interpolation on
 // cells of side c errs by at most c²/(2 r³) per component (the linear
-// interpolation bound c²/8·max|f”| in each direction), which turns the
+// interpolation bound c²/8 times the largest second derivative in each direction), which turns the
 // direction by at most ε = c²/(√2 r²) at distance r from the wire; over a
 // turn of 2πR the radius drifts by at most 2πR ε, with r no nearer than
 // R − c√2 − that drift. The integrator's own error (TestLineCircleExact)
