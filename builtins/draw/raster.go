@@ -10,9 +10,9 @@ import (
 )
 
 // RasterCells is the largest map whose colour cells an SVG draws as
-// vector rectangles: each rectangle is one <path> of about 150 bytes, so
-// a map of 1600 cells (40 × 40) already takes some 250 kB and a 100 × 100
-// map 1.5 MB, which a report then inlines. Above it the cells are one
+// vector rectangles: each rectangle is one <path> of about 90 bytes, so
+// a map of 1600 cells (40 × 40) takes some 165 kB and a 100 × 100 map
+// 0.9 MB, which a report then inlines. Above it the cells are one
 // embedded PNG image, whose size grows with the number of distinct rows
 // rather than with every cell. Small maps stay vector shapes, which every
 // SVG viewer scales sharply.
