@@ -184,6 +184,7 @@ type tracer struct {
 	lines          [][][2]float64
 	points         int
 	maxSteps       int
+	touched        []int // the spacing cells the current line has marked
 }
 
 // mark is a traced point in the spacing grid: its line and its arc
@@ -214,7 +215,9 @@ func (t *tracer) cellOf(x, y float64) (int, int) {
 
 func (t *tracer) add(m mark) {
 	cx, cy := t.cellOf(m.x, m.y)
-	t.cells[cy*t.nx+cx] = append(t.cells[cy*t.nx+cx], m)
+	k := cy*t.nx + cx
+	t.cells[k] = append(t.cells[k], m)
+	t.touched = append(t.touched, k)
 }
 
 // near returns a point closer than r to (x, y) that belongs to another
@@ -331,6 +334,7 @@ func (t *tracer) half(x, y, sign float64, line int) (out [][2]float64, closed bo
 // trace draws one line from a seed; false if it is too short to keep.
 func (t *tracer) trace(x, y float64) bool {
 	line := len(t.lines)
+	t.touched = t.touched[:0]
 	t.add(mark{x: x, y: y, line: line})
 	fwd, closed := t.half(x, y, 1, line)
 	var back [][2]float64
@@ -357,7 +361,8 @@ func (t *tracer) trace(x, y float64) bool {
 
 // forget removes a dropped line's points from the spacing grid.
 func (t *tracer) forget(line int) {
-	for k, c := range t.cells {
+	for _, k := range t.touched {
+		c := t.cells[k]
 		kept := c[:0]
 		for _, m := range c {
 			if m.line != line {
