@@ -242,3 +242,40 @@ func TestPlotTitle(t *testing.T) {
 		}
 	}
 }
+
+// TestFieldMapLines: "lines" records the in-plane components as "arrows"
+// does, says so in the summary, and draws the lines (in their own
+// colour) without the arrows; a loop seen edge-on on the plane y = 0 has
+// no By (its symmetry), so Bu² + Bv² = |B|² to rounding.
+func TestFieldMapLines(t *testing.T) {
+	dir := t.TempDir()
+	s := runtime.NewSession(builtins.Standard())
+	s.OutDir = dir
+	eval(t, s, "loop = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)")
+	res, err := s.Eval(lang.Pos{Line: 1, Col: 1}, `field_map(b_field(loop), [-60, 0, -60] mm, [120, 0, 0] mm, [0, 0, 120] mm, 24, 24, "lines", "lines.svg")`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(res.Text, "lines.svg: |B| on 24 × 24 points, field lines") {
+		t.Errorf("summary %q", res.Text)
+	}
+	cols, _, rows := res.Value.(runtime.Tabular).Tabulate()
+	if strings.Join(cols, " ") != "x z |B| Bu Bv" || len(rows) != 24*24 {
+		t.Fatalf("columns %q, %d rows", cols, len(rows))
+	}
+	for _, r := range rows {
+		if d := r[2]*r[2] - (r[3]*r[3] + r[4]*r[4]); d > 1e-12*r[2]*r[2] || d < -1e-12*r[2]*r[2] {
+			t.Errorf("row %v: |B|² − Bu² − Bv² = %g", r, d)
+		}
+	}
+	svg, err := os.ReadFile(filepath.Join(dir, "lines.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(string(svg), "stroke:#6FE08C"); n < 10 {
+		t.Errorf("%d field lines drawn", n)
+	}
+	if strings.Contains(string(svg), "stroke:#1FB4E8;stroke-width:0.8") {
+		t.Error("arrows drawn without \"arrows\"")
+	}
+}

@@ -131,12 +131,13 @@ func TestLineCircleExact(t *testing.T) {
 // TestLineCircleGrid: the wire's field sampled on a grid, traced through
 // the bilinear interpolation. Each component of (−v, u)/r² is harmonic
 // with second derivatives of at most 2/r³, so bilinear interpolation on
-// cells of side c errs by at most c²/(2 r³) per component (the linear
-// interpolation bound c²/8 times the largest second derivative in each direction), which turns the
-// direction by at most ε = c²/(√2 r²) at distance r from the wire; over a
-// turn of 2πR the radius drifts by at most 2πR ε, with r no nearer than
-// R − c√2 − that drift. The integrator's own error (TestLineCircleExact)
-// is far smaller.
+// cells of side c errs by at most c²/(2 r³) per component (the bound of
+// linear interpolation, c²/8 times the largest second derivative, in
+// each direction), which turns the direction by at most ε = c²/(√2 r²)
+// at distance r from the wire; over a turn of 2πR the radius drifts by at
+// most 2πR ε, with r no nearer than R − c√2 − that drift. The
+// integrator's own error (TestLineCircleExact) is far smaller. The bound
+// is loose: the errors largely cancel over a turn.
 func TestLineCircleGrid(t *testing.T) {
 	const half, n = 0.05, 41
 	u, v, fu, fv := wireOnGrid(n, half)
