@@ -6,12 +6,16 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"loopwise/builtins/draw"
 	"loopwise/builtins/em"
+	"loopwise/lang"
 	"loopwise/runtime"
 )
 
@@ -75,7 +79,7 @@ func plotFuncs() []*runtime.Func {
 				return plotTableBuiltin(env, names, "plot", "", 0, args)
 			},
 			Help: &runtime.Help{
-				Signature: `plot(table, x: column name, y: column name[, more y columns…][, file: "NAME.svg" or "NAME.png"]) -> plot`,
+				Signature: `plot(table, x: column name, y: column name[, more y columns…][, file: "NAME.svg" or "NAME.png"][, "title: TEXT"]) -> plot`,
 				Summary:   `Draws columns y (one or several, of one unit) of a table against its column x, and writes the picture to the output directory (plot-1.svg, plot-2.svg… unless a file is named). The plot is a value: a script records and checks its data, not the picture.`,
 				Method:    "straight lines between the table's rows; each axis in the SI prefix that puts its largest magnitude between 1 and 1000",
 				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d)\nplot(sweep(k, 1 mm, 20 mm, 5), \"d\", \"k\")",
@@ -93,7 +97,7 @@ func plotFuncs() []*runtime.Func {
 				return plotTableBuiltin(env, names, "plot_log", axes, 0, rest)
 			},
 			Help: &runtime.Help{
-				Signature: `plot_log(table, axes: "x", "y" or "xy", x: column name, y: column name[, more y columns…][, file]) -> plot`,
+				Signature: `plot_log(table, axes: "x", "y" or "xy", x: column name, y: column name[, more y columns…][, file][, "title: TEXT"]) -> plot`,
 				Summary:   "plot with logarithmic axes: every value on a log axis must be above zero.",
 				Method:    "as plot; ticks at powers of ten (and at 2× and 5× within less than two decades)",
 				Example:   "f(d) = maxwell_mutual(20 mm, 15 mm, d)\nplot_log(sweep(f, 1 mm, 100 mm, 12), \"y\", \"d\", \"f\")",
@@ -101,12 +105,12 @@ func plotFuncs() []*runtime.Func {
 			},
 		},
 		{
-			Name: "plot_fn", Params: []string{"f", "from", "to", "n", "file"}, MinArgs: 3, MaxArgs: 5,
+			Name: "plot_fn", Params: []string{"f", "from", "to", "n", "file", "title"}, MinArgs: 3, MaxArgs: 6,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 				return plotFnBuiltin(env, names, args)
 			},
 			Help: &runtime.Help{
-				Signature: `plot_fn(f: function of one quantity, from, to: unit of f's argument[, n: whole number (default 51)][, file]) -> plot`,
+				Signature: `plot_fn(f: function of one quantity, from, to: unit of f's argument[, n: whole number (default 51)][, file][, "title: TEXT"]) -> plot`,
 				Summary:   "Draws f from from to to at n evenly spaced points (a quantity result as one line, a vector as its x, y, z components and norm).",
 				Method:    "sweep(f, from, to, n), then plot; the work is that of the sweep",
 				Example:   "V(t) = 2 V * sin(2*pi*50 Hz * t)\nplot_fn(V, 0 ms, 20 ms)",
@@ -123,11 +127,11 @@ func fieldMapFunc(names *plotNamer) *runtime.Func {
 			return fieldMapBuiltin(env, names, args)
 		},
 		Help: &runtime.Help{
-			Signature: `field_map(field, origin: position [m], side1, side2: perpendicular vectors [m], n1, n2: whole numbers[, t: s][, "arrows"][, "log"][, file]) -> plot`,
-			Summary:   `A field's magnitude on an n1 × n2 grid over the rectangle origin + u·side1 + v·side2, drawn as colour with a colour bar; "arrows" adds the direction of the field's part in the plane at every point, "log" colours by the logarithm (a field falling off from a wire spans decades). The paths of the field's source are drawn on top, projected onto the plane.`,
-			Method:    "sample_plane on the grid (its work and limits), then a heat map; the recorded data are the grid's coordinates (x, y or z for a side along that axis, else u and v from origin), the magnitude, and with arrows the in-plane components",
-			Example:   "field_map(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, \"arrows\")",
-			Reference: refPlots,
+			Signature: `field_map(field, origin: position [m], side1, side2: perpendicular vectors [m], n1, n2: whole numbers[, t: s][, "arrows"][, "lines"][, "log"][, file][, "title: TEXT"]) -> plot`,
+			Summary:   `A field's magnitude on an n1 × n2 grid over the rectangle origin + u·side1 + v·side2, drawn as colour with a colour bar; "arrows" adds the direction of the field's part in the plane at every point, "lines" draws evenly spaced field lines of that part with an arrowhead along the field, "log" colours by the logarithm (a field falling off from a wire spans decades). The paths of the field's source are drawn on top, projected onto the plane. The title is "|B| in the plane" unless "title: TEXT" sets it ("title:" alone leaves none). Over 1600 cells an SVG holds the colour cells as one embedded image.`,
+			Method:    "sample_plane on the grid (its work and limits), then a heat map; the recorded data are the grid's coordinates (x, y or z for a side along that axis, else u and v from origin), the magnitude, and with arrows or lines the in-plane components. Field lines are traced on the recorded grid: bilinear interpolation of the in-plane components, fourth-order Runge–Kutta along the field's direction with a step of a fifth of a cell, stopping at the rectangle's edge, at a null and near another line; spaced after Jobard and Lefer (1997), 24 spacings across the longer side. Lines follow the grid's field: features smaller than a cell (the field near a wire) are not resolved",
+			Example:   "field_map(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, \"arrows\", \"title: one loop, 2 A\")",
+			Reference: refPlots + "; field lines spaced after B. Jobard and W. Lefer, \"Creating evenly-spaced streamlines of arbitrary density\", Visualization in Scientific Computing '97 (1997)",
 		},
 	}
 }
@@ -135,23 +139,12 @@ func fieldMapFunc(names *plotNamer) *runtime.Func {
 // fieldMapBuiltin samples a field on a rectangle and draws it as a map.
 func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (runtime.Value, error) {
 	const fn = "field_map"
-	args, file := fileArg(args)
-	arrows, logColor := false, false
-	for len(args) > 0 {
-		opt, ok := args[len(args)-1].(string)
-		if !ok {
-			break
-		}
-		switch opt {
-		case "arrows":
-			arrows = true
-		case "log":
-			logColor = true
-		default:
-			return nil, errorf("%s: unknown option %q; the options are \"arrows\", \"log\" and a file name ending in .svg or .png", fn, opt)
-		}
-		args = args[:len(args)-1]
+	args, opts, err := plotOptions(fn, args, "arrows", "lines", "log")
+	if err != nil {
+		return nil, err
 	}
+	file := opts.file
+	arrows, lines, logColor := opts.flags["arrows"], opts.flags["lines"], opts.flags["log"]
 	if len(args) < 6 || len(args) > 7 {
 		return nil, errorf("%s takes a field, origin, side1, side2, n1, n2[, t], then options; got %d arguments before the options", fn, len(args))
 	}
@@ -191,6 +184,8 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 		V:        draw.Column{Name: "v", Unit: "m", Units: bestUnits(dimLength)},
 		Mag:      draw.Column{Name: mag, Unit: unit, Units: bestUnits(f.dim)},
 		LogColor: logColor,
+		Arrows:   arrows,
+		Lines:    lines,
 	}
 	// a side along a coordinate axis is labelled and numbered by it
 	u0, v0 := 0.0, 0.0
@@ -207,17 +202,18 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 		m.V.Values = append(m.V.Values, v0+l2*float64(j)/float64(n2-1))
 	}
 	p := &Plot{pic: m, cols: []string{m.U.Name, m.V.Name, mag}, dims: []runtime.Dim{dimLength, dimLength, f.dim}}
-	if arrows {
+	inPlane := arrows || lines
+	if inPlane {
 		p.cols = append(p.cols, sym+"u", sym+"v")
 		p.dims = append(p.dims, f.dim, f.dim)
 	}
 	for _, row := range tab.Rows { // u, v, x, y, z, Fx, Fy, Fz, |F|
 		m.Mag.Values = append(m.Mag.Values, row[8])
 		rec := []float64{u0 + row[0], v0 + row[1], row[8]}
-		if arrows {
+		if inPlane {
 			fv := em.Vec{X: row[5], Y: row[6], Z: row[7]}
 			fu, fw := r3.Dot(fv, e1), r3.Dot(fv, e2)
-			m.ArrowU, m.ArrowV = append(m.ArrowU, fu), append(m.ArrowV, fw)
+			m.FieldU, m.FieldV = append(m.FieldU, fu), append(m.FieldV, fw)
 			rec = append(rec, fu, fw)
 		}
 		p.rows = append(p.rows, rec)
@@ -234,7 +230,13 @@ func fieldMapBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (r
 	if arrows {
 		p.what += ", arrows"
 	}
+	if lines {
+		p.what += ", field lines"
+	}
 	m.Title = mag + " in the plane"
+	if opts.titled {
+		m.Title = opts.title
+	}
 	return writePlot(env, names, fn, file, p)
 }
 
@@ -285,24 +287,70 @@ func describeArg(v runtime.Value) string {
 	return runtime.TypeName(v)
 }
 
-// fileArg splits off a last text argument naming the file (ending in .svg
-// or .png).
-func fileArg(args []runtime.Value) ([]runtime.Value, string) {
-	if len(args) > 0 {
-		if s, ok := args[len(args)-1].(string); ok {
-			ext := strings.ToLower(filepath.Ext(s))
-			if ext == ".svg" || ext == ".png" {
-				return args[:len(args)-1], s
-			}
+// plotOpts are the text options that end a plot's arguments.
+type plotOpts struct {
+	file   string // a file name ending in .svg or .png
+	title  string // the text of "title: TEXT"
+	titled bool   // whether "title: …" was given ("title:" alone: no title)
+	flags  map[string]bool
+}
+
+// maxTitle is the longest title accepted, in characters: about what fits
+// across the 16 cm page at the title's 12 pt (common practice: half an em
+// a character).
+const maxTitle = 80
+
+// plotOptions splits off the trailing text options of a plot builtin, in
+// any order: a file name ending in .svg or .png, "title: TEXT", and the
+// builtin's own flags. Without flags, the first other text ends the
+// options (it is a column name); with flags, it is an unknown option.
+func plotOptions(fn string, args []runtime.Value, flags ...string) ([]runtime.Value, plotOpts, error) {
+	o := plotOpts{flags: map[string]bool{}}
+	for len(args) > 0 {
+		s, ok := args[len(args)-1].(string)
+		if !ok {
+			break
 		}
+		ext := strings.ToLower(filepath.Ext(s))
+		switch {
+		case strings.HasPrefix(s, "title:"):
+			if o.titled {
+				return nil, o, errorf("%s: the title is given twice", fn)
+			}
+			text := strings.TrimSpace(strings.TrimPrefix(s, "title:"))
+			if n := utf8.RuneCountInString(text); n > maxTitle {
+				return nil, o, errorf("%s: the title has %d characters; at most %d fit across the picture", fn, n, maxTitle)
+			}
+			for _, r := range text {
+				if unicode.IsControl(r) {
+					return nil, o, errorf("%s: the title must be one line of text without control characters", fn)
+				}
+			}
+			o.title, o.titled = text, true
+		case ext == ".svg" || ext == ".png":
+			if o.file != "" {
+				return nil, o, errorf("%s: two file names, %q and %q; give one", fn, lang.Abbrev(s, 40), lang.Abbrev(o.file, 40))
+			}
+			o.file = s
+		case slices.Contains(flags, s):
+			o.flags[s] = true
+		case len(flags) > 0:
+			return nil, o, errorf("%s: unknown option %q; the options are %s, \"title: TEXT\" and a file name ending in .svg or .png", fn, lang.Abbrev(s, 40), quoteAll(flags))
+		default:
+			return args, o, nil
+		}
+		args = args[:len(args)-1]
 	}
-	return args, ""
+	return args, o, nil
 }
 
 // plotTableBuiltin draws a table; off counts the arguments before the
 // table (for messages).
 func plotTableBuiltin(env runtime.Env, names *plotNamer, fn, logAxes string, off int, args []runtime.Value) (runtime.Value, error) {
-	args, file := fileArg(args)
+	args, opts, err := plotOptions(fn, args)
+	if err != nil {
+		return nil, err
+	}
 	if len(args) < 3 {
 		return nil, errorf("%s: give a table, the x column and at least one y column", fn)
 	}
@@ -340,7 +388,7 @@ func plotTableBuiltin(env runtime.Env, names *plotNamer, fn, logAxes string, off
 			cyc[j] = c
 		}
 	}
-	return makePlot(env, names, fn, file, logAxes, cols, dims, cyc, rows, pick)
+	return makePlot(env, names, fn, opts, logAxes, cols, dims, cyc, rows, pick)
 }
 
 func quoteAll(cols []string) string {
@@ -353,9 +401,12 @@ func quoteAll(cols []string) string {
 
 func plotFnBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (runtime.Value, error) {
 	const fn = "plot_fn"
-	args, file := fileArg(args)
+	args, opts, err := plotOptions(fn, args)
+	if err != nil {
+		return nil, err
+	}
 	if len(args) < 3 || len(args) > 4 {
-		return nil, errorf("%s takes a function, from, to[, n][, file]; got %d arguments", fn, len(args))
+		return nil, errorf("%s takes a function, from, to[, n][, file][, \"title: TEXT\"]; got %d arguments before the file and title", fn, len(args))
 	}
 	if len(args) == 3 {
 		args = append(args, runtime.Num(51))
@@ -376,15 +427,15 @@ func plotFnBuiltin(env runtime.Env, names *plotNamer, args []runtime.Value) (run
 	for j, c := range tab.Cyc {
 		cyc[j] = c
 	}
-	return makePlot(env, names, fn, file, "", tab.Cols, tab.Dims, cyc, tab.Rows, pick)
+	return makePlot(env, names, fn, opts, "", tab.Cols, tab.Dims, cyc, tab.Rows, pick)
 }
 
 // makePlot draws columns pick (x first) of rows and writes the file.
-func makePlot(env runtime.Env, names *plotNamer, fn, file, logAxes string, cols []string, dims []runtime.Dim, cyc map[int]bool, rows [][]float64, pick []int) (*Plot, error) {
+func makePlot(env runtime.Env, names *plotNamer, fn string, opts plotOpts, logAxes string, cols []string, dims []runtime.Dim, cyc map[int]bool, rows [][]float64, pick []int) (*Plot, error) {
 	if len(rows) < 2 {
 		return nil, errorf("%s: the table has %d rows; a line needs at least two", fn, len(rows))
 	}
-	line := &draw.Line{LogX: strings.Contains(logAxes, "x"), LogY: strings.Contains(logAxes, "y")}
+	line := &draw.Line{LogX: strings.Contains(logAxes, "x"), LogY: strings.Contains(logAxes, "y"), Title: opts.title}
 	p := &Plot{pic: line}
 	column := func(j int) draw.Column {
 		c := draw.Column{Name: cols[j], Unit: runtime.DisplayUnitOf(dims[j]), Values: make([]float64, len(rows))}
@@ -427,7 +478,7 @@ func makePlot(env runtime.Env, names *plotNamer, fn, file, logAxes string, cols 
 			p.rows[i][k] = r[j]
 		}
 	}
-	return writePlot(env, names, fn, file, p)
+	return writePlot(env, names, fn, opts.file, p)
 }
 
 // writePlot draws p and writes it to file in the output directory (a

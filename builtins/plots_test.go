@@ -188,3 +188,94 @@ func TestFieldMap(t *testing.T) {
 		}
 	}
 }
+
+// TestPlotTitle: "title: TEXT" sets the title of every kind of plot, in
+// either order with the file name; "title:" alone leaves a map without its
+// default title; the text is escaped in the SVG; a second title, a title
+// too long for the page and a control character are refused.
+func TestPlotTitle(t *testing.T) {
+	dir := t.TempDir()
+	s := runtime.NewSession(builtins.Standard())
+	s.OutDir = dir
+	eval(t, s, "k(d) = maxwell_mutual(20 mm, 15 mm, d)")
+	eval(t, s, "u = sweep(k, 1 mm, 20 mm, 4)")
+	eval(t, s, "loop = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)")
+	read := func(name string) string {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(b)
+	}
+	for _, c := range []struct{ stmt, file, want, not string }{
+		{`plot(u, "d", "k", "title: Coupling & gap", "a.svg")`, "a.svg", ">Coupling &amp; gap</text>", ""},
+		{`plot(u, "d", "k", "b.svg", "title:  Coupling <two loops> ")`, "b.svg", ">Coupling &lt;two loops&gt;</text>", ""},
+		{`plot_log(u, "y", "d", "k", "title: log", "c.svg")`, "c.svg", ">log</text>", ""},
+		{`plot_fn(k, 1 mm, 5 mm, 3, "title: from a function", "d.svg")`, "d.svg", ">from a function</text>", ""},
+		{`field_map(b_field(loop), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, "title: Loop, 2 A", "e.svg")`, "e.svg", ">Loop, 2 A</text>", "in the plane"},
+		{`field_map(b_field(loop), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, "f.svg")`, "f.svg", ">|B| in the plane</text>", ""},
+		{`field_map(b_field(loop), [-50, 0, -50] mm, [100, 0, 0] mm, [0, 0, 100] mm, 4, 4, "title:", "log", "g.svg")`, "g.svg", "|B| [µT]", "in the plane"},
+		{`plot(u, "d", "k", "h.svg")`, "h.svg", "k [nH]", "Coupling"},
+	} {
+		if _, err := s.Eval(lang.Pos{Line: 1, Col: 1}, c.stmt); err != nil {
+			t.Errorf("%s: %v", c.stmt, err)
+			continue
+		}
+		svg := read(c.file)
+		if !strings.Contains(svg, c.want) {
+			t.Errorf("%s: the SVG lacks %q", c.stmt, c.want)
+		}
+		if c.not != "" && strings.Contains(svg, c.not) {
+			t.Errorf("%s: the SVG holds %q", c.stmt, c.not)
+		}
+	}
+	for _, c := range []struct{ stmt, msg string }{
+		{`plot(u, "d", "k", "title: a", "title: b")`, "plot: the title is given twice"},
+		{`plot(u, "d", "k", "title: ` + strings.Repeat("x", 81) + `")`, "plot: the title has 81 characters; at most 80 fit across the picture"},
+		{`plot(u, "d", "k", "title: a\tb")`, "plot: the title must be one line of text without control characters"},
+		{`plot(u, "d", "k", "a.svg", "b.svg")`, `plot: two file names, "a.svg" and "b.svg"; give one`},
+		{`field_map(b_field(loop), [0, 0, 0] mm, [1, 0, 0] mm, [0, 0, 1] mm, 3, 3, "title: x", "dots")`, `field_map: unknown option "dots"; the options are "arrows", "lines", "log", "title: TEXT" and a file name ending in .svg or .png`},
+	} {
+		_, err := s.Eval(lang.Pos{Line: 1, Col: 1}, c.stmt)
+		if err == nil || !strings.Contains(err.Error(), c.msg) {
+			t.Errorf("%s: %v; want %q", c.stmt, err, c.msg)
+		}
+	}
+}
+
+// TestFieldMapLines: "lines" records the in-plane components as "arrows"
+// does, says so in the summary, and draws the lines (in their own
+// colour) without the arrows; a loop seen edge-on on the plane y = 0 has
+// no By (its symmetry), so Bu² + Bv² = |B|² to rounding.
+func TestFieldMapLines(t *testing.T) {
+	dir := t.TempDir()
+	s := runtime.NewSession(builtins.Standard())
+	s.OutDir = dir
+	eval(t, s, "loop = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 2 A)")
+	res, err := s.Eval(lang.Pos{Line: 1, Col: 1}, `field_map(b_field(loop), [-60, 0, -60] mm, [120, 0, 0] mm, [0, 0, 120] mm, 24, 24, "lines", "lines.svg")`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(res.Text, "lines.svg: |B| on 24 × 24 points, field lines") {
+		t.Errorf("summary %q", res.Text)
+	}
+	cols, _, rows := res.Value.(runtime.Tabular).Tabulate()
+	if strings.Join(cols, " ") != "x z |B| Bu Bv" || len(rows) != 24*24 {
+		t.Fatalf("columns %q, %d rows", cols, len(rows))
+	}
+	for _, r := range rows {
+		if d := r[2]*r[2] - (r[3]*r[3] + r[4]*r[4]); d > 1e-12*r[2]*r[2] || d < -1e-12*r[2]*r[2] {
+			t.Errorf("row %v: |B|² − Bu² − Bv² = %g", r, d)
+		}
+	}
+	svg, err := os.ReadFile(filepath.Join(dir, "lines.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(string(svg), "stroke:#6FE08C"); n < 10 {
+		t.Errorf("%d field lines drawn", n)
+	}
+	if strings.Contains(string(svg), "stroke:#1FB4E8;stroke-width:0.8") {
+		t.Error("arrows drawn without \"arrows\"")
+	}
+}

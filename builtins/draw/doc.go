@@ -14,13 +14,16 @@
 // # Plots
 //
 // Line draws one or several series of one unit against a column, on
-// linear or log axes. Map draws a quantity on a rectangular grid as colour
-// (linear or log) with a colour bar, optional direction arrows and
-// polylines on top.
+// linear or log axes, with a legend in the corner that hides the fewest
+// line segments. Map draws a quantity on a rectangular grid as colour
+// (linear or log) with a colour bar, optional direction arrows, optional
+// field lines traced on the grid (FieldLines, after Jobard and Lefer
+// 1997) and polylines on top.
 //
 // # Limits
 //
 // A log axis or log colour needs every value on it above zero. Output is
-// SVG or PNG; a map draws one shape per grid cell, so an SVG of a large
-// grid is large (a few hundred bytes per cell).
+// SVG or PNG. An SVG map of up to RasterCells cells draws one shape per
+// cell (about 90 bytes each); a larger one embeds its cells as one PNG
+// image. SVG text names its font and does not embed it.
 package draw

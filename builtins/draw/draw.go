@@ -58,20 +58,51 @@ type canvas interface {
 }
 
 func (l *Line) render(c canvas) ([]byte, error) {
-	p, err := l.plot()
+	dc := draw.New(c)
+	p, err := l.layout(dc)
 	if err != nil {
 		return nil, err
 	}
-	p.Draw(draw.New(c))
+	p.Draw(dc)
 	return writeOut(c)
 }
 
+// layout makes the plot for the drawing area dc, with its legend placed.
+func (l *Line) layout(dc draw.Canvas) (*plot.Plot, error) {
+	p, series, err := l.plot()
+	if err != nil {
+		return nil, err
+	}
+	if len(l.Ys) > 1 {
+		placeLegend(p, dc, series)
+	}
+	return p, nil
+}
+
+// writeOut writes the canvas. An SVG canvas of gonum.org/v1/plot v0.17.0
+// writes an embedded image (a large map's cells) as <image> with the
+// default preserveAspectRatio, under which a viewer keeps the image's own
+// proportions and shrinks it inside its rectangle; and it labels the PNG
+// data "data:image/jpg". Both are corrected here: the image fills its
+// rectangle exactly, its pixels are drawn as squares where the viewer
+// supports it (image-rendering: pixelated), and the data are labelled
+// PNG so that viewers that trust the label show it.
+//
+// SVG text names its font (font-family in each <text>'s style) and does
+// not embed it: gonum's vgsvg embeds fonts only when asked (EmbedFonts),
+// and each embedded face would add hundreds of kB to every plot. A viewer
+// without the named font draws the text in a font of its own.
 func writeOut(c canvas) ([]byte, error) {
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	return b.Bytes(), nil
+	out := b.Bytes()
+	if _, ok := c.(*vgsvg.Canvas); ok {
+		out = bytes.ReplaceAll(out, []byte(`xlink:href="data:image/jpg;base64,`), []byte(`xlink:href="data:image/png;base64,`))
+		out = bytes.ReplaceAll(out, []byte("<image x="), []byte(`<image preserveAspectRatio="none" style="image-rendering:pixelated" x=`))
+	}
+	return out, nil
 }
 
 // seriesColors holds the series colours: distinct in hue and lightness, so they
@@ -84,28 +115,29 @@ var seriesColors = []color.Color{
 	color.RGBA{R: 0x66, G: 0x66, B: 0x66, A: 0xff},
 }
 
-func (l *Line) plot() (*plot.Plot, error) {
+// plot makes the plot and gives the drawn series in the plot's units.
+func (l *Line) plot() (*plot.Plot, []plotter.XYs, error) {
 	if len(l.Ys) == 0 {
-		return nil, errors.New("nothing to draw: no series")
+		return nil, nil, errors.New("nothing to draw: no series")
 	}
 	n := len(l.X.Values)
 	if n < 2 {
-		return nil, errors.New("nothing to draw: a line needs at least two points")
+		return nil, nil, errors.New("nothing to draw: a line needs at least two points")
 	}
 	for _, y := range l.Ys {
 		if len(y.Values) != n {
-			return nil, fmt.Errorf("the series %s has %d values, the axis %s %d", y.Name, len(y.Values), l.X.Name, n)
+			return nil, nil, fmt.Errorf("the series %s has %d values, the axis %s %d", y.Name, len(y.Values), l.X.Name, n)
 		}
 		if y.Unit != l.Ys[0].Unit {
-			return nil, fmt.Errorf("the series %s [%s] and %s [%s] have different units; draw them on separate plots", l.Ys[0].Name, l.Ys[0].Unit, y.Name, y.Unit)
+			return nil, nil, fmt.Errorf("the series %s [%s] and %s [%s] have different units; draw them on separate plots", l.Ys[0].Name, l.Ys[0].Unit, y.Name, y.Unit)
 		}
 	}
 	if err := checkValues(l.X, l.LogX); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	for _, y := range l.Ys {
 		if err := checkValues(y, l.LogY); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
 	xUnit, xSize := Scale(l.X)
@@ -128,15 +160,17 @@ func (l *Line) plot() (*plot.Plot, error) {
 		p.Y.Tick.Marker = logTicks{}
 	}
 	p.Add(plotter.NewGrid())
+	var series []plotter.XYs
 	for i, y := range l.Ys {
 		xy := make(plotter.XYs, n)
 		for j := range xy {
 			xy[j].X = l.X.Values[j] / xSize
 			xy[j].Y = y.Values[j] / ySize
 		}
+		series = append(series, xy)
 		ln, err := plotter.NewLine(xy)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		ln.Color = seriesColors[i%len(seriesColors)]
 		ln.Width = vg.Points(1.5)
@@ -153,7 +187,7 @@ func (l *Line) plot() (*plot.Plot, error) {
 		pad := 0.04 * (p.Y.Max - p.Y.Min)
 		p.Y.Min, p.Y.Max = p.Y.Min-pad, p.Y.Max+pad
 	}
-	return p, nil
+	return p, series, nil
 }
 
 func checkValues(c Column, log bool) error {

@@ -20,14 +20,17 @@ import (
 // Map is a quantity on a rectangular grid drawn as colour, with a colour
 // bar beside it. U has the n1 grid positions along the first side, V the n2
 // along the second; Mag.Values holds n1·n2 values, U running fastest.
-// Optional arrows show a direction at every grid point (ArrowU, ArrowV: the
-// in-plane components, any common unit; only their direction is drawn), and
-// Paths are polylines in (u, v) drawn on top, in U's unit.
+// FieldU, FieldV are the in-plane components of the field at every grid
+// point (any common unit), needed by Arrows and Lines: Arrows draws the
+// direction at every grid point, Lines draws evenly spaced field lines
+// traced on the grid (see FieldLines). Paths are polylines in (u, v) drawn
+// on top, in U's unit.
 type Map struct {
 	Title          string
 	U, V           Column
 	Mag            Column
-	ArrowU, ArrowV []float64
+	FieldU, FieldV []float64
+	Arrows, Lines  bool
 	Paths          [][][2]float64
 	// LogColor colours by the logarithm of Mag (every value must be above
 	// zero): a field that falls off from a wire spans decades, and a
@@ -38,16 +41,17 @@ type Map struct {
 // barWidth is the width of the colour bar's column.
 const barWidth = 3 * vg.Centimeter
 
-// SVG draws m as an SVG document.
-func (m *Map) SVG() ([]byte, error) { return m.render(vgsvg.New(Width, Height)) }
+// SVG draws m as an SVG document. The colour cells of a map of more than
+// RasterCells cells are one embedded PNG image (see rasterCells).
+func (m *Map) SVG() ([]byte, error) { return m.render(vgsvg.New(Width, Height), true) }
 
 // PNG draws m as a PNG image at 144 dots per inch.
 func (m *Map) PNG() ([]byte, error) {
-	return m.render(vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(Width, Height), vgimg.UseDPI(144))})
+	return m.render(vgimg.PngCanvas{Canvas: vgimg.NewWith(vgimg.UseWH(Width, Height), vgimg.UseDPI(144))}, false)
 }
 
-func (m *Map) render(c canvas) ([]byte, error) {
-	main, bar, err := m.plots()
+func (m *Map) render(c canvas, svg bool) ([]byte, error) {
+	main, bar, err := m.plots(svg)
 	if err != nil {
 		return nil, err
 	}
@@ -76,7 +80,7 @@ func (g grid) Z(c, r int) float64 {
 func (g grid) X(c int) float64 { return g.u[c] / g.su }
 func (g grid) Y(r int) float64 { return g.v[r] / g.sv }
 
-func (m *Map) plots() (main, bar *plot.Plot, err error) {
+func (m *Map) plots(svg bool) (main, bar *plot.Plot, err error) {
 	n1, n2 := len(m.U.Values), len(m.V.Values)
 	if n1 < 2 || n2 < 2 {
 		return nil, nil, errors.New("a map needs at least 2 × 2 points")
@@ -84,16 +88,16 @@ func (m *Map) plots() (main, bar *plot.Plot, err error) {
 	if len(m.Mag.Values) != n1*n2 {
 		return nil, nil, fmt.Errorf("a map of %d × %d points needs %d values, not %d", n1, n2, n1*n2, len(m.Mag.Values))
 	}
-	if m.ArrowU != nil && (len(m.ArrowU) != n1*n2 || len(m.ArrowV) != n1*n2) {
-		return nil, nil, errors.New("the arrows do not match the grid")
+	if (m.Arrows || m.Lines) && (len(m.FieldU) != n1*n2 || len(m.FieldV) != n1*n2) {
+		return nil, nil, errors.New("the in-plane components do not match the grid")
 	}
 	for _, c := range []Column{m.U, m.V, m.Mag} {
 		if err := checkValues(c, m.LogColor && c.Name == m.Mag.Name); err != nil {
 			return nil, nil, err
 		}
 	}
-	for _, a := range [][]float64{m.ArrowU, m.ArrowV} {
-		if err := checkValues(Column{Name: "an arrow", Values: a}, false); err != nil {
+	for _, a := range [][]float64{m.FieldU, m.FieldV} {
+		if err := checkValues(Column{Name: "an in-plane component", Values: a}, false); err != nil {
 			return nil, nil, err
 		}
 	}
@@ -120,11 +124,29 @@ func (m *Map) plots() (main, bar *plot.Plot, err error) {
 	main.Title.Text = m.Title
 	main.X.Label.Text = Label([]string{m.U.Name}, lenUnit)
 	main.Y.Label.Text = Label([]string{m.V.Name}, lenUnit)
-	hm := plotter.NewHeatMap(g, cm.Palette(256))
-	hm.Min, hm.Max = lo, hi
-	main.Add(hm)
-	if m.ArrowU != nil {
-		main.Add(&arrows{g: g, du: m.ArrowU, dv: m.ArrowV})
+	pal := cm.Palette(256)
+	if svg && n1*n2 > RasterCells && uniform(m.U.Values) && uniform(m.V.Values) {
+		main.Add(rasterCells(g, pal, lo, hi))
+	} else {
+		hm := plotter.NewHeatMap(g, pal)
+		hm.Min, hm.Max = lo, hi
+		main.Add(hm)
+	}
+	if m.Lines {
+		lines, err := FieldLines(m.U.Values, m.V.Values, m.FieldU, m.FieldV)
+		if err != nil {
+			return nil, nil, err
+		}
+		for _, ln := range lines {
+			for i := range ln {
+				ln[i][0] /= lenSize
+				ln[i][1] /= lenSize
+			}
+		}
+		main.Add(&fieldLines{lines: lines})
+	}
+	if m.Arrows {
+		main.Add(&arrows{g: g, du: m.FieldU, dv: m.FieldV})
 	}
 	for _, p := range m.Paths {
 		if len(p) < 2 {
@@ -268,5 +290,52 @@ func (b *colorBar) Plot(c draw.Canvas, p *plot.Plot) {
 			top += vg.Points(0.5)
 		}
 		c.FillPolygon(col, []vg.Point{{X: tx(0), Y: ty(y0)}, {X: tx(1), Y: ty(y0)}, {X: tx(1), Y: top}, {X: tx(0), Y: top}})
+	}
+}
+
+// fieldLineColor draws field lines in a pale green: apart from the cyan
+// of the arrows and the source's paths, and visible on every colour of
+// the black-body map from black to white-yellow (common practice).
+var fieldLineColor = color.RGBA{R: 0x6f, G: 0xe0, B: 0x8c, A: 0xff}
+
+// fieldLines draws traced field lines (in the plot's units) with an
+// arrowhead half way along each, pointing along the field.
+type fieldLines struct{ lines [][][2]float64 }
+
+func (f *fieldLines) Plot(c draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&c)
+	sty := draw.LineStyle{Color: fieldLineColor, Width: vg.Points(0.9)}
+	for _, ln := range f.lines {
+		pts := make([]vg.Point, len(ln))
+		for i, q := range ln {
+			pts[i] = vg.Point{X: tx(q[0]), Y: ty(q[1])}
+		}
+		c.StrokeLines(sty, pts)
+		// the arrowhead at half the drawn length
+		length := 0.0
+		for i := 1; i < len(pts); i++ {
+			length += math.Hypot(float64(pts[i].X-pts[i-1].X), float64(pts[i].Y-pts[i-1].Y))
+		}
+		const head = 3.5 // points
+		if length < 4*head {
+			continue
+		}
+		at := 0.0
+		for i := 1; i < len(pts); i++ {
+			seg := math.Hypot(float64(pts[i].X-pts[i-1].X), float64(pts[i].Y-pts[i-1].Y))
+			if at+seg >= length/2 && seg > 0 {
+				ex, ey := float64(pts[i].X-pts[i-1].X)/seg, float64(pts[i].Y-pts[i-1].Y)/seg
+				k := (length/2 - at) / seg
+				x := float64(pts[i-1].X) + k*float64(pts[i].X-pts[i-1].X)
+				y := float64(pts[i-1].Y) + k*float64(pts[i].Y-pts[i-1].Y)
+				c.FillPolygon(fieldLineColor, []vg.Point{
+					{X: vg.Length(x + head*ex), Y: vg.Length(y + head*ey)},
+					{X: vg.Length(x - head*ex - 0.6*head*ey), Y: vg.Length(y - head*ey + 0.6*head*ex)},
+					{X: vg.Length(x - head*ex + 0.6*head*ey), Y: vg.Length(y - head*ey - 0.6*head*ex)},
+				})
+				break
+			}
+			at += seg
+		}
 	}
 }

@@ -12,7 +12,7 @@ import (
 // for I = 1 A, and its direction (−v, u)/r; the wire's section is drawn as
 // a small square path. Only drawn here, not checked as numbers.
 func wireMap(n int) *Map {
-	m := &Map{Title: "|B| around a wire", U: Column{Name: "u", Unit: "m"}, V: Column{Name: "v", Unit: "m"}, Mag: Column{Name: "|B|", Unit: "T"}}
+	m := &Map{Title: "|B| around a wire", U: Column{Name: "u", Unit: "m"}, V: Column{Name: "v", Unit: "m"}, Mag: Column{Name: "|B|", Unit: "T"}, Arrows: true}
 	for i := 0; i < n; i++ {
 		x := -0.05 + 0.1*float64(i)/float64(n-1) + 0.0013 // off the wire
 		m.U.Values = append(m.U.Values, x)
@@ -22,8 +22,8 @@ func wireMap(n int) *Map {
 		for _, u := range m.U.Values {
 			r := math.Hypot(u, v)
 			m.Mag.Values = append(m.Mag.Values, 2e-7/r)
-			m.ArrowU = append(m.ArrowU, -v/r)
-			m.ArrowV = append(m.ArrowV, u/r)
+			m.FieldU = append(m.FieldU, -v/r)
+			m.FieldV = append(m.FieldV, u/r)
 		}
 	}
 	m.Paths = [][][2]float64{{{-0.002, -0.002}, {0.002, -0.002}, {0.002, 0.002}, {-0.002, 0.002}, {-0.002, -0.002}}}
