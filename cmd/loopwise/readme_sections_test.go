@@ -1,0 +1,54 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"strings"
+	"testing"
+)
+
+// TestReadmeTranscripts replays the prompt transcripts in README.md's
+// sections "Wire losses at AC" and "AC: phasors, circuits and the two-coil
+// link", so the page shows what the program prints.
+func TestReadmeTranscripts(t *testing.T) {
+	for _, title := range []string{"### Wire losses at AC", "### AC: phasors, circuits and the two-coil link"} {
+		t.Run(title[4:], func(t *testing.T) { replaySection(t, title) })
+	}
+}
+
+func replaySection(t *testing.T, title string) {
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, sec, ok := strings.Cut(string(data), title+"\n")
+	if !ok {
+		t.Fatalf("README has no section %q", title)
+	}
+	_, after, ok := strings.Cut(sec, "```text\n")
+	if !ok {
+		t.Fatalf("the section %q has no ```text block", title)
+	}
+	block, _, _ := strings.Cut(after, "```")
+	var inputs []string
+	var want strings.Builder
+	for _, line := range strings.Split(strings.TrimSuffix(block, "\n"), "\n") {
+		if in, ok := strings.CutPrefix(line, prompt); ok {
+			inputs = append(inputs, in)
+			continue
+		}
+		if in, ok := strings.CutPrefix(line, morePrompt); ok {
+			inputs = append(inputs, in)
+			continue
+		}
+		want.WriteString(line + "\n")
+	}
+	var got bytes.Buffer
+	c := newConsole(&got, &got)
+	for _, in := range inputs {
+		c.line(in)
+	}
+	if got.String() != want.String() {
+		t.Errorf("README's transcript under %q differs from the program.\n--- README\n%s--- program\n%s", title, want.String(), got.String())
+	}
+}
