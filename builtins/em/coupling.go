@@ -318,6 +318,29 @@ func MaxwellMutual(a, b, d float64) float64 {
 	return Mu0 * math.Sqrt(a*b) * k * f
 }
 
+// MaxwellMutualDd is dM/dd of MaxwellMutual(a, b, d): the axial force
+// between coaxial circles per unit of the product of their currents.
+// Differentiating Maxwell's formula, with dK/dk = E/(k·k'²) − K/k and
+// dE/dk = (E − K)/k (Abramowitz & Stegun 17.3.43 and 17.3.44 in the
+// modulus k) and dk/dd = −k·d/D, D = (a+b)² + d², gives
+//
+//	dM/dd = −μ0·d/(2√D) · [(2 − k²)·E/(1 − k²) − 2K],  k² = 4ab/D,
+//
+// negative for d > 0 (aiding circles pull together). K and E are the
+// complete integrals of parameter m = k²; 1 − k² is formed without
+// cancellation.
+func MaxwellMutualDd(a, b, d float64) float64 {
+	den := (a+b)*(a+b) + d*d
+	m := 4 * a * b / den
+	mc := ((a-b)*(a-b) + d*d) / den
+	if mc == 0 {
+		return 0 // touching circles: the field is singular; callers keep them apart
+	}
+	kk := mathext.CompleteK(m)
+	ee := mathext.CompleteE(m)
+	return -Mu0 * d / (2 * math.Sqrt(den)) * ((2-m)*ee/mc - 2*kk)
+}
+
 // coaxialCircles reports whether p and q are whole circles on one axis,
 // and their radii and plane separation.
 func coaxialCircles(p, q Prim) (a, b, d float64, ok bool) {

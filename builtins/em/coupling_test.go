@@ -1040,3 +1040,41 @@ func TestMotionalEMFRotating(t *testing.T) {
 		}
 	}
 }
+
+// TestMaxwellMutualDd: the closed-form derivative of Maxwell's formula
+// against (1) a central difference of MaxwellMutual itself, with a step
+// of 1e-4 of the separation (truncation ~h²·M'''/6, rounding ~eps·M/h:
+// both below 1e-7 relative), and (2) the Lorentz force on the second
+// circle in the first's field (em.Force, by quadrature of I·dl × B, a
+// route that shares no code with the elliptic-integral formula), whose
+// axial part is I1·I2·dM/dd (the force on circuit 2 is ∇(M)·I1·I2 at
+// constant currents; e.g. Jackson, Classical Electrodynamics, 3rd ed.
+// 1999, §5.16). Tolerance 1e-7 for (1), 1e-8 for (2): Force integrates to
+// 1e-10.
+func TestMaxwellMutualDd(t *testing.T) {
+	for _, c := range []struct{ a, b, d float64 }{
+		{0.025, 0.02, 0.01}, {0.04, 0.03, 0.002}, {0.01, 0.05, 0.08}, {0.03, 0.03, 0.001}, {0.02, 0.021, 0.3},
+	} {
+		got := MaxwellMutualDd(c.a, c.b, c.d)
+		h := 1e-4 * c.d
+		fd := (MaxwellMutual(c.a, c.b, c.d+h) - MaxwellMutual(c.a, c.b, c.d-h)) / (2 * h)
+		if math.Abs(got-fd) > 1e-7*math.Abs(fd) {
+			t.Errorf("a=%g b=%g d=%g: dM/dd %g, central difference %g", c.a, c.b, c.d, got, fd)
+		}
+		p1, err := NewCircle(Vec{}, Vec{Z: 1}, c.a)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p2, err := NewCircle(Vec{Z: c.d}, Vec{Z: 1}, c.b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := Force([]Source{{Path: Path{Prims: []Prim{p1}}, I: 1}}, Path{Prims: []Prim{p2}}, 1, DefaultTol)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(f.Z-got) > 1e-8*math.Abs(got) {
+			t.Errorf("a=%g b=%g d=%g: dM/dd %g, Lorentz force per A² %g", c.a, c.b, c.d, got, f.Z)
+		}
+	}
+}
