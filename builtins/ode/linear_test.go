@@ -85,7 +85,7 @@ func TestExponentialDecay(t *testing.T) {
 	checkErrors(t, "backwards", worst, []float64{y0}, ode.DefaultRelTol, ode.DefaultAbsTol)
 }
 
-// Harmonic oscillator x” = −ω² x at 50 Hz over three periods, x = cos ωt,
+// Harmonic oscillator d²x/dt² = −ω² x at 50 Hz over three periods, x = cos ωt,
 // x' = −ω sin ωt (any mechanics or circuits text; e.g. J. W. Nilsson and
 // S. A. Riedel, Electric Circuits, 10th ed., 2015, §8.3 with R = 0).
 func TestHarmonicOscillator(t *testing.T) {
