@@ -48,10 +48,13 @@
 // # Defaults
 //
 // RelTol 1e-6, AbsTol 1e-9 (in the units of y), MaxSteps 100000 (accepted
-// and rejected steps together). The first step is chosen by the starting
-// step algorithm of E. Hairer, S. P. Nørsett and G. Wanner, Solving
-// Ordinary Differential Equations I, 2nd ed., Springer, 1993, §II.4,
-// unless Options.InitialStep is given.
+// and rejected steps together), no limit on the step size. The first step
+// is chosen by the starting step algorithm of E. Hairer, S. P. Nørsett and
+// G. Wanner, Solving Ordinary Differential Equations I, 2nd ed., Springer,
+// 1993, §II.4, unless Options.InitialStep is given; where that algorithm
+// falls back to an absolute 1e-6, this package takes 1e-6 of |t1 − t0|,
+// so that the choice does not depend on the unit of time. Options.Check
+// is polled before every attempted step.
 //
 // # Errors
 //
@@ -64,4 +67,11 @@
 // solution it had accepted, from t0 to the last entry of Times.
 //
 // Integration may run backwards (t1 < t0).
+//
+// # Size
+//
+// The Newton matrix is dense and 3n×3n: memory grows as 9n² floats and
+// each factorisation as 18n³ flops, which suits the tens of states of a
+// circuit, not a discretised field. Callers that take n from users should
+// bound it.
 package ode
