@@ -13,16 +13,18 @@ import (
 // allowedImports is a statement of policy: which Loopwise packages and
 // which outside modules each package may import (non-test files). Imports
 // flow one way: cmd → builtins → runtime → lang; the numerical core
-// builtins/em and the wire-loss numerics builtins/wire know nothing of the
-// language; the drawing package
-// builtins/draw takes plain data and knows nothing of it either; only cmd
+// builtins/em, the wire-loss numerics builtins/wire, the circuit solver
+// builtins/circuit and the ODE integrator builtins/ode know nothing of the
+// language; the drawing package builtins/draw takes plain data and knows
+// nothing of it either; only cmd
 // touches the terminal (liner).
 var allowedImports = map[string][]string{
 	"lang":          {},
 	"runtime":       {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
-	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "loopwise/builtins/circuit", "gonum.org/v1/gonum"},
+	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "loopwise/builtins/circuit", "loopwise/builtins/ode", "gonum.org/v1/gonum"},
 	"builtins/em":   {"gonum.org/v1/gonum"},
 	"builtins/wire": {"gonum.org/v1/gonum"},
+	"builtins/ode":  {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},
 	"cmd/loopwise":  {"loopwise/runtime", "loopwise/lang", "loopwise/builtins", "github.com/peterh/liner", "golang.org/x/term", "github.com/yuin/goldmark"},
 
