@@ -431,6 +431,13 @@ func circuitFuncs() []*runtime.Func {
 			}
 			return &ACResult{net: n, sol: sol}, nil
 		}),
+		fncEnv("transient", []string{"circuit", "t_end", "n"}, 2, 3, &runtime.Help{
+			Signature: "transient(circuit, t_end: s[, n: whole number, default 201]) -> table",
+			Summary:   "Follows the circuit in time from t = 0 (capacitors at their v0, inductors at their i0, default 0) to t_end, with sources as functions of time (a constant source is switched on at t = 0): a table of n evenly spaced instants with every element's current (I R1, …; from → to) and every inductor's and capacitor's voltage (V C1, …). A circuit that starts with more than 20 J stored, or a capacitor above 120 V, carries a caution.",
+			Method:    "state equations (inductor currents, capacitor voltages; the resistive network solved at each instant by modified nodal analysis), integrated by Radau IIA of order 5 with error control (relative 1e-8, absolute 1e-12 in A and V) and dense output; stiff circuits are cheap. The tests agree with the closed forms of an RL step and of series RLC circuits (under-, critically and over-damped) within 1e-7 of the peak, and the energy balance holds within 1e-7 of the stored energy",
+			Example:   "net = circuit(capacitor(\"C1\", \"a\", \"0\", 100 uF, 50 V), resistor(\"R1\", \"a\", \"b\", 0.5 ohm), inductor(\"L1\", \"b\", \"0\", 200 uH))\nt = transient(net, 2 ms, 5)\nt",
+			Reference: refTransient,
+		}, transientBuiltin),
 		acRead("element_current", "A", dimCurrent, "The current through an element (from its from node to its to node), a peak phasor.", func(s *circuit.ACSolution, name string) (runtime.Value, error) {
 			i, err := s.Current(name)
 			return runtime.Complex{V: i, D: dimCurrent}, err

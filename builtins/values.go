@@ -186,6 +186,9 @@ func (s *Source) uniformB() em.Vec {
 // Table is a table of sampled values, column by column in SI units.
 type Table struct {
 	Title string
+	// Caution, when set, is a safety caution that belongs to the table's
+	// result (a stored energy above the hazardous level, say).
+	Caution string
 	Cols  []string
 	Dims  []runtime.Dim
 	// Cyc marks columns of cycle frequencies (shown in Hz, see
