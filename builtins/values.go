@@ -189,8 +189,8 @@ type Table struct {
 	// Caution, when set, is a safety caution that belongs to the table's
 	// result (a stored energy above the hazardous level, say).
 	Caution string
-	Cols  []string
-	Dims  []runtime.Dim
+	Cols    []string
+	Dims    []runtime.Dim
 	// Cyc marks columns of cycle frequencies (shown in Hz, see
 	// runtime.Quantity.Cyc); it may be shorter than Cols.
 	Cyc  []bool

@@ -1043,7 +1043,7 @@ func TestMotionalEMFRotating(t *testing.T) {
 
 // TestMaxwellMutualDd: the closed-form derivative of Maxwell's formula
 // against (1) a central difference of MaxwellMutual itself, with a step
-// of 1e-4 of the separation (truncation ~h²·M'''/6, rounding ~eps·M/h:
+// of 1e-4 of the separation (truncation ~h²·M”'/6, rounding ~eps·M/h:
 // both below 1e-7 relative), and (2) the Lorentz force on the second
 // circle in the first's field (em.Force, by quadrature of I·dl × B, a
 // route that shares no code with the elliptic-integral formula), whose
