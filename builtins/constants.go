@@ -90,7 +90,7 @@ func Standard() runtime.Library {
 	}{
 		{"math", mathFuncs()},
 		{"complex numbers", complexFuncs()},
-		{"circuits", append(circuitFuncs(), linkFuncs()...)},
+		{"circuits", append(append(circuitFuncs(), linkFuncs()...), launchFuncs()...)},
 		{"vectors", vectorFuncs()},
 		{"geometry", geometryFuncs()},
 		{"fields", sourceFuncs()},

@@ -40,7 +40,10 @@ func TestTransientClosedForms(t *testing.T) {
 		for _, r := range rows {
 			peak = math.Max(peak, math.Abs(want(r[0])))
 		}
+		worst := 0.0
+		defer func() { t.Logf("%s: worst error %.2g of the peak", what, worst) }()
 		for _, r := range rows {
+			worst = math.Max(worst, math.Abs(sign*r[col]-want(r[0]))/peak)
 			if d := math.Abs(sign*r[col] - want(r[0])); d > 1e-7*peak {
 				t.Errorf("%s at t = %g s: %g A, closed form %g A", what, r[0], sign*r[col], want(r[0]))
 				return
@@ -104,6 +107,7 @@ func TestTransientEnergyBalance(t *testing.T) {
 	i1, i2, vc := last[cols["I L1"]], last[cols["I L2"]], last[cols["V C1"]]
 	m := 0.6 * math.Sqrt(200e-6*150e-6)
 	stored := 0.5*100e-6*vc*vc + 0.5*200e-6*i1*i1 + 0.5*150e-6*i2*i2 + m*i1*i2
+	t.Logf("energy balance: off by %.2g of the stored energy", math.Abs(stored+heat-w0)/w0)
 	if d := math.Abs(stored + heat - w0); d > 1e-7*w0 {
 		t.Errorf("energy: stored %g J + heat %g J = %g J, initially %g J (off by %.2g)", stored, heat, stored+heat, w0, d/w0)
 	}
