@@ -543,9 +543,12 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 					return
 				}
 				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, tol, all, skip)
-				if d := done.Add(1); progress != nil {
+				done.Add(1)
+				if progress != nil {
+					// read the count under the lock, so that reports never
+					// go backwards and the last one is n
 					mu.Lock()
-					progress(int(d), n)
+					progress(int(done.Load()), n)
 					mu.Unlock()
 				}
 			}
