@@ -407,6 +407,14 @@ var inductionValid = []string{
 	"rotate(translate(loop, [0,0,1] cm), [1,0,0], 90 deg, [0,0,0] m)",
 	"join(arc([0,0,0] m, [0,0,1], [20,0,0] mm, 90 deg), segment([0,20,0] mm, [0,0,0] mm), segment([0,0,0] mm, [20,0,0] mm))",
 	"src + wire",
+	// phasors, circuits, transients
+	"emf(source(loop, polar(2 A, 30 deg)), small, 50 Hz)",
+	"b_at(source(loop, 2j A), [0,0,1] cm)",
+	"e_at(source(loop, 2j A), [1,0,1] cm, 1 kHz)",
+	`ac_solve(circuit(voltage_source("V", "a", "0", 1 V), resistor("R", "a", "b", 1 ohm), inductor("L", "b", "0", 1 mH)), 1 kHz)`,
+	`transient(circuit(capacitor("C", "a", "0", 1 uF, 5 V), resistor("R", "a", "0", 1 kohm)), 1 ms, 3)`,
+	"max_link_efficiency(coil_link(24 uH, 0.12 ohm, 11 uH, 0.09 ohm, 0.3, 140 kHz))",
+	"ring_launch(rings([0,0,0] m, [0,0,1], 15 mm, 20 mm, 10), circle([0,0,14] mm, [0,0,1], 18 mm), 10 uH, 0.05 ohm, 60 nH, 0.4 mohm, 1 mF, 50 V, 4 g, 1 ms, 3)",
 }
 
 // inductionFuzzFound are inputs the fuzzer found that failed: a pre-lexer
