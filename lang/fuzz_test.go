@@ -222,8 +222,11 @@ func FuzzRewrite(f *testing.F) {
 			if l.Off < 0 || l.Off > n || l.UnitOff < l.Off || l.UnitOff > n {
 				t.Fatalf("Rewrite(%q): literal %+v outside 0..%d", st.Expr, l, n)
 			}
-			if l.Unit == "" {
+			if l.Unit == "" && !l.Imag {
 				t.Fatalf("Rewrite(%q): literal %+v without a unit", st.Expr, l)
+			}
+			if l.Imag && l.Number == "" {
+				t.Fatalf("Rewrite(%q): imaginary literal %+v without a number", st.Expr, l)
 			}
 			if l.Number != "" {
 				if _, err := strconv.ParseFloat(l.Number, 64); err != nil && !errors.Is(err, strconv.ErrRange) {

@@ -436,6 +436,10 @@ func tidySyntax(msg string) string {
 	if strings.Contains(msg, "exceeds maximum allowed nodes") {
 		return fmt.Sprintf("this expression has more than %d parts (numbers, names, operators), the most one statement may have; split it into several statements", MaxExprNodes)
 	}
+	if strings.Contains(msg, "invalid float literal") {
+		// the engine's number scanner met a malformed number ("0...0.")
+		return "syntax error: a malformed number; write numbers as 12, 0.5 or 1.5e-3"
+	}
 	msg = strings.ReplaceAll(msg, "unexpected token EOF", "the expression ends too early")
 	msg = strings.ReplaceAll(msg, "unexpected token ", "unexpected ")
 	msg = tokenName.ReplaceAllStringFunc(msg, func(m string) string {
