@@ -106,9 +106,9 @@ func (c *console) help(st *lang.Statement) {
 }
 
 func (c *console) showHelp(name string, h *runtime.Help) {
-	fmt.Fprintf(c.out, "%s\n  %s\n", h.Signature, h.Summary)
+	fmt.Fprintf(c.out, "%s\n%s\n", h.Signature, c.wrap("  ", h.Summary))
 	if h.Method != "" {
-		fmt.Fprintf(c.out, "  method: %s\n", h.Method)
+		fmt.Fprintf(c.out, "%s\n", c.wrap("  ", "method: "+h.Method))
 	}
 	if h.Example != "" {
 		fmt.Fprint(c.out, "  example:\n")
@@ -129,7 +129,7 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 		}
 	}
 	if h.Reference != "" {
-		fmt.Fprintf(c.out, "  reference: %s\n", h.Reference)
+		fmt.Fprintf(c.out, "%s\n", c.wrap("  ", "reference: "+h.Reference))
 	}
 }
 
@@ -187,4 +187,29 @@ func siSize(u runtime.UnitExpr) string {
 		return runtime.FormatNumber(u.Scale(), 12)
 	}
 	return runtime.FormatNumber(u.Scale(), 12) + " " + runtime.DisplayUnitOf(u.Dim)
+}
+
+// wrap indents text and, on a terminal, breaks it at spaces to the
+// console's width, continuing lines two columns further in. The standard
+// library has no word wrap; this is the few lines it takes.
+func (c *console) wrap(indent, text string) string {
+	if c.width == 0 {
+		return indent + text
+	}
+	var b strings.Builder
+	line, col := indent, utf8.RuneCountInString(indent)
+	for i, w := range strings.Fields(text) {
+		n := utf8.RuneCountInString(w)
+		if i > 0 && col+1+n > c.width-1 {
+			b.WriteString(line + "\n")
+			line, col = indent+"  ", utf8.RuneCountInString(indent)+2
+		} else if i > 0 {
+			line += " "
+			col++
+		}
+		line += w
+		col += n
+	}
+	b.WriteString(line)
+	return b.String()
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"strings"
 	"testing"
+	"unicode/utf8"
 )
 
 // TestHelpExamplesPaste reads every builtin's :help as a user sees it,
@@ -71,4 +72,22 @@ func parseExample(t *testing.T, name, help string) (lines []string, shown string
 		}
 	}
 	return lines, strings.Join(res, "\n")
+}
+
+// TestHelpWrap: on a terminal, help text is broken at spaces to the
+// terminal's width with a hanging indent; elsewhere it is left whole.
+func TestHelpWrap(t *testing.T) {
+	c := &console{width: 40}
+	got := c.wrap("  ", "method: modified nodal analysis, the complex system solved as a real one")
+	for _, l := range strings.Split(got, "\n") {
+		if utf8.RuneCountInString(l) > 39 {
+			t.Errorf("line %q is wider than 39 columns", l)
+		}
+	}
+	if want := "  method: modified nodal analysis, the\n    complex system solved as a real one"; got != want {
+		t.Errorf("wrapped\n%s\nwant\n%s", got, want)
+	}
+	if got := (&console{}).wrap("  ", "a b"); got != "  a b" {
+		t.Errorf("without a width: %q", got)
+	}
 }

@@ -41,6 +41,9 @@ type console struct {
 	// start is the number of its first line.
 	pending []string
 	start   int
+	// width is the terminal's width in columns for wrapping help text,
+	// 0 when the output is not a terminal (then lines are not wrapped).
+	width int
 }
 
 func newConsole(out, errOut io.Writer) *console {
@@ -300,6 +303,9 @@ func repl(stdin io.Reader, stdout, stderr io.Writer) int {
 	c := newConsole(stdout, stderr)
 	if f, ok := stdin.(*os.File); ok && isTerminal(f) && liner.TerminalSupported() {
 		c.s.OutDir = promptOut // piped input writes no files
+		if w, _, err := term.GetSize(int(os.Stdout.Fd())); err == nil && w >= 40 {
+			c.width = w
+		}
 		return terminalLoop(c)
 	}
 	c.s.SetProgress(progressPrinter(stderr))
