@@ -228,6 +228,11 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			if err := unitTail(r, us, ue, "", errAt); err != nil {
 				return nil, err
 			}
+			if k := skipBlanks(r, ue); k < len(r) && r[k] == '^' {
+				// "[1, 2, 3] m ^ 2" would raise only the unit (the unit
+				// after a bracket multiplies it): say which is meant
+				return nil, errAt(us, k-us+1, "a power after the unit %q that follows a bracket is ambiguous: write the power on the unit without spaces (%s^2) or put the whole in brackets", Abbrev(string(r[us:ue]), 40), Abbrev(string(r[us:ue]), 40))
+			}
 			ph := newLit("", string(r[us:ue]), us, us)
 			emit("*"+ph, us)
 			i = ue
@@ -435,4 +440,13 @@ func exponentAt(r []rune, k int) bool {
 		k++
 	}
 	return k < len(r) && isDigit(r[k])
+}
+
+// skipBlanks returns the index of the first rune at or after k that is not
+// a space or a tab.
+func skipBlanks(r []rune, k int) int {
+	for k < len(r) && (r[k] == ' ' || r[k] == '\t') {
+		k++
+	}
+	return k
 }
