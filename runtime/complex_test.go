@@ -81,7 +81,7 @@ func TestComplexRefusals(t *testing.T) {
 		{"(1 + 1j) ohm + 1 V", "cannot add resistance (Ω) and voltage (V)"},
 		{"[1, 2, 3] m * [1j, 0, 0]", "cannot multiply two vectors"},
 		{"sin(2j)", "take abs(z), re(z) or im(z) first"},
-		{"(1 + 1j) m ^ 0.5", "fractional exponent"},
+		{"((1 + 1j) m)^0.5", "fractional exponent"},
 		{"2 m ^ (1j)", "dimensionless base"},
 		{"(1 + 1j) / 0j", "division by zero"},
 		{"(1 + 1j) % 2", "remainder"},
