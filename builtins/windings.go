@@ -49,7 +49,7 @@ func windingFuncs() []*runtime.Func {
 		fncEnv("thick_coil_mutual", []string{"inner_radius1", "outer_radius1", "length1", "turns1", "inner_radius2", "outer_radius2", "length2", "turns2", "distance"}, 9, 9, &runtime.Help{
 			Signature: "thick_coil_mutual(inner_radius1: length, outer_radius1: length, length1: length, turns1, inner_radius2: length, outer_radius2: length, length2: length, turns2, distance: length) -> H",
 			Summary:   "Mutual inductance of two coaxial air-core coils, each of turns spread evenly over a rectangular cross-section (as thick_coil_inductance), their centres distance apart along the common axis. Both are taken wound in the same sense (reverse one for a negative M). Windings that overlap are refused; nested or stacked windings may touch.",
-			Method:    "Maxwell's formula for coaxial circles integrated over both sections by Gauss–Legendre product rules on panels graded towards where the sections come closest (the radial ranges cut at each other's ends); the tests find it within 1e-9 of a rule of twice the order and depth, and within 2e-5 of the sum over the exact rings of two windings extrapolated to fine wire",
+			Method:    "Maxwell's formula for coaxial circles integrated over both sections by Gauss–Legendre product rules on panels graded towards where the sections come closest (the radial ranges cut at each other's ends); the tests find it within 1e-9 of a rule of twice the order and depth, and within 1e-6 of the sum over the exact rings of two windings extrapolated to fine wire",
 			Example:   "thick_coil_mutual(10 mm, 15 mm, 20 mm, 200, 16 mm, 20 mm, 10 mm, 100, 5 mm)",
 			Reference: refThick,
 		}, thickMutualBuiltin),
