@@ -96,6 +96,7 @@ func Standard() runtime.Library {
 		{"fields", sourceFuncs()},
 		{"flux and EMF", fluxFuncs()},
 		{"inductance and force", inductanceFuncs()},
+		{"printed coils", spiralFuncs()},
 		{"field calculus", calculusFuncs()},
 		{"solving", append(solveFuncs(), extremumFuncs()...)},
 		{"induced E", regionFuncs()},
