@@ -97,6 +97,7 @@ func Standard() runtime.Library {
 		{"flux and EMF", fluxFuncs()},
 		{"inductance and force", inductanceFuncs()},
 		{"windings", windingFuncs()},
+		{"printed coils", spiralFuncs()},
 		{"field calculus", calculusFuncs()},
 		{"solving", append(solveFuncs(), extremumFuncs()...)},
 		{"induced E", regionFuncs()},
