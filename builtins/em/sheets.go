@@ -202,7 +202,7 @@ func (CylinderSheet) Weight() float64 { return 400 }
 // height of the closed-form fields of a rectangular loop of four segments,
 // by adaptive Gauss–Kronrod.
 type BlockSheet struct {
-	C, N, U        Vec
+	C, N, U    Vec
 	HU, HV, HN float64
 }
 
