@@ -93,7 +93,8 @@ func (s CylinderSheet) Field(which Which, x Vec, stop func() error) (Vec, error)
 	z, r := axialFrame(x, s.C, s.N)
 	rho := r3.Norm(r)
 	a, b := s.R, s.L/2
-	if math.Abs(rho-a) <= onFace*a && math.Abs(z) <= b*(1+onFace) {
+	// B jumps across the side; A is continuous there
+	if which == FieldB && math.Abs(rho-a) <= onFace*a && math.Abs(z) <= b*(1+onFace) {
 		return Vec{}, ErrOnSheet
 	}
 	if which == FieldB {
@@ -214,7 +215,7 @@ func (s BlockSheet) Field(which Which, x Vec, stop func() error) (Vec, error) {
 	size := math.Max(s.HU, s.HV)
 	onU := math.Abs(math.Abs(u)-s.HU) <= onFace*size && math.Abs(v) <= s.HV+onFace*size
 	onV := math.Abs(math.Abs(v)-s.HV) <= onFace*size && math.Abs(u) <= s.HU+onFace*size
-	if (onU || onV) && math.Abs(z) <= s.HN*(1+onFace) {
+	if which == FieldB && (onU || onV) && math.Abs(z) <= s.HN*(1+onFace) {
 		return Vec{}, ErrOnSheet
 	}
 	V := s.v()
