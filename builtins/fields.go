@@ -30,9 +30,9 @@ func fieldErr(fn string, err error) error {
 	case errors.Is(err, em.ErrOnWire):
 		return errorf("%s: the point lies on a wire, where a thin wire's field is infinite; move it off the wire", fn)
 	case errors.As(err, &pe) && errors.Is(err, em.ErrOnSheet):
-		return errorf("%s: point %d lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where the field jumps or is infinite; move it off", fn, pe.Index+1)
+		return errorf("%s: point %d lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where B jumps or is infinite (and a block magnet's A is not computed); move it off", fn, pe.Index+1)
 	case errors.Is(err, em.ErrOnSheet):
-		return errorf("%s: a point lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where the field jumps or is infinite; move it off", fn)
+		return errorf("%s: a point lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where B jumps or is infinite (and a block magnet's A is not computed); move it off", fn)
 	case errors.As(err, &pe) && errors.Is(err, em.ErrBehindPlate):
 		return errorf("%s: point %d lies behind the permeable plate the source was mirrored in, inside the material, where the images do not give the field", fn, pe.Index+1)
 	case errors.Is(err, em.ErrBehindPlate):

@@ -215,7 +215,11 @@ func (s BlockSheet) Field(which Which, x Vec, stop func() error) (Vec, error) {
 	size := math.Max(s.HU, s.HV)
 	onU := math.Abs(math.Abs(u)-s.HU) <= onFace*size && math.Abs(v) <= s.HV+onFace*size
 	onV := math.Abs(math.Abs(v)-s.HV) <= onFace*size && math.Abs(u) <= s.HU+onFace*size
-	if which == FieldB && (onU || onV) && math.Abs(z) <= s.HN*(1+onFace) {
+	// on a face: B jumps; A is continuous, but the loops' segments pass
+	// through the point at one height, whose logarithmic singularity the
+	// adaptive rule cannot resolve to the segments' on-wire test, so both
+	// are refused
+	if (onU || onV) && math.Abs(z) <= s.HN*(1+onFace) {
 		return Vec{}, ErrOnSheet
 	}
 	V := s.v()
