@@ -3,6 +3,7 @@ package builtins
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -241,6 +242,9 @@ func magnetFuncs() []*runtime.Func {
 			if err := inFront(fn, path, p, n); err != nil {
 				return nil, err
 			}
+			if d := nearest(path, p, n); d < a {
+				return nil, errorf("%s: the wire comes within %s of the face, less than its radius %s: it would reach into the material", fn, fmtQ(d, dimLength, 6), fmtQ(a, dimLength, 6))
+			}
 			img := path.Mirror(p, n)
 			if err := charge(env, fn, inductanceCost(path)+mutualCost(path, img)); err != nil {
 				return nil, err
@@ -255,7 +259,7 @@ func magnetFuncs() []*runtime.Func {
 			}
 			m, err := em.Mutual(path, img, em.MutualOptions{Tol: tol})
 			if err != nil {
-				return nil, errorf("%s: the path touches the face (its image meets it); keep the wire at least its radius away", fn)
+				return nil, imageErr(fn, err, "the path touches the face (its image meets it); keep the wire at least its radius away")
 			}
 			return runtime.Quantity{V: l + k*m, D: dimHenry}, nil
 		}),
@@ -296,11 +300,24 @@ func magnetFuncs() []*runtime.Func {
 			}
 			mi, err := em.Mutual(p1, img, em.MutualOptions{Tol: tol})
 			if err != nil {
-				return nil, errorf("%s: a path touches the face (the image of path 2 meets path 1); keep the wires off the face", fn)
+				return nil, imageErr(fn, err, "a path touches the face (the image of path 2 meets path 1); keep the wires off the face")
 			}
 			return runtime.Quantity{V: m + k*mi, D: dimHenry}, nil
 		}),
 	}
+}
+
+// imageErr words an error of the mutual inductance with an image: a
+// path that meets its image touches the face; work stopped or other
+// numerical trouble pass through as everywhere else.
+func imageErr(fn string, err error, touch string) error {
+	if stopping(err) {
+		return err
+	}
+	if strings.Contains(err.Error(), "touch") {
+		return errorf("%s: %s", fn, touch)
+	}
+	return fieldErr(fn, err)
 }
 
 // imageFactor is k = (μr − 1)/(μr + 1) for a relative permeability > 0.
@@ -323,6 +340,18 @@ func inFront(fn string, path em.Path, p, n em.Vec) error {
 		}
 	}
 	return nil
+}
+
+// nearest is the least distance of a path's points from the face
+// (sampled at 65 points a piece, enough for a thin wire beside its bends).
+func nearest(path em.Path, p, n em.Vec) float64 {
+	d := math.Inf(1)
+	for _, q := range path.Prims {
+		for k := 0; k <= 64; k++ {
+			d = math.Min(d, r3.Dot(r3.Sub(q.Point(float64(k)/64), p), n))
+		}
+	}
+	return d
 }
 
 // shapeInFront checks that a shape lies in front of the face.
