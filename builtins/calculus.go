@@ -111,7 +111,7 @@ func sourceField(which em.Which, src *Source) *Field {
 	}
 	w := 0.0
 	for _, t := range src.terms {
-		w += pathWeight(t.path)
+		w += t.weight()
 	}
 	return &Field{
 		pointCost: w,
@@ -150,7 +150,7 @@ func sourceField(which em.Which, src *Source) *Field {
 func inducedField(src *Source) *Field {
 	w := 0.0
 	for _, t := range src.terms {
-		w += pathWeight(t.path)
+		w += t.weight()
 	}
 	return &Field{
 		pointCost: w,
@@ -173,7 +173,7 @@ func inducedField(src *Source) *Field {
 				if err != nil {
 					return nil, err
 				}
-				rates = append(rates, em.Source{Path: term.path, I: -didt})
+				rates = append(rates, term.em(-didt))
 			}
 			ev := em.NewEvaluator(em.FieldA, rates)
 			if env != nil {

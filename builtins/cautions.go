@@ -39,6 +39,8 @@ func Caution(v runtime.Value) string {
 		}
 	case *Table:
 		return x.Caution
+	case *CoreReport:
+		return x.caution()
 	case *ACResult:
 		if name, peak := x.sol.LargestVoltage(); peak/math.Sqrt2 > elvAC {
 			return fmt.Sprintf("caution: %s peak (%s rms) across %s is above the AC extra-low-voltage limit (50 V rms; IEC 61140, from memory); a resonant circuit raises its source's voltage by its Q. %s", runtime.Format(runtime.Quantity{V: peak, D: dimVolt}, 4), runtime.Format(runtime.Quantity{V: peak / math.Sqrt2, D: dimVolt}, 4), name, deferText)

@@ -101,6 +101,8 @@ func Standard() runtime.Library {
 		{"field calculus", calculusFuncs()},
 		{"solving", append(solveFuncs(), extremumFuncs()...)},
 		{"induced E", regionFuncs()},
+		{"magnets and ideal sources", magnetFuncs()},
+		{"magnetic circuits", coreFuncs()},
 		{"safety", cautionFuncs()},
 		{"formulas", formulaFuncs()},
 		{"wire losses", wireLossFuncs()},

@@ -469,6 +469,15 @@ func FuzzInduction(f *testing.F) {
 		"deriv(I, 1 ms)",
 		"maximize(I, 0 s, 10 ms)",
 		"export_csv(sweep(I, 0 s, 1 s, 3), \"i.csv\")",
+		// magnets, ideal sources, images, cores
+		"b_at(magnet_cylinder([0,0,0] m, [0,0,1], 5 mm, 1 cm, 1.2 T), [0,0,8] mm)",
+		"flux(magnet_block([0,0,0] m, [2,0,0] cm, [0,1,0] cm, [0,0,5] mm, 1 T), loop)",
+		"force(dipole([0,0,-3] cm, [0,0,1] A*m^2), small, 2 A)",
+		"emf(infinite_wire([0,0,0] m, [1,0,0], I), loop, 1 ms)",
+		"e_at(infinite_solenoid([0,0,0] m, [0,0,1], 1 cm, 1000/(1 m), I), [0,3,0] cm, 1 ms)",
+		"b_at(mirror(src, [0,0,-1] m, [0,0,1], 500), [0,0,0.1] m)",
+		"inductance_near_plate(small, 0.2 mm, [0,0,-1] cm, [0,0,1], 2000)",
+		"core_check(8 cm, 1 cm^2, 1 mm, 2 cm, 100, 2 A, 2000, 0.3 T)",
 	} {
 		f.Add(in)
 	}

@@ -29,6 +29,14 @@ func fieldErr(fn string, err error) error {
 		return errorf("%s: point %d lies on a wire, where a thin wire's field is infinite; move it off the wire (give the wire a radius with inductance() for energy questions)", fn, pe.Index+1)
 	case errors.Is(err, em.ErrOnWire):
 		return errorf("%s: the point lies on a wire, where a thin wire's field is infinite; move it off the wire", fn)
+	case errors.As(err, &pe) && errors.Is(err, em.ErrOnSheet):
+		return errorf("%s: point %d lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where B jumps or is infinite (and a block magnet's A is not computed); move it off", fn, pe.Index+1)
+	case errors.Is(err, em.ErrOnSheet):
+		return errorf("%s: a point lies on a current sheet (the side of a magnet or an ideal solenoid) or at a dipole, where B jumps or is infinite (and a block magnet's A is not computed); move it off", fn)
+	case errors.As(err, &pe) && errors.Is(err, em.ErrBehindPlate):
+		return errorf("%s: point %d lies behind the permeable plate the source was mirrored in, inside the material, where the images do not give the field", fn, pe.Index+1)
+	case errors.Is(err, em.ErrBehindPlate):
+		return errorf("%s: a point lies behind the permeable plate the source was mirrored in, inside the material, where the images do not give the field", fn)
 	case errors.Is(err, em.ErrOpenPath):
 		return errorf("%s: %v", fn, err)
 	}
@@ -228,7 +236,7 @@ func sampleField(env runtime.Env, fn string, f *Field, pts []em.Vec, t float64, 
 		}
 		if out[i], err = eval(x); err != nil {
 			var pe *em.PointError
-			if !errors.As(err, &pe) && errors.Is(err, em.ErrOnWire) {
+			if !errors.As(err, &pe) && (errors.Is(err, em.ErrOnWire) || errors.Is(err, em.ErrOnSheet) || errors.Is(err, em.ErrBehindPlate)) {
 				err = &em.PointError{Index: i, Err: err}
 			}
 			return nil, fieldErr(fn, err)

@@ -239,10 +239,10 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		if didt == 0 {
 			continue
 		}
-		if err := charge(env, fn, pathWeight(term.path)*nodes(loop)); err != nil {
+		if err := charge(env, fn, term.weight()*nodes(loop)); err != nil {
 			return nil, err
 		}
-		phi1, err := em.FluxThroughLoop([]em.Source{{Path: term.path, I: 1}}, loop, control(env, fn, em.DefaultTol))
+		phi1, err := em.FluxThroughLoop([]em.Source{term.em(1)}, loop, control(env, fn, em.DefaultTol))
 		if err != nil {
 			return nil, touchErr(fn, err)
 		}

@@ -77,7 +77,7 @@ func fluxPhasor(env runtime.Env, fn string, src *Source, target runtime.Value) (
 		if i == 0 {
 			continue
 		}
-		phi1, err := fluxOf(env, fn, []em.Source{{Path: term.path, I: 1}}, em.Vec{}, target)
+		phi1, err := fluxOf(env, fn, []em.Source{term.em(1)}, em.Vec{}, target)
 		if err != nil {
 			return 0, err
 		}
@@ -102,7 +102,9 @@ func fieldPhasor(env runtime.Env, fn string, which em.Which, src *Source, x em.V
 		if i == 0 {
 			continue
 		}
-		one := &Source{terms: []sourceTerm{{path: term.path, current: unit}}}
+		one1 := term
+		one1.current = unit
+		one := &Source{terms: []sourceTerm{one1}}
 		out, err := fieldsOf(env, fn, which, one, []em.Vec{x}, 0, false)
 		if err != nil {
 			return sum, err

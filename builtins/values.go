@@ -66,10 +66,43 @@ func (s *Surface) Show(digits int) string {
 func (s *Surface) Summary(digits int) string { return s.Show(digits) }
 
 // sourceTerm is a path with its current: a quantity in A, or a function of
-// time returning one.
+// time returning one. A term may instead hold a shape (a current sheet, an
+// ideal conductor, a dipole) whose per-ampere field its current scales;
+// desc then shows it. factor multiplies the current (an image in a
+// permeable plate carries (μr−1)/(μr+1) of it; 0 stands for 1), and plate
+// is the plate the source was mirrored in, behind which its field is
+// refused.
 type sourceTerm struct {
 	path    em.Path
 	current runtime.Value
+	shape   em.Shape
+	desc    func(digits int) string
+	whole   bool // desc says all, the current included (magnets, dipoles)
+	factor  float64
+	plate   *em.Plate
+}
+
+// gain is the factor the term's current is multiplied by.
+func (t sourceTerm) gain() float64 {
+	if t.factor == 0 {
+		return 1
+	}
+	return t.factor
+}
+
+// em is the term as a source of the numerical core, carrying current i
+// (before the term's factor).
+func (t sourceTerm) em(i float64) em.Source {
+	return em.Source{Path: t.path, I: i * t.gain(), Shape: t.shape, Plate: t.plate}
+}
+
+// weight is the cost of the term's field at one point (see pathWeight).
+func (t sourceTerm) weight() float64 {
+	w := pathWeight(t.path)
+	if t.shape != nil {
+		w += t.shape.Weight()
+	}
+	return w
 }
 
 // Source is a set of currents (and uniform fields) whose fields add.
@@ -94,7 +127,15 @@ func (s *Source) Show(digits int) string {
 		if f, ok := t.current.(*runtime.Func); ok {
 			cur = f.Signature()
 		}
-		parts = append(parts, fmt.Sprintf("%s in (%s)", cur, strings.TrimPrefix((&Path{t.path}).Show(digits), "path: ")))
+		what := strings.TrimPrefix((&Path{t.path}).Show(digits), "path: ")
+		if t.desc != nil {
+			what = t.desc(digits)
+		}
+		if t.whole {
+			parts = append(parts, what)
+			continue
+		}
+		parts = append(parts, fmt.Sprintf("%s in (%s)", cur, what))
 	}
 	if len(s.uniform) > 0 {
 		// uniform fields add: show their sum
@@ -111,6 +152,9 @@ func (s *Source) Plus(other runtime.Value) (runtime.Value, error) {
 	o, ok := other.(*Source)
 	if !ok {
 		return nil, errorf("a source can only be added to another source, not %s", runtime.TypeName(other))
+	}
+	if !samePlate(s, o) {
+		return nil, errorf("a source mirrored in a permeable plate can only be added to another mirrored in the same plate: add the sources first, then mirror the sum")
 	}
 	if n := len(s.terms) + len(o.terms); n > maxTerms {
 		return nil, errorf("the sum would have %d currents; a source holds at most %d (put paths that carry one current into one path with join() or repeat() instead)", n, maxTerms)
@@ -170,9 +214,29 @@ func (s *Source) sources(env runtime.Env, fn string, t float64, hasT bool) ([]em
 		if err != nil {
 			return nil, err
 		}
-		out = append(out, em.Source{Path: term.path, I: i})
+		out = append(out, term.em(i))
 	}
 	return out, nil
+}
+
+// plate is the permeable plate the source was mirrored in, or nil.
+func (s *Source) plate() *em.Plate {
+	for _, t := range s.terms {
+		if t.plate != nil {
+			return t.plate
+		}
+	}
+	return nil
+}
+
+// samePlate reports whether two sources were mirrored in the same plate
+// (or neither was).
+func samePlate(a, b *Source) bool {
+	pa, pb := a.plate(), b.plate()
+	if pa == nil || pb == nil {
+		return pa == nil && pb == nil
+	}
+	return *pa == *pb
 }
 
 func (s *Source) uniformB() em.Vec {

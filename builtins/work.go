@@ -133,6 +133,9 @@ func fieldCost(srcs []em.Source) float64 {
 	w := 0.0
 	for _, s := range srcs {
 		w += pathWeight(s.Path)
+		if s.Shape != nil {
+			w += s.Shape.Weight()
+		}
 	}
 	return w
 }

@@ -10,10 +10,15 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
-// Source is a path carrying a current in amperes.
+// Source is a path carrying a current in amperes, or a Shape (a sheet,
+// an ideal conductor, a dipole) whose per-ampere field I scales. Plate, if
+// set, is the permeable half space the source was mirrored in: its field is
+// refused behind the plate.
 type Source struct {
-	Path Path
-	I    float64
+	Path  Path
+	I     float64
+	Shape Shape
+	Plate *Plate
 }
 
 // Which selects the field a kernel computes.
@@ -50,6 +55,10 @@ type compiledSources struct {
 	// segIdx and othIdx number each entry by its place among all the
 	// primitives of all the sources, for masking (see atMasked).
 	segIdx, othIdx []int
+	// shapes and their currents, after the primitives
+	shapes  []Shape
+	shapesI []float64
+	plates  []Plate
 	// stop, if not nil, is polled by the numerical integrals of helices.
 	stop func() error
 }
@@ -58,6 +67,13 @@ func compile(srcs []Source) *compiledSources {
 	c := &compiledSources{}
 	k := 0
 	for _, s := range srcs {
+		if s.Plate != nil {
+			c.plates = append(c.plates, *s.Plate)
+		}
+		if s.Shape != nil && s.I != 0 {
+			c.shapes = append(c.shapes, s.Shape)
+			c.shapesI = append(c.shapesI, s.I)
+		}
 		for _, p := range s.Path.Prims {
 			k++
 			if s.I == 0 {
@@ -89,6 +105,11 @@ func (c *compiledSources) at(which Which, x Vec) (Vec, error) {
 // atMasked is at without the primitives whose number is set in skip (nil
 // skips none).
 func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error) {
+	for _, pl := range c.plates {
+		if pl.Behind(x) {
+			return Vec{}, ErrBehindPlate
+		}
+	}
 	var sx, sy, sz float64
 	if which == FieldB {
 		for i := range c.a {
@@ -147,6 +168,13 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 			return Vec{}, err
 		}
 		sx, sy, sz = sx+c.othersI[i]*v.X, sy+c.othersI[i]*v.Y, sz+c.othersI[i]*v.Z
+	}
+	for i, s := range c.shapes {
+		v, err := s.Field(which, x, c.stop)
+		if err != nil {
+			return Vec{}, err
+		}
+		sx, sy, sz = sx+c.shapesI[i]*v.X, sy+c.shapesI[i]*v.Y, sz+c.shapesI[i]*v.Z
 	}
 	return Vec{X: sx, Y: sy, Z: sz}, nil
 }
