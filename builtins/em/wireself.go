@@ -32,7 +32,8 @@ const (
 // current, two points of the rim for surface current. The distances have
 // the densities (the chord-length distributions of geometric
 // probability, e.g. M. G. Kendall and P. A. P. Moran, Geometrical
-// Probability, 1963; with ρ = 2a sin t)
+// Probability, 1963, from memory; with ρ = 2a sin t; the tests compare
+// the result with a quadrature over the section itself)
 //
 //	disk: p dρ = (16/π) sin t cos t (π/2 − t − sin t cos t) dt,
 //	rim:  p dρ = (2/π) dt,                       t ∈ [0, π/2].
