@@ -157,6 +157,11 @@ func TestRingUniformCurrent(t *testing.T) {
 			t.Logf("a/R=%g: L/μ0R = %.12g, reference %.12g (|Δ| %.2g, bound %.2g)", r.a, got, r.disk, d, tol)
 		}
 		res = append(res, math.Abs(got-r.disk))
+		// the help of inductance() states "within (a/R)⁴ ln(8R/a)/100"
+		// (computed here; a guard on the help, not an outside value)
+		if d := math.Abs(got - r.disk); d > math.Pow(r.a, 4)*lg/100+1e-7 {
+			t.Errorf("a/R=%g: |Δ| %.2g exceeds the help's (a/R)⁴ ln(8R/a)/100", r.a, d)
+		}
 		// the whole path route: a circle through SelfInductance
 		loop := Path{Prims: []Prim{cpMust(t)(NewCircle(Vec{Z: 0.3}, Vec{Y: 1}, 1))}}
 		l, err := SelfInductance(loop, r.a, Tol{})
