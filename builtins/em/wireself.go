@@ -108,10 +108,26 @@ func StraightWireInductance(l, a float64, mode WireCurrent) float64 {
 
 // wireKernel is the mean of 1/√(d² + ρ²) over the section, the kernel of
 // Neumann's integral between two points of a straight wire's axis d
-// apart (d2 = d²). For surface current it is a complete elliptic integral:
-// (2/π) ∫0^{π/2} dt/√(d² + 4a² sin²t) = (2/π) K(m)/√(d² + 4a²),
-// m = 4a²/(d² + 4a²).
+// apart (d2 = d²). Beyond d = 6a it is the binomial series
+// Σ C(−1/2, k) ⟨ρ^2k⟩ d^(−2k−1) (each term at most (2a/d)^2k ≤ 9^−k times
+// the first, so xsTerms terms leave below 1e-12); nearer, for surface
+// current, a complete elliptic integral, (2/π) ∫0^{π/2} dt/√(d² + 4a² sin²t)
+// = (2/π) K(m)/√(d² + 4a²), m = 4a²/(d² + 4a²); for uniform current, the
+// Gauss–Legendre mean.
 func wireKernel(mode WireCurrent, a, d2 float64) float64 {
+	if d2 >= 36*a*a {
+		mom := &xsMomDisk
+		if mode == SurfaceCurrent {
+			mom = &xsMomRim
+		}
+		// Horner in x = a²/d² of Σ c_k (⟨ρ^2k⟩/a^2k) x^k
+		x := a * a / d2
+		var sum float64
+		for k := xsTerms - 1; k >= 0; k-- {
+			sum = sum*x + mom[k]
+		}
+		return sum / math.Sqrt(d2)
+	}
 	if mode == SurfaceCurrent {
 		q := d2 + 4*a*a
 		if d2 == 0 {
@@ -123,6 +139,25 @@ func wireKernel(mode WireCurrent, a, d2 float64) float64 {
 	}
 	return xsMean(mode, a, func(rho float64) float64 { return 1 / math.Sqrt(d2+rho*rho) })
 }
+
+// xsTerms is the number of terms of wireKernel's series.
+const xsTerms = 14
+
+// xsMomDisk and xsMomRim hold C(−1/2, k)·⟨ρ^2k⟩/a^2k for the disk and the
+// rim, the means taken by the Gauss–Legendre rule (exact for these
+// trigonometric polynomials to rounding).
+var xsMomDisk, xsMomRim = func() (disk, rim [xsTerms]float64) {
+	for k := range xsTerms {
+		c := 1.0 // C(−1/2, k) = Π_{j<k} (−1/2 − j)/(j + 1)
+		for j := 0; j < k; j++ {
+			c *= (-0.5 - float64(j)) / float64(j+1)
+		}
+		pow := func(rho float64) float64 { return math.Pow(rho, float64(2*k)) }
+		disk[k] = c * xsMean(UniformCurrent, 1, pow)
+		rim[k] = c * xsMean(SurfaceCurrent, 1, pow)
+	}
+	return disk, rim
+}()
 
 // LoopSelfInductance is the self-inductance of a circular ring of radius R
 // made of round wire of radius a, by its expansion in a/R. For uniform

@@ -3,6 +3,8 @@ package em
 import (
 	"math"
 	"testing"
+
+	"gonum.org/v1/gonum/mathext"
 )
 
 // Reference means ⟨F(ρ)⟩ of F(ρ) = ∫0^ℓ∫0^ℓ dz dz′/√(ρ² + (z − z′)²) over
@@ -188,6 +190,46 @@ func TestRingSurfaceCurrent(t *testing.T) {
 			t.Errorf("a/R=%g: L/μ0R = %.12g, uniform-rim reference %.12g (|Δ| %.2g > %.2g)", r.a, got, r.rim, d, tol)
 		} else {
 			t.Logf("a/R=%g: L/μ0R = %.12g, uniform-rim reference %.12g (|Δ| %.2g, bound %.2g)", r.a, got, r.rim, d, tol)
+		}
+	}
+}
+
+// TestWireKernelSeries: the section-mean kernel is continuous where it
+// changes method (d = 6a): the series against the Gauss–Legendre mean and
+// the elliptic integral, just beyond the switch (which the series route
+// takes) compared with the direct routes evaluated there. The series'
+// truncation is below 1e-12 (its doc); tolerance 1e-12. Also its first
+// moments: ⟨ρ²⟩ = a² and ⟨ρ⁴⟩ = 5a⁴/3 for the disk (from the uniform
+// density: E|x − y|⁴ = 2E|x|⁴ + 2(E|x|²)² + 4E(x·y)² = 2/3 + 1/2 + 1/2),
+// ⟨ρ²⟩ = 2a², ⟨ρ⁴⟩ = 6a⁴ for the rim (mean of (2 sin(θ/2))^2k: 2 and 6).
+func TestWireKernelSeries(t *testing.T) {
+	const a = 1e-3
+	for _, d := range []float64{6 * a, 8 * a, 20 * a} {
+		d2 := d * d
+		series := wireKernel(UniformCurrent, a, d2)
+		direct := xsMean(UniformCurrent, a, func(rho float64) float64 { return 1 / math.Sqrt(d2+rho*rho) })
+		if e := cpRel(series, direct); e > 1e-12 {
+			t.Errorf("disk d/a=%g: series %.17g, quadrature %.17g (rel %.2g)", d/a, series, direct, e)
+		}
+		series = wireKernel(SurfaceCurrent, a, d2)
+		q := d2 + 4*a*a
+		direct = 2 / math.Pi * mathext.CompleteK(4*a*a/q) / math.Sqrt(q)
+		if e := cpRel(series, direct); e > 1e-12 {
+			t.Errorf("rim d/a=%g: series %.17g, elliptic %.17g (rel %.2g)", d/a, series, direct, e)
+		}
+	}
+	for _, c := range []struct {
+		name string
+		got  float64
+		want float64
+	}{
+		{"disk ⟨ρ²⟩", xsMomDisk[1] / -0.5, 1},
+		{"disk ⟨ρ⁴⟩", xsMomDisk[2] / 0.375, 5.0 / 3},
+		{"rim ⟨ρ²⟩", xsMomRim[1] / -0.5, 2},
+		{"rim ⟨ρ⁴⟩", xsMomRim[2] / 0.375, 6},
+	} {
+		if math.Abs(c.got-c.want) > 1e-14 {
+			t.Errorf("%s = %.17g a^k, want %.17g", c.name, c.got, c.want)
 		}
 	}
 }
