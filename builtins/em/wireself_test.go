@@ -18,6 +18,7 @@ import (
 var straightRefs = []struct{ l, disk, rim float64 }{
 	{2, 4.1172244009189312, 3.6291181689188203},
 	{10, 46.675578491399143, 42.36149546089554},
+	{100, 911.46930298850123, 862.19995277403598},
 }
 
 // TestStraightWireReference: the exact straight-wire inductance against
