@@ -3,6 +3,7 @@ package builtins_test
 import (
 	"errors"
 	"math"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -34,6 +35,7 @@ func TestHelpComplete(t *testing.T) {
 			continue
 		}
 		s := runtime.NewSession(lib)
+		s.InDir = filepath.Join("..") // examples read data files from the repository's top directory
 		for _, stmt := range strings.Split(h.Example, "\n") {
 			eval(t, s, stmt)
 		}

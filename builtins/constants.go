@@ -92,7 +92,7 @@ func Standard() runtime.Library {
 		{"complex numbers", complexFuncs()},
 		{"circuits", append(append(circuitFuncs(), linkFuncs()...), launchFuncs()...)},
 		{"vectors", vectorFuncs()},
-		{"geometry", geometryFuncs()},
+		{"geometry", append(geometryFuncs(), pathCSVFuncs()...)},
 		{"fields", sourceFuncs()},
 		{"flux and EMF", fluxFuncs()},
 		{"inductance and force", inductanceFuncs()},

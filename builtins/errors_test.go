@@ -459,6 +459,10 @@ func FuzzInduction(f *testing.F) {
 		"dowell_factor(3, 0.5 mm, 0.6 mm, 200 kHz, 1.7e-8 ohm*m)",
 		"coil_q(loop, 0.4 mm, 1 MHz, \"copper\")",
 		"coil_q_layers(small, 0.2 mm, 2, 0.25 mm, 100 kHz, \"copper\")",
+		// the wire's current, paths from files (the fuzz session reads none)
+		"inductance(loop, 0.3 mm, \"surface\")",
+		"inductance(polygon([0,0,0] m, [1,0,0] cm, [1,1,0] cm), 0.1 mm, \"uniform\")",
+		"path_from_csv(\"points.csv\", \"closed\")",
 		// tables, grids, derivatives and extrema
 		"interpolate(sweep(I, 0 s, 10 ms, 41), \"t\", 1 ms, \"I\")",
 		"where_max(sample_line(b_field(src), [0,0,-1] m, [0,0,1] m, 9), \"|B|\", \"z\")",

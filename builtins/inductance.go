@@ -51,22 +51,30 @@ func inductanceFuncs() []*runtime.Func {
 			}
 			return runtime.Quantity{V: em.MaxwellMutual(a, b, math.Abs(d)), D: dimHenry}, nil
 		}),
-		fncEnv("inductance", []string{"path", "wire_radius"}, 2, 2, &runtime.Help{
-			Signature: "inductance(path, wire_radius: length) -> H",
-			Summary:   "Low-frequency self-inductance of a path of round wire (uniform current); for an open path, e.g. a coil without its leads, the partial self-inductance.",
-			Method:    "external part by Neumann's integral: the reduced kernel 1/√(|r−r'|² + a²) where both points may lie on the same stretch of wire (a piece with itself within half a turn, pieces meeting at a joint), the exact kernel elsewhere (other pieces, other turns, coaxial rings by Maxwell's formula); plus the internal part μ0ℓ/8π; accurate to O((a/R)²) for wire thin beside the bend radius and turn spacing; pieces in parallel on all cores; the work is estimated before it starts and refused beyond the work budget (:budget)",
-			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)",
-			Reference: refInductance + "; circular loop μ0R(ln(8R/a) − 7/4)",
+		fncEnv("inductance", []string{"path", "wire_radius", "current"}, 2, 3, &runtime.Help{
+			Signature: `inductance(path, wire_radius: length[, current: "uniform" or "surface"]) -> H`,
+			Summary:   `Self-inductance of a path of round wire; for an open path, e.g. a coil without its leads, the partial self-inductance. "uniform" (the default): current spread evenly over the wire, the low-frequency value with the internal inductance μ0ℓ/8π; "surface": all current on the wire's surface, the limit when the skin depth is much smaller than the wire radius (no internal inductance). Between the two, take "uniform" and correct the internal part with internal_inductance or ac_factor (wire losses).`,
+			Method:    "sum over the path's pieces: a straight piece exactly (Neumann's volume integral as the mean over the wire's section, no thin-wire error; uniform current: μ0ℓ/2π[ln(2ℓ/a) − 3/4 + 128a/45πℓ − …]); a whole circle by its expansion μ0R[(1 + a²/8R²) ln(8R/a) − 7/4 + a²/24R²] (surface current: μ0R[ln(8R/a) − 2]); arcs and helices by the reduced kernel 1/√(|r−r'|² + a²) within half a turn plus μ0ℓ/8π (none for surface current); straight pieces that meet by the section-mean kernel, other pieces that meet by the reduced kernel, all other pairs by the exact kernel (coaxial rings by Maxwell's formula). Straight wire: exact to rounding (1e-13 against an independent quadrature); uniform-current ring: within (a/R)⁴ ln(8R/a)/100 (5e-7 μ0R at a/R = 0.1); bends and helices: O((a/R)²); a corner between straight pieces: O(a). Pieces in parallel on all cores; the work is estimated before it starts and refused beyond the work budget (:budget)",
+			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)\ninductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm, \"surface\")",
+			Reference: refInductance + "; straight wire: Rosa, Bull. Bureau of Standards 4 (1908), made exact by the chord-length densities of the section (Kendall & Moran, Geometrical Probability, 1963); ring: Wien (1894), Rosa & Grover, Bull. Bureau of Standards 8 (1912)",
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 			r := readArgs("inductance", args)
 			p, a := r.path(0), r.positiveLength(1)
 			if r.err != nil {
 				return nil, r.err
 			}
+			mode := em.UniformCurrent
+			if len(args) == 3 {
+				m, err := wireCurrent("inductance", args[2])
+				if err != nil {
+					return nil, err
+				}
+				mode = m
+			}
 			if err := charge(env, "inductance", inductanceCost(p)); err != nil {
 				return nil, err
 			}
-			l, err := em.SelfInductance(p, a, control(env, "inductance", em.DefaultTol))
+			l, err := em.SelfInductanceWith(p, a, em.SelfOptions{Tol: control(env, "inductance", em.DefaultTol), Current: mode})
 			if err != nil {
 				return nil, fieldErr("inductance", err)
 			}
@@ -154,4 +162,16 @@ func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		f = r3.Add(f, r3.Scale(i2, r3.Cross(chord, ub)))
 	}
 	return fromVec(f, dimNewton), nil
+}
+
+// wireCurrent reads how the current spreads over the wire: "uniform" or
+// "surface".
+func wireCurrent(fn string, v runtime.Value) (em.WireCurrent, error) {
+	switch s, _ := v.(string); s {
+	case "uniform":
+		return em.UniformCurrent, nil
+	case "surface":
+		return em.SurfaceCurrent, nil
+	}
+	return 0, errorf(`%s: the current is "uniform" (low frequency) or "surface" (skin depth much smaller than the wire radius), not %s`, fn, describeArg(v))
 }

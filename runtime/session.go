@@ -80,6 +80,10 @@ type Session struct {
 	// OutDir is where builtins may write files (plots, exports); empty
 	// means the session writes none. The command sets it.
 	OutDir string
+	// InDir is where builtins may read data files (ReadInput): the
+	// script's directory, or the prompt's working directory; empty means
+	// the session reads none. The command sets it.
+	InDir string
 }
 
 // OutputPath implements Env: name must be a plain relative path that stays

@@ -477,25 +477,50 @@ func MotionalEMF(loop Path, v, bfield func(x Vec) (Vec, error), tol Tol, scale f
 	}, tol, scale)
 }
 
-// SelfInductance returns the low-frequency self-inductance of a closed
-// path of round wire of radius a (uniform current in the wire):
-//
-//	L = L_ext + μ0 ℓ / 8π
-//
-// where μ0ℓ/8π is the internal inductance of a round wire of length ℓ
-// (e.g. Grover, Inductance Calculations, 1946) and L_ext is Neumann's
-// double integral with the reduced kernel 1/√(|r − r'|² + a²) (the
-// thin-wire approximation of antenna theory) wherever the two points may
-// lie on the same stretch of wire: for one primitive with itself (within
-// half a turn; the double integral depends only on the parameter
-// difference and is one adaptive integral) and for pieces that meet at a
-// joint (adaptive 2-D quadrature). Other pairs of pieces, and other turns
-// of a helix, use the exact kernel through the closed-form vector
-// potential. The method is accurate when
-// the wire is thin compared with the path's radius of curvature and the
-// spacing of its turns (error of order (a/R)²). An open path (a coil
-// without its leads) gives its partial self-inductance.
+// SelfOptions tunes SelfInductanceWith.
+type SelfOptions struct {
+	Tol Tol
+	// Current is how the current spreads over the wire's section: uniform
+	// (low frequency, the default) or on its surface (high frequency).
+	Current WireCurrent
+}
+
+// SelfInductance is SelfInductanceWith for uniform current (the
+// low-frequency inductance, internal inductance included).
 func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
+	return SelfInductanceWith(path, a, SelfOptions{Tol: tol})
+}
+
+// SelfInductanceWith returns the self-inductance of a path of round wire
+// of radius a, with the current uniform over the wire's section or on its
+// surface (opt.Current). It is a sum over the path's pieces:
+//
+//   - a straight piece with itself: exactly (StraightWireInductance: the
+//     volume integral, internal inductance included for uniform current);
+//   - a whole circle with itself: the expansion of LoopSelfInductance;
+//   - an arc or helix with itself: Neumann's integral with the reduced
+//     kernel 1/√(|r − r'|² + a²) (the thin-wire approximation of antenna
+//     theory) within half a turn (the double integral depends only on the
+//     parameter difference and is one adaptive integral), the exact
+//     filament kernel between its turns, plus the internal inductance
+//     μ0ℓ/8π of a round wire with uniform current (e.g. Grover, Inductance
+//     Calculations, 1946; none for surface current);
+//   - two straight pieces that meet: the kernel averaged over the wire's
+//     section (wireKernel), exact for two pieces in line (there from
+//     StraightWireInductance, so that a straight wire cut in two keeps its
+//     inductance), by adaptive 2-D quadrature at an angle;
+//   - other pieces that meet: the reduced kernel (adaptive 2-D quadrature);
+//   - all other pairs: the exact kernel through the closed-form vector
+//     potential, or Maxwell's formula for coaxial circles.
+//
+// Straight paths are exact; bends are accurate when the wire is thin
+// compared with the path's radius of curvature and the spacing of its
+// turns (error of order (a/R)²); a corner between straight pieces adds a
+// local error of order a. An open path (a coil without its leads) gives
+// its partial self-inductance.
+func SelfInductanceWith(path Path, a float64, opt SelfOptions) (float64, error) {
+	tol := opt.Tol
+	mode := opt.Current
 	if !(a > 0) {
 		return 0, errors.New("the wire radius must be positive")
 	}
@@ -542,7 +567,7 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 				if i >= n {
 					return
 				}
-				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, tol, all, skip)
+				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, mode, tol, all, skip)
 				done.Add(1)
 				if progress != nil {
 					// read the count under the lock, so that reports never
@@ -558,23 +583,23 @@ func SelfInductance(path Path, a float64, tol Tol) (float64, error) {
 	if e := stopErr.Load(); e != nil {
 		return 0, *e
 	}
-	var lext float64
+	var sum float64
 	for i := range terms { // fixed order: the sum does not depend on scheduling
 		if errs[i] != nil {
 			return 0, errs[i]
 		}
-		lext += terms[i]
+		sum += terms[i]
 	}
-	return lext + Mu0*path.Length()/(8*math.Pi), nil
+	return sum, nil
 }
 
-// selfInductanceTerm is piece i's share of the external inductance: its
-// reduced-kernel self term, the reduced-kernel terms with the pieces it
-// touches, Maxwell's formula with the circles coaxial with it, and the
-// circulation along it of the vector potential of all other pieces.
-func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, tol Tol, all *compiledSources, skip []bool) (float64, error) {
+// selfInductanceTerm is piece i's share of the inductance: its self term,
+// the terms with the pieces it touches, Maxwell's formula with the circles
+// coaxial with it, and the circulation along it of the vector potential of
+// all other pieces.
+func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, mode WireCurrent, tol Tol, all *compiledSources, skip []bool) (float64, error) {
 	p := prims[i]
-	sum, err := selfTerm(p, a, tol)
+	sum, err := selfTerm(p, a, mode, tol)
 	if err != nil {
 		return 0, err
 	}
@@ -583,7 +608,7 @@ func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, tol Tol, al
 	}
 	skip[i] = true
 	for _, j := range touch {
-		m, err := reducedPair(p, prims[j], a, tol)
+		m, err := jointPair(p, prims[j], a, mode, tol)
 		if err != nil {
 			return 0, err
 		}
@@ -667,17 +692,39 @@ func touching(p, q Prim, scale float64) bool {
 	return false
 }
 
-// reducedPair is μ0/4π ∫_q ∫_p dl_p·dl_q/√(|r − r'|² + a²) for two pieces
-// that meet, by adaptive 2-D quadrature (each piece split into quarter
-// turns so the peak at the joint sits at a corner of the domain).
-func reducedPair(p, q Prim, a float64, tol Tol) (float64, error) {
+// jointPair is the mutual term of two pieces that meet: for two straight
+// pieces in line, exactly from StraightWireInductance (the whole less its
+// parts, halved); for other straight pieces, the kernel averaged over the
+// section (wireKernel) by adaptive 2-D quadrature; otherwise reducedPair.
+func jointPair(p, q Prim, a float64, mode WireCurrent, tol Tol) (float64, error) {
+	if p.Kind != Segment || q.Kind != Segment {
+		return reducedPair(p, q, a, nil, tol)
+	}
+	lp, lq := p.Length(), q.Length()
+	dp, dq := r3.Sub(p.B, p.A), r3.Sub(q.B, q.A)
+	scale := math.Max(lp, lq)
+	if r3.Norm(r3.Cross(dp, dq)) <= 1e-12*lp*lq && r3.Dot(dp, dq) > 0 &&
+		(near(p.B, q.A, scale) || near(q.B, p.A, scale)) {
+		return (StraightWireInductance(lp+lq, a, mode) - StraightWireInductance(lp, a, mode) - StraightWireInductance(lq, a, mode)) / 2, nil
+	}
+	return reducedPair(p, q, a, func(d2 float64) float64 { return wireKernel(mode, a, d2) }, tol)
+}
+
+// reducedPair is μ0/4π ∫_q ∫_p dl_p·dl_q·k(|r − r'|²) for two pieces that
+// meet, by adaptive 2-D quadrature (each piece split into quarter turns so
+// the peak at the joint sits at a corner of the domain). The kernel k is
+// the reduced kernel 1/√(d² + a²) when kern is nil.
+func reducedPair(p, q Prim, a float64, kern func(d2 float64) float64, tol Tol) (float64, error) {
+	if kern == nil {
+		kern = func(d2 float64) float64 { return 1 / math.Sqrt(d2+a*a) }
+	}
 	bp, bq := primBreaks(p), primBreaks(q)
 	var sum float64
 	for i := 0; i+1 < len(bp); i++ {
 		for j := 0; j+1 < len(bq); j++ {
 			f := func(u, v float64) float64 {
 				d := r3.Sub(p.Point(u), q.Point(v))
-				return r3.Dot(p.Tangent(u), q.Tangent(v)) / math.Sqrt(r3.Dot(d, d)+a*a)
+				return r3.Dot(p.Tangent(u), q.Tangent(v)) * kern(r3.Dot(d, d))
 			}
 			scale := p.Length() * q.Length() / math.Max(p.Length()+q.Length(), 1e-300)
 			v, _, err := Integrate2(f, bp[i], bp[i+1], bq[j], bq[j+1], tol.with(tol.Rel, tol.Rel*scale*1e-3))
@@ -705,17 +752,19 @@ func acceptLoose(err error) error {
 	return err
 }
 
-// selfTerm is μ0/4π ∫∫ dl·dl'/√(|r − r'|² + a²) over one primitive with
-// itself.
-func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
+// selfTerm is the inductance of one primitive with itself: exact for a
+// straight piece, the expansion in a/R for a whole circle, and otherwise
+// μ0/4π ∫∫ dl·dl'/√(|r − r'|² + a²) plus the internal inductance.
+func selfTerm(p Prim, a float64, mode WireCurrent, tol Tol) (float64, error) {
 	if p.Kind == Segment {
-		l := p.Length()
-		return k0 * 2 * (l*math.Asinh(l/a) - math.Hypot(l, a) + a), nil
+		return StraightWireInductance(p.Length(), a, mode), nil
 	}
 	if p.IsCircle() {
-		// |r − r'|² + a² = 4R² sin²(ψ/2) + a²: the kernel of two coaxial
-		// circles of radius R, a apart, so the term is Maxwell's M(R, R, a).
-		return MaxwellMutual(p.R, p.R, a), nil
+		return LoopSelfInductance(p.R, a, mode), nil
+	}
+	internal := 0.0
+	if mode == UniformCurrent {
+		internal = Mu0 * p.Length() / (8 * math.Pi)
 	}
 	// arc or helix: with ψ = φ − φ', dl·dl' = (R² cos ψ + c²) dφ dφ' and
 	// |r − r'|² = 4R² sin²(ψ/2) + c²ψ², c the pitch per radian; the double
@@ -756,5 +805,5 @@ func selfTerm(p Prim, a float64, tol Tol) (float64, error) {
 		}
 		sum += v
 	}
-	return k0 * sum, nil
+	return k0*sum + internal, nil
 }

@@ -444,11 +444,10 @@ func TestToroid(t *testing.T) {
 // TestLoopSelfInductance: a circular loop of round wire (radius a, uniform
 // current) has L = μ0 R (ln(8R/a) − 7/4) to leading order (Grover,
 // Inductance Calculations, 1946; Jackson, 3rd ed., 1999, Problem 5.34;
-// from memory). The next terms of the expansion (Maxwell's series for
-// close coaxial circles, from memory: factors (1 + 3a²/16R²) on the log and
-// −a²/16R² beside the constant) are below (a/R)²(ln(8R/a) + 1) in units of
-// μ0R; tolerance that divided by the leading value, plus 1e-9 for the
-// quadrature (asked 1e-10).
+// from memory). The next terms, μ0R[(a²/8R²) ln(8R/a) + a²/24R²] (checked
+// against an independent quadrature in TestRingUniformCurrent), are below
+// (a/R)²(ln(8R/a) + 1) in units of μ0R; tolerance that divided by the
+// leading value, plus 1e-9.
 func TestLoopSelfInductance(t *testing.T) {
 	const R = 0.1
 	for _, ar := range []float64{1e-2, 1e-3, 1e-4} {
@@ -471,10 +470,12 @@ func TestLoopSelfInductance(t *testing.T) {
 
 // TestSelfInductanceSplitLoop: cutting a path into more pieces must not
 // change its inductance. SelfInductance uses the reduced kernel
-// 1/√(d² + a²) within a piece and between pieces that meet, and the exact
-// 1/d between pieces that do not; so the split and whole paths differ only
-// in pairs of points on non-touching pieces, at distances d ≥ ℓ/2 or so
-// (ℓ the radius or side), where the kernels differ by the factor
+// 1/√(d² + a²) within an arc and between arcs that meet, the kernel
+// averaged over the wire's section between straight pieces that meet (in
+// line: exactly), and the exact 1/d between pieces that do not; so the
+// split and whole paths differ only in pairs of points on non-touching
+// pieces, at distances d ≥ ℓ/2 or so (ℓ the radius or side), where the
+// kernels differ by the factor
 // 1 − √(1 + a²/d²)⁻¹ ≤ a²/2d² ≤ 2(a/ℓ)². Tolerance 2(a/ℓ)² relative, plus
 // 2e-9 for the quadratures (asked 1e-10). Cases: a circle as four quarter
 // arcs; a square with one side split into two collinear halves; a regular

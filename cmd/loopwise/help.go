@@ -112,7 +112,7 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 	}
 	if h.Example != "" {
 		fmt.Fprint(c.out, "  example:\n")
-		lines, shown, failed := runExample(h.Example)
+		lines, shown, failed := runExample(h.Example, c.s.InDir)
 		for _, l := range lines {
 			fmt.Fprintf(c.out, "    %s\n", l)
 		}
@@ -135,11 +135,13 @@ func (c *console) showHelp(name string, h *runtime.Help) {
 
 // runExample pastes a help example, one statement per line, into a
 // scratch console (the user's names are untouched) and returns its lines and
-// what the console printed for the last one, as a user would see it.
-func runExample(example string) (lines, shown []string, failed bool) {
+// what the console printed for the last one, as a user would see it. Data
+// files are read from inDir, as the user's console would.
+func runExample(example, inDir string) (lines, shown []string, failed bool) {
 	lines = strings.Split(example, "\n")
 	var out, errOut strings.Builder
 	scratch := newConsole(&out, &errOut)
+	scratch.s.InDir = inDir
 	for i, l := range lines {
 		if i == len(lines)-1 {
 			out.Reset()

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"path/filepath"
 	"strings"
 	"testing"
 	"unicode/utf8"
@@ -20,10 +21,13 @@ func TestHelpExamplesPaste(t *testing.T) {
 			continue
 		}
 		var help, errOut strings.Builder
-		newConsole(&help, &errOut).line(":help " + f.Name)
+		hc := newConsole(&help, &errOut)
+		hc.s.InDir = filepath.Join("..", "..")
+		hc.line(":help " + f.Name)
 		lines, shown := parseExample(t, f.Name, help.String())
 		var out, pasteErr strings.Builder
 		c := newConsole(&out, &pasteErr)
+		c.s.InDir = filepath.Join("..", "..") // examples read data files from the repository's top directory, as at a prompt started there
 		for i, l := range lines {
 			if i == len(lines)-1 {
 				out.Reset()

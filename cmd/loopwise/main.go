@@ -7,6 +7,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
 	"runtime/debug"
 	"strings"
 
@@ -206,6 +207,7 @@ func runFiles(args []string, stdout, stderr io.Writer) int {
 		if err == nil {
 			s := scriptSession(budget, stderr)
 			s.OutDir = outDirFor(f, out, len(files) > 1)
+			s.InDir = filepath.Dir(f)
 			err = sc.Run(s, stdout)
 		}
 		if err != nil {
@@ -241,7 +243,9 @@ func checkFiles(args []string, stdout, stderr io.Writer) int {
 		sc, err := load(f)
 		var rep runtime.CheckReport
 		if err == nil {
-			rep, err = sc.Check(scriptSession(budget, stderr), *tol)
+			s := scriptSession(budget, stderr)
+			s.InDir = filepath.Dir(f)
+			rep, err = sc.Check(s, *tol)
 		}
 		if err != nil {
 			if len(rep.Drifts) > 0 {
@@ -279,6 +283,7 @@ func recordFiles(args []string, stdout, stderr io.Writer) int {
 		if err == nil {
 			s := scriptSession(budget, stderr)
 			s.OutDir = outDirFor(f, out, len(files) > 1)
+			s.InDir = filepath.Dir(f)
 			data, err = sc.Record(s)
 		}
 		if err == nil {

@@ -47,7 +47,9 @@ type console struct {
 }
 
 func newConsole(out, errOut io.Writer) *console {
-	return &console{s: newSession(), out: out, errOut: errOut}
+	s := newSession()
+	s.InDir = "." // data files are read from the working directory
+	return &console{s: s, out: out, errOut: errOut}
 }
 
 // more reports whether a statement waits for its next line.

@@ -69,6 +69,7 @@ func reportFiles(args []string, stdout, stderr io.Writer) int {
 	}
 	s := scriptSession(budget, stderr)
 	s.OutDir = outDirFor(file, "", false)
+	s.InDir = filepath.Dir(file)
 	results, evalErr := sc.Evaluate(s, *tol)
 	var none *runtime.NoStatementsError
 	if errors.As(evalErr, &none) {

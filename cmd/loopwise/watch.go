@@ -13,6 +13,7 @@ import (
 	"net/http"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"strconv"
 	"sync"
 	"time"
@@ -165,6 +166,7 @@ func (w *watcher) evaluate(sum []byte) []byte {
 	if err == nil {
 		s := scriptSession(w.budget, nil)
 		s.OutDir = outDirFor(w.file, "", false)
+		s.InDir = filepath.Dir(w.file)
 		in.Results, in.Err = sc.Evaluate(s, w.tol)
 		in.Digits = s.Digits
 		var none *runtime.NoStatementsError
