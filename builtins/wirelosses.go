@@ -129,19 +129,7 @@ func wireLossFuncs() []*runtime.Func {
 			Reference: refSkinWire + "; " + refResist,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "ac_resistance"
-			l, err := fmPositive(fn, "length", args, 0, dimLength)
-			if err != nil {
-				return nil, err
-			}
-			d, err := fmPositive(fn, "diameter", args, 1, dimLength)
-			if err != nil {
-				return nil, err
-			}
-			f, err := fmNonNegative(fn, "frequency", args, 2, dimHertz)
-			if err != nil {
-				return nil, err
-			}
-			rho, err := conductor(fn, args, 3)
+			l, d, f, rho, err := wireArgs(fn, args)
 			if err != nil {
 				return nil, err
 			}
@@ -156,19 +144,7 @@ func wireLossFuncs() []*runtime.Func {
 			Reference: refSkinWire,
 		}, func(args []runtime.Value) (runtime.Value, error) {
 			const fn = "internal_inductance"
-			l, err := fmPositive(fn, "length", args, 0, dimLength)
-			if err != nil {
-				return nil, err
-			}
-			d, err := fmPositive(fn, "diameter", args, 1, dimLength)
-			if err != nil {
-				return nil, err
-			}
-			f, err := fmNonNegative(fn, "frequency", args, 2, dimHertz)
-			if err != nil {
-				return nil, err
-			}
-			rho, err := conductor(fn, args, 3)
+			l, d, f, rho, err := wireArgs(fn, args)
 			if err != nil {
 				return nil, err
 			}
@@ -253,4 +229,20 @@ func wireLossFuncs() []*runtime.Func {
 			return coilQ(env, fn, p, d, f, rho, func(delta float64) float64 { return wire.DowellFactor(m, wire.DowellDelta(d, pitch, delta)) })
 		}),
 	}
+}
+
+// wireArgs reads the arguments ac_resistance and internal_inductance share:
+// length, diameter, frequency, then the material (and its temperature).
+func wireArgs(fn string, args []runtime.Value) (l, d, f, rho float64, err error) {
+	if l, err = fmPositive(fn, "length", args, 0, dimLength); err != nil {
+		return
+	}
+	if d, err = fmPositive(fn, "diameter", args, 1, dimLength); err != nil {
+		return
+	}
+	if f, err = fmNonNegative(fn, "frequency", args, 2, dimHertz); err != nil {
+		return
+	}
+	rho, err = conductor(fn, args, 3)
+	return
 }
