@@ -308,6 +308,17 @@ func (r *ACResult) Tabulate() ([]string, []runtime.Dim, [][]float64) {
 	return cols, dims, rows
 }
 
+// RowLabels implements runtime.RowLabeller: the elements' names.
+func (r *ACResult) RowLabels() []string {
+	out := make([]string, len(r.net.c.Elements))
+	for i, e := range r.net.c.Elements {
+		out[i] = e.Name
+	}
+	return out
+}
+
+func (r *ACResult) LabelHeading() string { return "element" }
+
 func acResultArg(fn string, args []runtime.Value, i int) (*ACResult, error) {
 	r, ok := args[i].(*ACResult)
 	if !ok {

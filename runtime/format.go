@@ -310,6 +310,11 @@ func formatQuantity(q Quantity, digits int) string {
 	return FormatNumber(m, digits) + " " + ds.unitText(engPrefix[k])
 }
 
+// TableNoise is the fraction of a column's largest magnitude below which
+// a table cell is written as 0 in scripts and reports: rounding noise, as
+// for vector components.
+const TableNoise = vectorNoise
+
 // vectorNoise is the relative size below which a vector component is shown
 // as 0: smaller than the accuracy of the numerical methods (1e-10), so it is
 // rounding or quadrature noise, not information.

@@ -52,7 +52,7 @@ func gridOf(t Tabular) grid {
 	for i, r := range rows {
 		clean[i] = make([]float64, n)
 		for j := range n {
-			if math.Abs(r[j]) >= vectorNoise*big[j] {
+			if math.Abs(r[j]) >= TableNoise*big[j] {
 				clean[i][j] = r[j]
 			}
 		}

@@ -54,6 +54,14 @@ type Tabular interface {
 	Tabulate() (cols []string, dims []Dim, rows [][]float64)
 }
 
+// RowLabeller is implemented by tables whose rows are named (the elements
+// of a circuit): the report shows the names in a first column under the
+// heading. Scripts record the rows in order, without the names.
+type RowLabeller interface {
+	RowLabels() []string
+	LabelHeading() string
+}
+
 // CycleColumns is implemented by tables whose columns may hold cycle
 // frequencies (see Quantity.Cyc): such a column is shown in Hz. The slice
 // may be shorter than the columns.

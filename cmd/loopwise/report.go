@@ -328,14 +328,23 @@ func stmtView(r runtime.StatementResult, digits int) statementView {
 func tableOf(t runtime.Tabular, digits int) *tableView {
 	cols, dims, rows := t.Tabulate()
 	tv := &tableView{}
+	var labels []string
+	if l, ok := t.(runtime.RowLabeller); ok {
+		if labels = l.RowLabels(); len(labels) == len(rows) {
+			tv.Head = append(tv.Head, l.LabelHeading())
+		} else {
+			labels = nil
+		}
+	}
 	scales := make([]float64, len(cols))
+	bigs := make([]float64, len(cols))
 	for j, c := range cols {
 		big := 0.0
 		for _, r := range rows {
 			big = max(big, abs(r[j]))
 		}
 		unit, scale := runtime.ColumnUnit(t, j, dims[j], big, digits)
-		scales[j] = scale
+		scales[j], bigs[j] = scale, big
 		if unit != "" {
 			c += " [" + unit + "]"
 		}
@@ -346,9 +355,15 @@ func tableOf(t runtime.Tabular, digits int) *tableView {
 			tv.More = len(rows) - reportRows
 			break
 		}
-		cells := make([]string, len(r))
+		var cells []string
+		if labels != nil {
+			cells = append(cells, labels[i])
+		}
 		for j, x := range r {
-			cells[j] = runtime.FormatNumber(x/scales[j], digits)
+			if abs(x) < runtime.TableNoise*bigs[j] {
+				x = 0 // rounding noise, as scripts record it
+			}
+			cells = append(cells, runtime.FormatNumber(x/scales[j], digits))
 		}
 		tv.Rows = append(tv.Rows, cells)
 	}
@@ -469,7 +484,7 @@ pre code { font-size: 1em; }
 .stmt .code { margin: 0; padding: .4rem .6rem .4rem 2.8em; text-indent: -2.2em; background: var(--code); border-radius: 4px; white-space: pre-wrap; overflow-wrap: anywhere; }
 .ln { display: inline-block; min-width: 2.2em; text-indent: 0; color: var(--muted); text-decoration: none; user-select: none; }
 .result { padding: .2rem .6rem; overflow-wrap: anywhere; }
-.result output { font-weight: 600; }
+.result output { font-weight: 600; white-space: pre-wrap; }
 .mark { color: var(--muted); }
 .comment { margin: .3rem 0; color: var(--muted); white-space: pre-wrap; }
 .note { color: var(--muted); font-size: .9rem; padding: 0 .6rem; white-space: pre-wrap; }

@@ -342,3 +342,38 @@ func TestReportPlot(t *testing.T) {
 		t.Error("the plot's data is not in a table under it")
 	}
 }
+
+// TestReportNamedRows: an AC solution's table in the report names each
+// row by its element.
+func TestReportNamedRows(t *testing.T) {
+	c := newConsole(&bytes.Buffer{}, &bytes.Buffer{})
+	c.line(`sol = ac_solve(circuit(voltage_source("V1", "a", "0", 10 V), resistor("R1", "a", "b", 3 ohm), inductor("L1", "b", "0", 1 mH)), 1 kHz)`)
+	v, ok := c.s.Lookup("sol")
+	if !ok {
+		t.Fatal("sol was not assigned")
+	}
+	tv := tableOf(v.(runtime.Tabular), 6)
+	if tv.Head[0] != "element" || len(tv.Rows) != 3 || tv.Rows[0][0] != "V1" || tv.Rows[2][0] != "L1" {
+		t.Fatalf("head %q, rows %q", tv.Head, tv.Rows)
+	}
+}
+
+// noisyTable has a cell that is rounding noise against its column.
+type noisyTable struct{}
+
+func (noisyTable) Kind() string       { return "a table" }
+func (noisyTable) Show(int) string    { return "" }
+func (noisyTable) Summary(int) string { return "" }
+func (noisyTable) Tabulate() ([]string, []runtime.Dim, [][]float64) {
+	return []string{"x"}, []runtime.Dim{{}}, [][]float64{{53.5}, {-2.2e-12}, {1e-3}}
+}
+
+// TestReportNoiseCells: a cell below runtime.TableNoise of its column's
+// largest magnitude shows as 0 in the report, as scripts record it; a
+// small value above it stays.
+func TestReportNoiseCells(t *testing.T) {
+	tv := tableOf(noisyTable{}, 6)
+	if got := []string{tv.Rows[1][0], tv.Rows[2][0]}; got[0] != "0" || got[1] != "0.001" {
+		t.Errorf("cells %q, want 0 and 0.001", got)
+	}
+}
