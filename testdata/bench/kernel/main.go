@@ -67,7 +67,7 @@ func main() {
 	best := math.Inf(1)
 	for r := 0; r < repeats; r++ {
 		start := time.Now()
-		if err := em.Fields(em.FieldB, srcs, pts, out, 0, nil); err != nil {
+		if err := em.Fields(em.FieldB, srcs, pts, out, 0, nil, nil); err != nil {
 			fail(err)
 		}
 		best = math.Min(best, time.Since(start).Seconds())
