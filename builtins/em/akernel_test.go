@@ -249,3 +249,40 @@ func TestSegmentsASkip(t *testing.T) {
 	}
 	t.Logf("%d middles of masked segments tried", mids)
 }
+
+// TestInductanceRoutes: self-inductance of a 40-turn rectangular toroidal
+// winding and the mutual inductance of two 200-segment coils, by the flat
+// loop and by the per-segment route. The integrands differ by a few ε
+// (TestSegmentsAFlat), so the adaptive quadratures may at most refine
+// differently: the results must agree within the requested relative
+// accuracy, DefaultTol.Rel = 1e-10 (a guard against drift between the two
+// routes; the values themselves are checked against outside references by
+// the other inductance tests, e.g. TestToroid).
+func TestInductanceRoutes(t *testing.T) {
+	tor := akToroid(t, 40, 0.02, 0.03, 0.01)
+	c1 := cpPolyCoil(t, 0.02, 0, 0.02, 4, 50)
+	c2 := cpPolyCoil(t, 0.015, 0.03, 0.02, 4, 50)
+	run := func() (l, m float64) {
+		var err error
+		if l, err = SelfInductance(tor, 0.25e-3, DefaultTol); err != nil {
+			t.Fatal(err)
+		}
+		if m, err = Mutual(c1, c2, MutualOptions{NoFastPath: true}); err != nil {
+			t.Fatal(err)
+		}
+		return l, m
+	}
+	lf, mf := run()
+	var lr, mr float64
+	withPerSegmentA(func() { lr, mr = run() })
+	for _, c := range []struct {
+		name      string
+		flat, ref float64
+	}{{"toroid self-inductance", lf, lr}, {"mutual inductance", mf, mr}} {
+		rel := math.Abs(c.flat-c.ref) / math.Abs(c.ref)
+		if rel > DefaultTol.Rel {
+			t.Errorf("%s: flat %.17g H, per-segment %.17g H (rel %.2g > %.2g)", c.name, c.flat, c.ref, rel, DefaultTol.Rel)
+		}
+		t.Logf("%s: %.15g H, routes differ by %.2g relative", c.name, c.flat, rel)
+	}
+}
