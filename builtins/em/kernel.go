@@ -47,9 +47,12 @@ func (e *PointError) Unwrap() error { return e.Err }
 // compiledSources flattens sources: straight segments into arrays for the
 // hot loop, everything else kept as primitives.
 type compiledSources struct {
-	a, b    []Vec     // segment ends
-	l       []float64 // segment lengths
-	segI    []float64 // segment currents
+	a, b []Vec     // segment ends
+	l    []float64 // segment lengths
+	segI []float64 // segment currents
+	// flat holds the segments again for the vector-potential loop
+	// (segmentsA), one record each, in the same order as a and b.
+	flat    []flatSeg
 	others  []Prim
 	othersI []float64
 	// segIdx and othIdx number each entry by its place among all the
@@ -85,6 +88,7 @@ func compile(srcs []Source) *compiledSources {
 				c.l = append(c.l, r3.Norm(r3.Sub(p.B, p.A)))
 				c.segI = append(c.segI, s.I)
 				c.segIdx = append(c.segIdx, k-1)
+				c.flat = append(c.flat, newFlatSeg(p.A, p.B, s.I))
 			} else {
 				c.others = append(c.others, p)
 				c.othersI = append(c.othersI, s.I)
@@ -142,16 +146,11 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 			sz += f * cz
 		}
 	} else {
-		for i := range c.a {
-			if skip != nil && skip[c.segIdx[i]] {
-				continue
-			}
-			v, err := SegmentA(c.a[i], c.b[i], x)
-			if err != nil {
-				return Vec{}, err
-			}
-			sx, sy, sz = sx+c.segI[i]*v.X, sy+c.segI[i]*v.Y, sz+c.segI[i]*v.Z
+		ax, ay, az, err := c.segmentsA(x, skip)
+		if err != nil {
+			return Vec{}, err
 		}
+		sx, sy, sz = ax, ay, az
 	}
 	for i, p := range c.others {
 		if skip != nil && skip[c.othIdx[i]] {
