@@ -11,10 +11,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
-	"sync"
-	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -257,52 +254,15 @@ func TraceInductance(path Path, w, t float64, tol Tol) (float64, error) {
 		}
 	}
 	n := len(path.Prims)
-	rows := make([]float64, n)
-	errs := make([]error, n)
-	var next, done atomic.Int64
-	var stopErr atomic.Pointer[error]
-	var mu sync.Mutex
-	var wg sync.WaitGroup
 	progress := tol.Progress
 	tol.Progress = nil
+	rowTol := tol
+	rowTol.Progress = progress
 	// row i holds piece i's self term and its mutual terms with the pieces
-	// after it; rows are shared among the cores and summed in a fixed
-	// order, so the result does not depend on scheduling
-	for k := 0; k < min(runtime.GOMAXPROCS(0), n); k++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				if err := tol.stopped(); err != nil {
-					stopErr.CompareAndSwap(nil, &err)
-					return
-				}
-				i := int(next.Add(1)) - 1
-				if i >= n {
-					return
-				}
-				rows[i], errs[i] = traceRow(path.Prims, i, w, t, g, tol)
-				d := done.Add(1)
-				if progress != nil {
-					mu.Lock()
-					progress(int(d), n)
-					mu.Unlock()
-				}
-			}
-		}()
-	}
-	wg.Wait()
-	if e := stopErr.Load(); e != nil {
-		return 0, *e
-	}
-	var sum float64
-	for i := range rows {
-		if errs[i] != nil {
-			return 0, errs[i]
-		}
-		sum += rows[i]
-	}
-	return sum, nil
+	// after it; sumRows adds the rows in a fixed order
+	return sumRows(n, rowTol, func() func(i int) (float64, error) {
+		return func(i int) (float64, error) { return traceRow(path.Prims, i, w, t, g, tol) }
+	})
 }
 
 // traceRow is piece i's self term plus twice its mutual terms with the

@@ -4,10 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"sort"
-	"sync"
-	"sync/atomic"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -545,52 +542,16 @@ func SelfInductanceWith(path Path, a float64, opt SelfOptions) (float64, error) 
 	nb := touchingPairs(path.Prims, scale)
 	all := compile([]Source{{Path: path, I: 1}})
 	all.stop = tol.Stop
-	terms := make([]float64, n)
-	errs := make([]error, n)
-	var next, done atomic.Int64
-	var stopErr atomic.Pointer[error]
-	var mu sync.Mutex
-	var wg sync.WaitGroup
 	progress := tol.Progress
 	tol.Progress = nil // the pieces report here, not their line integrals
-	for w := 0; w < min(runtime.GOMAXPROCS(0), n); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			skip := make([]bool, n)
-			for {
-				if err := tol.stopped(); err != nil {
-					stopErr.CompareAndSwap(nil, &err)
-					return
-				}
-				i := int(next.Add(1)) - 1
-				if i >= n {
-					return
-				}
-				terms[i], errs[i] = selfInductanceTerm(path.Prims, i, nb[i], a, mode, tol, all, skip)
-				done.Add(1)
-				if progress != nil {
-					// read the count under the lock, so that reports never
-					// go backwards and the last one is n
-					mu.Lock()
-					progress(int(done.Load()), n)
-					mu.Unlock()
-				}
-			}
-		}()
-	}
-	wg.Wait()
-	if e := stopErr.Load(); e != nil {
-		return 0, *e
-	}
-	var sum float64
-	for i := range terms { // fixed order: the sum does not depend on scheduling
-		if errs[i] != nil {
-			return 0, errs[i]
+	rowTol := tol
+	rowTol.Progress = progress
+	return sumRows(n, rowTol, func() func(i int) (float64, error) {
+		skip := make([]bool, n)
+		return func(i int) (float64, error) {
+			return selfInductanceTerm(path.Prims, i, nb[i], a, mode, tol, all, skip)
 		}
-		sum += terms[i]
-	}
-	return sum, nil
+	})
 }
 
 // selfInductanceTerm is piece i's share of the inductance: its self term,
