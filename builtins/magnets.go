@@ -235,11 +235,8 @@ func magnetFuncs() []*runtime.Func {
 			if r.err != nil {
 				return nil, r.err
 			}
-			k, err := imageFactor(fn, mur)
+			k, err := plateFactor(fn, mur, p, n, path)
 			if err != nil {
-				return nil, err
-			}
-			if err := inFront(fn, path, p, n); err != nil {
 				return nil, err
 			}
 			if d := nearest(path, p, n); d < a {
@@ -277,14 +274,9 @@ func magnetFuncs() []*runtime.Func {
 			if r.err != nil {
 				return nil, r.err
 			}
-			k, err := imageFactor(fn, mur)
+			k, err := plateFactor(fn, mur, p, n, p1, p2)
 			if err != nil {
 				return nil, err
-			}
-			for _, q := range []em.Path{p1, p2} {
-				if err := inFront(fn, q, p, n); err != nil {
-					return nil, err
-				}
 			}
 			img := p2.Mirror(p, n)
 			if err := charge(env, fn, mutualCost(p1, p2)+mutualCost(p1, img)); err != nil {
@@ -453,4 +445,19 @@ func mirrorSource(fn string, src *Source, p, n em.Vec, mur float64) (*Source, er
 		out.terms = append(out.terms, img)
 	}
 	return out, nil
+}
+
+// plateFactor checks μr and that every path lies in front of the plate's
+// face, and returns the image factor (μr − 1)/(μr + 1).
+func plateFactor(fn string, mur float64, p, n em.Vec, paths ...em.Path) (float64, error) {
+	k, err := imageFactor(fn, mur)
+	if err != nil {
+		return 0, err
+	}
+	for _, q := range paths {
+		if err := inFront(fn, q, p, n); err != nil {
+			return 0, err
+		}
+	}
+	return k, nil
 }
