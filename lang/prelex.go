@@ -59,7 +59,10 @@ const PlaceholderPrefix = "__L"
 // literal is a number followed (optionally after spaces) by a unit
 // expression written without spaces: "5 mT", "3 A/ms", "2 kg*m^2/s^2",
 // "9.81 m/s^2", "4 ohm". A unit may also follow a closing ']' or ')' to
-// scale a vector or a parenthesised expression: "[0, 0, 5] mm".
+// scale a vector or a parenthesised expression: "[0, 0, 5] mm". Such a
+// unit binds to the bracketed operand (with the name of a call or an
+// indexed value before it), not to everything before it:
+// "10 V / (3 + 4j) ohm" is 10 V divided by (3 + 4j) Ω.
 func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten, error) {
 	r := []rune(src)
 	w := &Rewritten{origLen: len(r)}
@@ -86,6 +89,62 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 		}
 		w.Lits = append(w.Lits, Literal{Placeholder: ph, Number: num, Unit: unit, Off: off, UnitOff: uoff})
 		return ph
+	}
+	// Brackets in out: open holds the indices of the unclosed ones, openOf
+	// maps the index of each closing one to its opening one, and
+	// insertBefore counts the '(' to insert before an index of out when
+	// the statement is done (a postfix unit groups its operand; inserting
+	// at the end keeps every recorded index valid).
+	var open []int
+	openOf := map[int]int{}
+	insertBefore := map[int]int{}
+	// operandStart is where the operand ending with the bracket at out[k]
+	// starts: its opening bracket, preceded by a name ("sqrt(2)", "v[1]")
+	// or by further bracketed groups ("f(a)(b)").
+	operandStart := func(k int) int {
+		p, ok := openOf[k]
+		if !ok {
+			return -1
+		}
+		for p > 0 {
+			prev := out[p-1]
+			if q, ok := openOf[p-1]; ok && (prev == ')' || prev == ']') {
+				p = q
+				continue
+			}
+			if isIdentPart(prev) {
+				for p > 0 && (isIdentPart(out[p-1]) || out[p-1] == '.') {
+					p--
+				}
+				continue
+			}
+			// a power binds tighter than the unit: "10^(-3) m" is
+			// (10^(-3)) m, so the operand takes in the power's base
+			q := p
+			for q > 0 && out[q-1] == ' ' {
+				q--
+			}
+			if q > 0 && out[q-1] == '^' || q > 1 && out[q-1] == '*' && out[q-2] == '*' {
+				q--
+				if out[q] == '*' {
+					q--
+				}
+				for q > 0 && out[q-1] == ' ' {
+					q--
+				}
+				if q > 0 && (isIdentPart(out[q-1]) || out[q-1] == ')' || out[q-1] == ']') {
+					p = q
+					if c, ok := openOf[q-1]; ok {
+						p = c
+					} else if !isIdentPart(out[q-1]) {
+						break
+					}
+					continue
+				}
+			}
+			break
+		}
+		return p
 	}
 	// unitAfter looks for a unit expression starting at or after spaces from
 	// j; it returns its start and end, or -1 when the next word is not a unit.
@@ -215,7 +274,16 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			ph := newLit(num, word, i, us)
 			emit(ph, i)
 			i = ue
+		case c == '(' || c == '[':
+			open = append(open, len(out))
+			copyRange(i, i+1)
+			i++
 		case c == ']' || c == ')':
+			if n := len(open); n > 0 {
+				openOf[len(out)] = open[n-1]
+				open = open[:n-1]
+			}
+			closeAt := len(out)
 			copyRange(i, i+1)
 			us, ue, err := unitAfter(i + 1)
 			if err != nil {
@@ -234,12 +302,30 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 				return nil, errAt(us, k-us+1, "a power after the unit %q that follows a bracket is ambiguous: write the power on the unit without spaces (%s^2) or put the whole in brackets", Abbrev(string(r[us:ue]), 40), Abbrev(string(r[us:ue]), 40))
 			}
 			ph := newLit("", string(r[us:ue]), us, us)
-			emit("*"+ph, us)
+			if p := operandStart(closeAt); p >= 0 {
+				insertBefore[p]++
+				emit("*"+ph+")", us)
+			} else {
+				emit("*"+ph, us)
+			}
 			i = ue
 		default:
 			copyRange(i, i+1)
 			i++
 		}
+	}
+	if len(insertBefore) > 0 {
+		grouped := make([]rune, 0, len(out)+len(insertBefore))
+		orig := make([]int, 0, len(out)+len(insertBefore))
+		for k, c := range out {
+			for range insertBefore[k] {
+				grouped = append(grouped, '(')
+				orig = append(orig, w.orig[k])
+			}
+			grouped = append(grouped, c)
+			orig = append(orig, w.orig[k])
+		}
+		out, w.orig = grouped, orig
 	}
 	w.Src = string(out)
 	return w, nil

@@ -54,8 +54,16 @@ func TestRewriteLiterals(t *testing.T) {
 		{"2 kg*m^2/s^2", "__L0", []lang.Literal{lit("__L0", "2", "kg*m^2/s^2", 0, 2)}},
 		{"1.5 W/(m*K)", "__L0", []lang.Literal{lit("__L0", "1.5", "W/(m*K)", 0, 4)}},
 		{"2 m^-2", "__L0", []lang.Literal{lit("__L0", "2", "m^-2", 0, 2)}},
-		{"[0, 0, 5] mm", "[0, 0, 5]*__L0", []lang.Literal{lit("__L0", "", "mm", 10, 10)}},
-		{"(2+3) mm", "(2+3)*__L0", []lang.Literal{lit("__L0", "", "mm", 6, 6)}},
+		{"[0, 0, 5] mm", "([0, 0, 5]*__L0)", []lang.Literal{lit("__L0", "", "mm", 10, 10)}},
+		{"(2+3) mm", "((2+3)*__L0)", []lang.Literal{lit("__L0", "", "mm", 6, 6)}},
+		// A unit after a bracket binds to the bracketed operand, with the
+		// name of a call before it and the base of a power.
+		{"10 A / (3 + x) mm", "__L0 / ((3 + x)*__L1)", []lang.Literal{lit("__L0", "10", "A", 0, 3), lit("__L1", "", "mm", 15, 15)}},
+		{"1 / sqrt(4) m", "1 / (sqrt(4)*__L0)", []lang.Literal{lit("__L0", "", "m", 12, 12)}},
+		{"1 / 10^(-3) m", "1 / (10^(-3)*__L0)", []lang.Literal{lit("__L0", "", "m", 12, 12)}},
+		{"1 / (2) ** (2) m", "1 / ((2) ** (2)*__L0)", []lang.Literal{lit("__L0", "", "m", 15, 15)}},
+		{"a / f(b)(c) m", "a / (f(b)(c)*__L0)", []lang.Literal{lit("__L0", "", "m", 12, 12)}},
+		{"([1, 2] mm)", "(([1, 2]*__L0))", []lang.Literal{lit("__L0", "", "mm", 8, 8)}},
 		// A space ends the unit: s is a name here, multiplied.
 		{"2 m * s", "__L0 * s", []lang.Literal{lit("__L0", "2", "m", 0, 2)}},
 		// The degree sign starts a unit symbol (°C).
@@ -103,8 +111,9 @@ func TestRewriteOrig(t *testing.T) {
 		// The expression of an assignment: offsets are into "5 µT + y".
 		{"y = 5 µT + y", []int{0, 0, 0, 0, 4, 5, 6, 7, 8}},
 		{"2 m * s", []int{0, 0, 0, 0, 3, 4, 5, 6, 7}},
-		// "[0, 0, 5]*__L0": the inserted "*" and the placeholder map to mm.
-		{"[0, 0, 5] mm", []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 10, 10, 10, 10, 10, 12}},
+		// "([0, 0, 5]*__L0)": the inserted "(" maps to the "[", the
+		// inserted "*", the placeholder and the closing ")" to mm.
+		{"[0, 0, 5] mm", []int{0, 0, 1, 2, 3, 4, 5, 6, 7, 8, 10, 10, 10, 10, 10, 10, 12}},
 		// The "0" put in front of ".5" maps to the ".".
 		{".5 + 1", []int{0, 0, 1, 2, 3, 4, 5, 6}},
 		{"µ + 5 mT", []int{0, 1, 2, 3, 4, 4, 4, 4, 8}},

@@ -43,6 +43,8 @@ func TestComplexArithmetic(t *testing.T) {
 		{"(3 ohm + 4j ohm) * 2 A", 6, 8, "V", 0},
 		{"2 A * (3 + 4j) ohm", 6, 8, "V", 0},
 		{"10 V / ((3 + 4j) ohm)", 1.2, -1.6, "A", 2},
+		// a unit after a bracket binds to the bracket, not to the quotient
+		{"10 V / (3 + 4j) ohm", 1.2, -1.6, "A", 2},
 		{"-(1 + 2j) mH", -1e-3, -2e-3, "H", 0},
 		{"(1 + 2j) mH - 1 mH", 0, 2e-3, "H", 1},
 		{"j^2", -1, 0, "", 0},

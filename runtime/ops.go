@@ -401,7 +401,7 @@ func angleNote(a, b Dim) string {
 	case k == 0:
 		return ""
 	case a.IsZero() || b.IsZero():
-		return "; an angle is not a plain number: write the number with a unit (0.5 rad, 30 deg), or divide the angle by 1 rad for its value in radians"
+		return "; an angle is not a plain number: if the plain number is an angle in radians (as a phase 2*pi*f*t is), multiply it by 1 rad; otherwise write the number with a unit (0.5 rad, 30 deg), or divide the angle by 1 rad for its value in radians"
 	case (a == dFreq && b == dAngle.Div(dTime)) || (b == dFreq && a == dAngle.Div(dTime)):
 		return "; a frequency (Hz, s^-1) counts cycles, an angular velocity (rad/s) turns an angle: an angular velocity is a frequency times 1 rev (one cycle is 2π rad), a frequency is an angular velocity divided by 1 rev; a bare 2*pi*f becomes rad/s times 1 rad"
 	}

@@ -25,7 +25,8 @@ Numbers and units
   A unit follows a number, with or without a space: 5 mT, 3 A/ms, 2 kg*m^2/s^2.
   Compound units are written without spaces; a space ends the unit (2 m * s
   multiplies by a name s). Prefixes q r y z a f p n u µ m c d da h k M G T P E
-  Z Y R Q; u = micro.
+  Z Y R Q; u = micro. A unit after ) or ] scales that bracket:
+  10 V / (3 + 4j) ohm is 10 V over (3 + 4j) ohm.
   Angles are a dimension: 90 deg, 1 rev (2π rad), 3000 rpm (314.159 rad/s).
   Hz counts cycles: (50 Hz * 1 rev) as rad/s is the angular frequency;
   2*pi*f is a rate in s^-1. sin, cos, tan take an angle or radians.
