@@ -107,6 +107,15 @@ func findDisplay(d Dim) display {
 			}
 		}
 	}
+	// reluctance, 1/H, is shown as magnetic circuits write it: A/Wb (ampere
+	// turns per weber), not S/s
+	if d == dHenry.Pow(-1) {
+		for i, n := range displayNamed {
+			if n.sym == "A" {
+				return mk(i, 1, "/Wb")
+			}
+		}
+	}
 	// 2. a named unit over a simple unit, or times a power of the metre:
 	// the simplest such unit wins (a plain unit before a squared one), then
 	// the earlier named unit (N/m rather than J/m^2, T/s rather than V/m^2)

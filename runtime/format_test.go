@@ -225,6 +225,7 @@ func TestDisplayUnitOf(t *testing.T) {
 		{"kg/m^3", []string{"kg/m^3"}, "[SI] Table 5 mass density"},
 		{"A/m^2", []string{"A/m^2"}, "[SI] Table 5 current density"},
 		{"A/m", []string{"A/m"}, "[SI] Table 5 magnetic field strength"},
+		{"1/H", []string{"A/Wb", "H^-1"}, "reluctance, as magnetic-circuit texts write it (common practice)"},
 		{"V/m", []string{"V/m"}, "[SI] Table 6 electric field strength"},
 		{"C/m^2", []string{"C/m^2"}, "[SI] Table 6 surface charge density"},
 		{"F/m", []string{"F/m"}, "[SI] Table 6 permittivity"},
