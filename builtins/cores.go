@@ -161,7 +161,7 @@ func coreFuncs() []*runtime.Func {
 			return runtime.Quantity{V: core{lg: lg, ac: ac, window: g}.fringing()}, nil
 		}),
 		fnc("core_reluctance", []string{"path_length", "area", "gap", "window", "mu_r"}, 5, 5, &runtime.Help{
-			Signature: "core_reluctance(" + geom + ", mu_r: dimensionless) -> H^-1 (shown as S/s, the same unit, unless written as H^-1)",
+			Signature: "core_reluctance(" + geom + ", mu_r: dimensionless) -> H^-1 (shown as A/Wb, the same unit)",
 			Summary:   "Reluctance of a gapped core: l_c/(μ0μr A_c) + l_g/(μ0 A_c F), F the fringing factor (1 when the window is 0 m). Lumped model: one mean path, μr ≫ 1, gap ≪ pole size (core_check says which hold).",
 			Example:   "core_reluctance(80 mm, 1 cm^2, 1 mm, 20 mm, 2000) as H^-1",
 			Reference: refCores,
