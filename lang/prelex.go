@@ -33,6 +33,12 @@ type Rewritten struct {
 	Lits    []Literal
 	orig    []int // rune index in Src -> rune offset in the original expression
 	origLen int   // rune length of the original expression
+	// PMs counts the uncertain values (a ± b) in the expression; the k-th
+	// (from 0, in the order they end) became PMFunc(a, b, k), or
+	// PMRelFunc(a, r, k) for a relative uncertainty "a ± r %".
+	PMs int
+	// PMOffs holds each one's rune offset of the ± in the expression.
+	PMOffs []int
 }
 
 // Orig maps a rune offset in Src back to the rune offset in the expression
@@ -46,6 +52,13 @@ func (w *Rewritten) Orig(i int) int {
 	}
 	return w.orig[i]
 }
+
+// PMFunc and PMRelFunc are the calls an uncertain value "a ± b" (also
+// written "a +- b") and "a ± r %" become.
+const (
+	PMFunc    = "__pm"
+	PMRelFunc = "__pmrel"
+)
 
 // badChars are characters the expression engine would give a meaning
 // Loopwise does not have (variables like $env, predicates #).
@@ -97,7 +110,47 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 	// at the end keeps every recorded index valid).
 	var open []int
 	openOf := map[int]int{}
-	insertBefore := map[int]int{}
+	insertBefore := map[int][]string{}
+	// levels tracks, for every open bracket and for the whole expression,
+	// where its current operand starts in out (after the bracket or the
+	// last comma) and where a ± in it was written (-1: none), so that
+	// "a ± b" becomes PMFunc(a, b, k) over exactly that operand.
+	type level struct{ start, pm, pmSrc int }
+	levels := []level{{0, -1, 0}}
+	closePM := func() error {
+		lv := &levels[len(levels)-1]
+		if lv.pm < 0 {
+			return nil
+		}
+		fn := PMFunc
+		k := len(out) - 1
+		for k > lv.pm && out[k] == ' ' {
+			k--
+		}
+		if k <= lv.pm+1 {
+			return errAt(lv.pmSrc, 1, "± needs an uncertainty after it, as in 12 mm ± 0.1 mm")
+		}
+		if out[k] == '%' {
+			fn = PMRelFunc
+			out = append(out[:k], out[k+1:]...)
+			w.orig = append(w.orig[:k], w.orig[k+1:]...)
+		}
+		insertBefore[lv.start] = append([]string{fn + "("}, insertBefore[lv.start]...)
+		emit(fmt.Sprintf(", %d)", w.PMs), w.orig[len(w.orig)-1])
+		w.PMs++
+		w.PMOffs = append(w.PMOffs, lv.pmSrc)
+		lv.pm = -1
+		return nil
+	}
+	pmAt := func(i int) int { // width of a ± at r[i], 0 if none
+		if r[i] == '±' {
+			return 1
+		}
+		if r[i] == '+' && i+1 < len(r) && r[i+1] == '-' && i > 0 && r[i-1] == ' ' && (i+2 == len(r) || r[i+2] == ' ') {
+			return 2 // "a +- b", spaced, is a ± (a +-b stays a + (-b))
+		}
+		return 0
+	}
 	// operandStart is where the operand ending with the bracket at out[k]
 	// starts: its opening bracket, preceded by a name ("sqrt(2)", "v[1]")
 	// or by further bracketed groups ("f(a)(b)").
@@ -274,11 +327,36 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			ph := newLit(num, word, i, us)
 			emit(ph, i)
 			i = ue
+		case pmAt(i) > 0:
+			lv := &levels[len(levels)-1]
+			if lv.pm >= 0 {
+				return nil, errAt(i, pmAt(i), "a second ± in one value; write (a ± b) with brackets around each uncertain value")
+			}
+			if strings.TrimSpace(string(out[lv.start:])) == "" {
+				return nil, errAt(i, pmAt(i), "± needs a value before it, as in 12 mm ± 0.1 mm")
+			}
+			lv.pm, lv.pmSrc = len(out), i
+			emit(", ", i)
+			i += pmAt(i)
+		case c == ',':
+			if err := closePM(); err != nil {
+				return nil, err
+			}
+			copyRange(i, i+1)
+			levels[len(levels)-1].start = len(out)
+			i++
 		case c == '(' || c == '[':
 			open = append(open, len(out))
 			copyRange(i, i+1)
+			levels = append(levels, level{len(out), -1, 0})
 			i++
 		case c == ']' || c == ')':
+			if err := closePM(); err != nil {
+				return nil, err
+			}
+			if len(levels) > 1 {
+				levels = levels[:len(levels)-1]
+			}
 			if n := len(open); n > 0 {
 				openOf[len(out)] = open[n-1]
 				open = open[:n-1]
@@ -303,7 +381,7 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			}
 			ph := newLit("", string(r[us:ue]), us, us)
 			if p := operandStart(closeAt); p >= 0 {
-				insertBefore[p]++
+				insertBefore[p] = append([]string{"("}, insertBefore[p]...)
 				emit("*"+ph+")", us)
 			} else {
 				emit("*"+ph, us)
@@ -314,13 +392,19 @@ func Rewrite(s *Statement, src string, srcOff int, units UnitNames) (*Rewritten,
 			i++
 		}
 	}
+	levels = levels[:1]
+	if err := closePM(); err != nil {
+		return nil, err
+	}
 	if len(insertBefore) > 0 {
 		grouped := make([]rune, 0, len(out)+len(insertBefore))
 		orig := make([]int, 0, len(out)+len(insertBefore))
 		for k, c := range out {
-			for range insertBefore[k] {
-				grouped = append(grouped, '(')
-				orig = append(orig, w.orig[k])
+			for _, text := range insertBefore[k] {
+				for _, c := range text {
+					grouped = append(grouped, c)
+					orig = append(orig, w.orig[k])
+				}
 			}
 			grouped = append(grouped, c)
 			orig = append(orig, w.orig[k])

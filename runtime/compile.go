@@ -32,7 +32,7 @@ const (
 // engineNames are the function names the patcher inserts; no other name
 // starting with "__" may reach the engine.
 var engineNames = func() map[string]bool {
-	m := map[string]bool{fnCall: true, fnArg: true, fnVec: true, fnComp: true, fnBool: true, fnCond: true, "__neg": true}
+	m := map[string]bool{fnCall: true, fnArg: true, fnVec: true, fnComp: true, fnBool: true, fnCond: true, "__neg": true, lang.PMFunc: true, lang.PMRelFunc: true}
 	for _, fn := range binaryOps {
 		m[fn] = true
 	}
@@ -368,7 +368,8 @@ func (s *Session) compile(st *lang.Statement, src string, off int, params []stri
 	}
 	pt := &patcher{lits: lits, negs: negs, negOf: map[*ast.ConstantNode]Quantity{}, params: pm, known: s.known, names: s.Names, p: p}
 	opts := append([]expr.Option{}, opOptions...)
-	opts = append(opts, expr.Patch(pt), expr.Function(fnCall, s.callFunc))
+	opts = append(opts, expr.Patch(pt), expr.Function(fnCall, s.callFunc),
+		expr.Function(lang.PMFunc, s.pmFunc(false)), expr.Function(lang.PMRelFunc, s.pmFunc(true)))
 	if frame != nil {
 		opts = append(opts, expr.Function(fnArg, func(a ...any) (any, error) { return frame.arg(a[0].(int)), nil }))
 	}
@@ -461,7 +462,16 @@ var tokenName = regexp.MustCompile(`(Operator|Bracket|Identifier|Number|String)\
 
 // run evaluates a compiled program against the session's names.
 func (s *Session) run(p *program) (Value, error) {
-	out, err := expr.Run(p.prog, s.vars)
+	env := s.vars
+	if s.unc.env != nil {
+		env = s.unc.env // an evaluation with an uncertain input moved
+	}
+	return s.runEnv(p, env)
+}
+
+// runEnv runs p with the names in env.
+func (s *Session) runEnv(p *program, env map[string]Value) (Value, error) {
+	out, err := expr.Run(p.prog, env)
 	if err != nil {
 		return nil, p.engineError(err, false)
 	}

@@ -80,6 +80,7 @@ type Session struct {
 	// OutDir is where builtins may write files (plots, exports); empty
 	// means the session writes none. The command sets it.
 	OutDir string
+	unc uncState // uncertain inputs and the values moved by them
 	// InDir is where builtins may read data files (ReadInput): the
 	// script's directory, or the prompt's working directory; empty means
 	// the session reads none. The command sets it.
@@ -159,6 +160,9 @@ type Result struct {
 	// Cautions are the safety cautions the library attaches to the value;
 	// they are part of the result and recorded in scripts.
 	Cautions []string
+	// Contributions are the uncertain inputs' parts in the value's
+	// standard uncertainty (nil when it reads none; see uncertain.go).
+	Contributions []Contribution
 }
 
 // shadowNote is the note for a name that hides a builtin.
@@ -200,6 +204,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	}()
 	s.depth, s.tooDeep, s.work = 0, false, 0
 	s.interrupted.Store(false)
+	s.unc.stmtPM, s.unc.label, s.unc.cur, s.unc.env = nil, nil, nil, nil
 	switch st.Kind {
 	case lang.Empty:
 		return &Result{Stmt: st}, nil
@@ -212,6 +217,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if err != nil {
 		return nil, err
 	}
+	s.unc.label = pmLabeller(st, p.rw)
 	v, err := s.run(p)
 	if err != nil && s.interrupted.Load() {
 		// One short message instead of the chain of calls it stopped in.
@@ -228,6 +234,19 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	v = markCycles(v, st.As)
 	unit := st.As
 	note := ""
+	copies, perr := s.propagate(p)
+	if perr != nil {
+		if s.interrupted.Load() {
+			e := st.Errorf(0, utf8.RuneCountInString(st.Text), "interrupted; nothing was changed")
+			e.Cause = ErrInterrupted
+			return nil, e
+		}
+		if causeOf(perr) == ErrBudget {
+			return nil, s.stopped(st, fmt.Errorf("while carrying the uncertainty: %w", perr))
+		}
+		note = "note: the uncertainty is not carried: " + perr.Error()
+		copies = nil
+	}
 	if st.Kind == lang.Assign {
 		note = s.shadowNote(st.Name)
 		if unit != "" { // a bad "as" unit must not leave the name assigned
@@ -238,6 +257,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		if err := s.assign(st, v); err != nil {
 			return nil, err
 		}
+		s.setWorlds(st.Name, copies)
 		if unit == "" {
 			unit = s.declared[st.Name]
 		} else {
@@ -259,6 +279,15 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		text = sh.Summary(s.Digits) // a name for a table; show it by typing its name
 	}
 	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
+	contribs := s.contributions(v, copies)
+	if u := combined(contribs); u != nil {
+		if t, err := FormatUncertain(v, u, unit, s.Digits, false); err == nil {
+			text = t
+		}
+		if t, err := FormatUncertain(v, u, unit, max(RecordDigits, s.Digits), true); err == nil {
+			rec = t
+		}
+	}
 	if sh, ok := v.(Shower); ok {
 		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script
 	}
@@ -269,7 +298,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			cautions = append(cautions, strings.Join(strings.Fields(c), " ")) // one line in a script
 		}
 	}
-	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions}
+	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, More: moreLines(res)})
 	return res, nil
 }
@@ -422,6 +451,14 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 		}
 		return nil, err
 	}
+	if p.rw.PMs > 0 {
+		if had {
+			s.kinds[st.Name] = prev
+		} else {
+			delete(s.kinds, st.Name)
+		}
+		return nil, st.Errorf(st.ExprOff+p.rw.PMOffs[0], 1, "an uncertain value (±) cannot be written inside a function; assign it to a name first (r = 10 mm ± 0.1 mm) and use the name")
+	}
 	n := len(st.Params)
 	f := &Func{Name: st.Name, Params: st.Params, Body: st.Expr, MinArgs: n, MaxArgs: n}
 	where := st.Base.String()
@@ -443,6 +480,7 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 	}
 	s.vars[st.Name] = f
 	s.kinds[st.Name] = kindUserFunc
+	s.setWorlds(st.Name, nil)
 	delete(s.shownAs, st.Name)
 	delete(s.declared, st.Name)
 	text := "defined " + f.Signature()
