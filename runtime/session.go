@@ -80,7 +80,7 @@ type Session struct {
 	// OutDir is where builtins may write files (plots, exports); empty
 	// means the session writes none. The command sets it.
 	OutDir string
-	unc uncState // uncertain inputs and the values moved by them
+	unc    uncState // uncertain inputs and the values moved by them
 	// InDir is where builtins may read data files (ReadInput): the
 	// script's directory, or the prompt's working directory; empty means
 	// the session reads none. The command sets it.

@@ -56,9 +56,9 @@ type uncState struct {
 	inputs []Input
 	// worlds[name][id] holds name's value with input id moved down and up.
 	worlds map[string]map[int][2]Value
-	cur    *world         // the world being evaluated, nil for the estimate
+	cur    *world           // the world being evaluated, nil for the estimate
 	env    map[string]Value // the names as the current world sees them
-	stmtPM []int          // input ids of the running statement's ±, by order
+	stmtPM []int            // input ids of the running statement's ±, by order
 	label  func(k int) string
 }
 
