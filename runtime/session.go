@@ -234,7 +234,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	v = markCycles(v, st.As)
 	unit := st.As
 	note := ""
-	copies, perr := s.propagate(p)
+	copies, perr := s.propagate(p, v)
 	if perr != nil {
 		if s.interrupted.Load() {
 			e := st.Errorf(0, utf8.RuneCountInString(st.Text), "interrupted; nothing was changed")

@@ -153,9 +153,13 @@ func (s *Session) readsInputs(expr string) []int {
 
 // propagate evaluates the compiled statement p in the worlds of the
 // inputs it reads (see the comment at the top of this file). It returns
-// the values by input id, or nil when it reads none; err, if a moved
+// the values by input id, or nil when it reads none or v, the value as
+// written, is shown and not kept (a plot); err, if a moved
 // evaluation fails, says which input and how.
-func (s *Session) propagate(p *program) (map[int][2]Value, error) {
+func (s *Session) propagate(p *program, v Value) (map[int][2]Value, error) {
+	if _, ok := components(v); !ok && p.st.Kind != lang.Assign {
+		return nil, nil // a plot or a table shown once: nothing reads its moved values
+	}
 	ids := s.readsInputs(p.st.Expr)
 	for _, id := range s.unc.stmtPM {
 		ids = append(ids, id)
@@ -356,7 +360,11 @@ func roundPair(y, u float64, digits int) (string, string) {
 	}
 	dec := 1 - e // decimals that keep two significant digits of u
 	if dec >= 0 {
-		return strconv.FormatFloat(y, 'f', dec, 64), strconv.FormatFloat(u, 'f', dec, 64)
+		// scale and round before formatting, so that a value shown in a
+		// prefixed unit (1234.5 V as 1.2345 kV, just below in binary)
+		// rounds as its decimal digits read
+		q := math.Pow10(dec)
+		return strconv.FormatFloat(math.Round(y*q)/q, 'f', dec, 64), strconv.FormatFloat(math.Round(u*q)/q, 'f', dec, 64)
 	}
 	q := math.Pow10(-dec)
 	return strconv.FormatFloat(math.Round(y/q)*q, 'f', 0, 64), strconv.FormatFloat(math.Round(u/q)*q, 'f', 0, 64)
