@@ -216,3 +216,79 @@ func TestInductanceAKernels(t *testing.T) {
 		}
 	})
 }
+
+// TestAKernelsNearLine: the kernels flag exactly the segments the scalar
+// loop hands to SegmentA (its test, h² ≤ (nearLineA·(R1 + R2))², written
+// out here as there) at random points, many beside a segment's line and
+// half within 1% of the test's threshold there, on either side. The
+// kernels use the same operations in the same order, without fused
+// multiply-adds (Go fuses none either with the default GOAMD64=v1), so
+// the flags should agree bit for bit; this test cannot see a change in
+// the last bit of h², though: there h² itself carries an error of about
+// ε·L/h ≈ 1e-3 relative (r1 × ê cancels), so a point within an ulp of
+// the threshold is too rare to place. It checks the masks, lanes and
+// blocks.
+func TestAKernelsNearLine(t *testing.T) {
+	forAKernels(t, func(t *testing.T, k *aKernel) {
+		rng := rand.New(rand.NewPCG(12, 4))
+		near := 0
+		for range 400 {
+			c := compile(akSources(t, rng))
+			n := len(c.flat)
+			for j := range 50 {
+				x := akPoint(rng, c)
+				if j%2 == 1 {
+					// near the test's threshold, h ≈ nearLineA·(R1 + R2),
+					// beside a segment (R1 + R2 ≈ L there)
+					i := rng.IntN(n)
+					a, b := c.a[i], c.b[i]
+					d := r3.Sub(b, a)
+					u := akUnit(rng)
+					perp := r3.Unit(r3.Sub(u, r3.Scale(r3.Dot(u, d)/r3.Norm2(d), d)))
+					foot := r3.Add(a, r3.Scale(0.05+0.9*rng.Float64(), d))
+					x = r3.Add(foot, r3.Scale(nearLineA*r3.Norm(d)*(1+0.01*(2*rng.Float64()-1)), perp))
+				}
+				var want, got []int
+				for i := range c.flat {
+					s := &c.flat[i]
+					r1x, r1y, r1z := s.ax-x.X, s.ay-x.Y, s.az-x.Z
+					r2x, r2y, r2z := s.bx-x.X, s.by-x.Y, s.bz-x.Z
+					n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
+					n2 := math.Sqrt(r2x*r2x + r2y*r2y + r2z*r2z)
+					cx, cy, cz := r1y*s.ez-r1z*s.ey, r1z*s.ex-r1x*s.ez, r1x*s.ey-r1y*s.ex
+					h2 := cx*cx + cy*cy + cz*cz
+					if g := nearLineA * (n1 + n2); h2 <= g*g {
+						want = append(want, i)
+					}
+				}
+				for lo := 0; lo < n; {
+					b0 := lo / aLanes
+					_, _, _, done, flags := k.run(&c.ablk[b0*aBlock], (n-1)/aLanes-b0+1, float64(lo), float64(n), float64(b0*aLanes), x.X, x.Y, x.Z)
+					if flags == 0 {
+						break
+					}
+					b := b0 + done - 1
+					for j := range aLanes {
+						if flags&(1<<j) != 0 {
+							got = append(got, b*aLanes+j)
+						}
+					}
+					lo = (b + 1) * aLanes
+				}
+				if len(got) != len(want) {
+					t.Fatalf("point %v: %s flags segments %v, the scalar test %v", x, k.name, got, want)
+				}
+				for i := range got {
+					if got[i] != want[i] {
+						t.Fatalf("point %v: %s flags segments %v, the scalar test %v", x, k.name, got, want)
+					}
+				}
+				near += len(want)
+			}
+		}
+		if near < 1000 {
+			t.Fatalf("only %d segments near a point's line", near)
+		}
+		t.Logf("%d segments flagged by both", near)
+	})
+}
