@@ -1,6 +1,12 @@
 package em
 
-import "math"
+import (
+	"bytes"
+	"math"
+	"math/bits"
+	"sort"
+	"unsafe"
+)
 
 // flatSeg is one straight segment prepared for the vector-potential loop:
 // its ends, its unit direction and length, and μ0/4π times its current,
@@ -57,6 +63,16 @@ func (c *compiledSources) segmentsA(x Vec, skip []bool) (float64, float64, float
 	if segmentsAHook != nil {
 		return segmentsAHook(c, x, skip)
 	}
+	if k := aVector; k != nil && len(c.flat) > 0 {
+		return c.segmentsAVec(k, x, skip)
+	}
+	return c.segmentsAScalar(x, skip)
+}
+
+// segmentsAScalar is segmentsA one segment at a time: the fallback where
+// no vector kernel runs, and the reference the vector kernels are tested
+// against.
+func (c *compiledSources) segmentsAScalar(x Vec, skip []bool) (float64, float64, float64, error) {
 	var sx, sy, sz float64
 	for k := range c.flat {
 		if skip != nil && skip[c.segIdx[k]] {
@@ -102,3 +118,127 @@ func (c *compiledSources) segmentsA(x Vec, skip []bool) (float64, float64, float
 
 // bad reports a NaN or an infinity.
 func bad(v float64) bool { return math.IsNaN(v) || math.IsInf(v, 0) }
+
+// The vector kernels (akernel_amd64.s) compute segmentsA for eight or four
+// segments at a time. They are written by hand in assembly because Go has
+// no vector types or intrinsics, its compiler does not vectorise loops,
+// and neither its standard library nor gonum has a vector logarithm; the
+// square roots, the divisions and the logarithm are nearly all the time
+// inductance takes.
+//
+// They read the segments in blocks of aLanes, each block holding aRows
+// rows of aLanes values (ax, ay, az, bx, by, bz, ex, ey, ez, l, μ0/4π·I),
+// so that one row of a block is one vector load.
+const (
+	aLanes = 8
+	aRows  = 11
+	aBlock = aLanes * aRows
+)
+
+// aKernel is one vector kernel. run sums, over the nb blocks starting at
+// p, the terms of the segments numbered lo ≤ k < hi (the first block's
+// first segment is numbered first), skipping those near their line. It
+// stops after the first block that holds such a segment and returns the
+// number of blocks done and that block's mask of near-line segments (bit
+// j for its segment j; 0 if none).
+type aKernel struct {
+	name  string
+	lanes int
+	run   func(p *float64, nb int, lo, hi, first, x, y, z float64) (sx, sy, sz float64, done int, flags uint64)
+}
+
+// aVector is the kernel segmentsA uses, the best of aKernels the CPU has
+// (nil: none, the scalar loop). Tests and benchmarks switch it.
+var aVector = bestAKernel()
+
+func bestAKernel() *aKernel {
+	if len(aKernels) == 0 {
+		return nil
+	}
+	return aKernels[len(aKernels)-1]
+}
+
+// aBlocks lays the flat records out in blocks for the vector kernels. The
+// lanes after the last segment are zero; the kernels never add them.
+func aBlocks(flat []flatSeg) []float64 {
+	nb := (len(flat) + aLanes - 1) / aLanes
+	out := make([]float64, nb*aBlock)
+	for k, s := range flat {
+		b := out[(k/aLanes)*aBlock+k%aLanes:]
+		for r, v := range [aRows]float64{s.ax, s.ay, s.az, s.bx, s.by, s.bz, s.ex, s.ey, s.ez, s.l, s.ki} {
+			b[r*aLanes] = v
+		}
+	}
+	return out
+}
+
+// segmentsAVec is segmentsA by the vector kernel k. The skip mask cuts the
+// segments into runs (a mask usually sets a few pieces: those that touch
+// the one being integrated along); segments near their line are handed to
+// SegmentA as in the scalar loop. The lanes are summed separately and
+// then together, so the sum differs from the scalar loop's in rounding
+// only (TestSegmentsAVector). A sum that is not finite is done again by
+// the scalar loop, so that refusals (ErrOnWire) are the scalar loop's.
+func (c *compiledSources) segmentsAVec(k *aKernel, x Vec, skip []bool) (float64, float64, float64, error) {
+	var acc [3]float64
+	n := len(c.flat)
+	lo := 0
+	if skip != nil {
+		// a []bool holds one byte 0 or 1 per element
+		mask := unsafe.Slice((*byte)(unsafe.Pointer(unsafe.SliceData(skip))), len(skip))
+		for j := 0; lo < n; j++ {
+			d := bytes.IndexByte(mask[j:], 1)
+			if d < 0 {
+				break
+			}
+			j += d
+			// segIdx is increasing: is primitive j the segment numbered lo + i?
+			i := sort.SearchInts(c.segIdx[lo:], j)
+			if lo+i < n && c.segIdx[lo+i] == j {
+				if err := c.aRun(k, lo, lo+i, x, &acc); err != nil {
+					return 0, 0, 0, err
+				}
+				lo += i + 1
+			}
+		}
+	}
+	if err := c.aRun(k, lo, n, x, &acc); err != nil {
+		return 0, 0, 0, err
+	}
+	if bad(acc[0]) || bad(acc[1]) || bad(acc[2]) {
+		return c.segmentsAScalar(x, skip)
+	}
+	return acc[0], acc[1], acc[2], nil
+}
+
+// aRun adds to acc the terms of the segments lo ≤ k < hi by the kernel,
+// those near their line by SegmentA.
+func (c *compiledSources) aRun(k *aKernel, lo, hi int, x Vec, acc *[3]float64) error {
+	for lo < hi {
+		b0 := lo / aLanes
+		nb := (hi-1)/aLanes - b0 + 1
+		sx, sy, sz, done, flags := k.run(&c.ablk[b0*aBlock], nb, float64(lo), float64(hi), float64(b0*aLanes), x.X, x.Y, x.Z)
+		acc[0] += sx
+		acc[1] += sy
+		acc[2] += sz
+		if flags == 0 {
+			return nil
+		}
+		b := b0 + done - 1
+		for ; flags != 0; flags &= flags - 1 {
+			s := &c.flat[b*aLanes+bits.TrailingZeros64(flags)]
+			v, err := SegmentA(Vec{X: s.ax, Y: s.ay, Z: s.az}, Vec{X: s.bx, Y: s.by, Z: s.bz}, x)
+			if err != nil {
+				return err
+			}
+			acc[0] += s.i * v.X
+			acc[1] += s.i * v.Y
+			acc[2] += s.i * v.Z
+		}
+		lo = (b + 1) * aLanes
+	}
+	return nil
+}
+
+// aNearLine is nearLineA for the vector kernels, which read it from here.
+var aNearLine = nearLineA

@@ -22,15 +22,20 @@ func akToroid(tb testing.TB, n int, rIn, rOut, hgt float64) Path {
 }
 
 // akRoutes runs a benchmark for the per-segment route (SegmentA for each
-// segment, as before the flat loop) and for the flat loop, in the same run,
-// so that their ratio is measured on the same machine at the same time.
+// segment, as before the flat loop), the flat scalar loop and each vector
+// kernel the CPU has, in the same run, so that their ratios are measured
+// on the same machine at the same time.
 func akRoutes(b *testing.B, f func(b *testing.B)) {
 	b.Run("per-segment", func(b *testing.B) { withPerSegmentA(func() { f(b) }) })
-	b.Run("flat", f)
+	b.Run("scalar", func(b *testing.B) { withAKernel(nil, func() { f(b) }) })
+	for _, k := range aKernels {
+		b.Run(k.name, func(b *testing.B) { withAKernel(k, func() { f(b) }) })
+	}
 }
 
 // BenchmarkSegmentAKernel: the vector potential of a 1000-segment coil at
-// 100 points off it, reported per segment–point interaction.
+// 100 points off it, reported per segment–point interaction (time and
+// rate).
 func BenchmarkSegmentAKernel(b *testing.B) {
 	coil := cpPolyCoil(b, 0.02, 0, 0.02, 10, 100)
 	c := compile([]Source{{Path: coil, I: 1}})
@@ -50,7 +55,9 @@ func BenchmarkSegmentAKernel(b *testing.B) {
 				sink += v.X
 			}
 		}
-		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(pts)*len(c.a)), "ns/interaction")
+		n := float64(b.N * len(pts) * len(c.a))
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/n, "ns/interaction")
+		b.ReportMetric(n/b.Elapsed().Seconds(), "interactions/s")
 		if math.IsNaN(sink) {
 			b.Fatal("NaN")
 		}
@@ -83,4 +90,39 @@ func BenchmarkMutual1000(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkSegmentAGoSum times, per segment, what the other split of the
+// work between assembly and Go would leave to Go: reading the skip mask
+// and adding w·ê for weights w the assembly would have written to a
+// buffer (here given). segmentsAVec instead adds w·ê in the kernels and
+// cuts the segments into runs at the skipped ones; this figure against
+// BenchmarkSegmentAKernel's per-interaction time is why.
+func BenchmarkSegmentAGoSum(b *testing.B) {
+	coil := cpPolyCoil(b, 0.02, 0, 0.02, 10, 100)
+	c := compile([]Source{{Path: coil, I: 1}})
+	w := make([]float64, len(c.flat))
+	for i := range w {
+		w[i] = 1 + float64(i%7)
+	}
+	skip := make([]bool, len(coil.Prims))
+	skip[3], skip[4], skip[5] = true, true, true
+	var sink float64
+	for b.Loop() {
+		var sx, sy, sz float64
+		for k := range c.flat {
+			if skip[c.segIdx[k]] {
+				continue
+			}
+			s := &c.flat[k]
+			sx += w[k] * s.ex
+			sy += w[k] * s.ey
+			sz += w[k] * s.ez
+		}
+		sink += sx + sy + sz
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(c.flat)), "ns/interaction")
+	if math.IsNaN(sink) {
+		b.Fatal("NaN")
+	}
 }

@@ -132,7 +132,8 @@ func akScale(c *compiledSources, x Vec, skip []bool) (float64, int) {
 	return s, n
 }
 
-// TestSegmentsAFlat: the flat loop against the per-segment closed form
+// TestSegmentsAFlat: the flat loop (segmentsAScalar, called directly, so
+// that it is tested on every machine, vector kernels or not) against the per-segment closed form
 // (SegmentA, the code it replaced) at 20 000 random points, a fifth each
 // anywhere, near a segment's end, near its line, on its line beyond an end
 // and on the segment, with and without a skip mask. Both must refuse the
@@ -158,7 +159,7 @@ func TestSegmentsAFlat(t *testing.T) {
 					skip[i] = rng.IntN(3) == 0
 				}
 			}
-			fx, fy, fz, ferr := c.segmentsA(x, skip)
+			fx, fy, fz, ferr := c.segmentsAScalar(x, skip)
 			rx, ry, rz, rerr := refSegmentsA(c, x, skip)
 			if (ferr != nil) != (rerr != nil) {
 				t.Fatalf("trial %d point %v: flat error %v, per-segment error %v", trial, x, ferr, rerr)
@@ -190,7 +191,9 @@ func TestSegmentsAFlat(t *testing.T) {
 	t.Logf("%d points compared, %d on a wire refused by both; largest difference %.3g ε·S", checked, onWire, worst)
 }
 
-// TestSegmentsASkip: segments skipped by the mask add nothing, exactly: the
+// TestSegmentsASkip: segments skipped by the mask add nothing to the
+// scalar loop, exactly (the vector kernels' masks are checked against it
+// in TestSegmentsAVector): the
 // masked sum equals, bit for bit, the sum over sources built without those
 // segments (the same terms in the same order), and a point on a skipped
 // segment is no longer on a wire.
@@ -216,8 +219,8 @@ func TestSegmentsASkip(t *testing.T) {
 		ck := compile(kept)
 		for range 20 {
 			x := akPoint(rng, c)
-			fx, fy, fz, ferr := c.segmentsA(x, skip)
-			kx, ky, kz, kerr := ck.segmentsA(x, nil)
+			fx, fy, fz, ferr := c.segmentsAScalar(x, skip)
+			kx, ky, kz, kerr := ck.segmentsAScalar(x, nil)
 			if (ferr == nil) != (kerr == nil) || fx != kx || fy != ky || fz != kz {
 				t.Fatalf("trial %d: masked (%v %v %v, %v), without the pieces (%v %v %v, %v)", trial, fx, fy, fz, ferr, kx, ky, kz, kerr)
 			}
@@ -232,13 +235,13 @@ func TestSegmentsASkip(t *testing.T) {
 			if _, err := SegmentA(c.a[k], c.b[k], mid); !errors.Is(err, ErrOnWire) {
 				continue // rounding took the middle off the wire
 			}
-			if _, _, _, err := ck.segmentsA(mid, nil); err != nil {
+			if _, _, _, err := ck.segmentsAScalar(mid, nil); err != nil {
 				continue // a kept segment passes through it too
 			}
-			if _, _, _, err := c.segmentsA(mid, nil); !errors.Is(err, ErrOnWire) {
+			if _, _, _, err := c.segmentsAScalar(mid, nil); !errors.Is(err, ErrOnWire) {
 				t.Fatalf("trial %d: the middle of segment %d is not refused without the mask: %v", trial, i, err)
 			}
-			if _, _, _, err := c.segmentsA(mid, skip); err != nil {
+			if _, _, _, err := c.segmentsAScalar(mid, skip); err != nil {
 				t.Fatalf("trial %d: segment %d is masked but still refuses its middle: %v", trial, i, err)
 			}
 			mids++

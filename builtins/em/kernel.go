@@ -53,6 +53,7 @@ type compiledSources struct {
 	// flat holds the segments again for the vector-potential loop
 	// (segmentsA), one record each, in the same order as a and b.
 	flat    []flatSeg
+	ablk    []float64 // flat again in blocks for the vector kernels (aBlocks)
 	others  []Prim
 	othersI []float64
 	// segIdx and othIdx number each entry by its place among all the
@@ -96,6 +97,7 @@ func compile(srcs []Source) *compiledSources {
 			}
 		}
 	}
+	c.ablk = aBlocks(c.flat)
 	return c
 }
 

@@ -16,13 +16,14 @@ import (
 // builtins/em, the wire-loss numerics builtins/wire, the circuit solver
 // builtins/circuit and the ODE integrator builtins/ode know nothing of the
 // language; the drawing package builtins/draw takes plain data and knows
-// nothing of it either; only cmd
+// nothing of it either; builtins/em reads the CPU's features (x/sys/cpu)
+// to choose its vector kernels; only cmd
 // touches the terminal (liner).
 var allowedImports = map[string][]string{
 	"lang":          {},
 	"runtime":       {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
 	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "loopwise/builtins/circuit", "loopwise/builtins/ode", "gonum.org/v1/gonum"},
-	"builtins/em":   {"gonum.org/v1/gonum"},
+	"builtins/em":   {"gonum.org/v1/gonum", "golang.org/x/sys/cpu"},
 	"builtins/wire": {"gonum.org/v1/gonum"},
 	"builtins/ode":  {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},
