@@ -1,0 +1,157 @@
+package runtime_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"loopwise/lang"
+	"loopwise/runtime"
+)
+
+// Sources of the checks below: JCGM 100:2008, Evaluation of measurement
+// data — Guide to the expression of uncertainty in measurement (the GUM):
+// §5.1.2 eq. (10), the law of propagation for uncorrelated inputs; §5.1.6
+// eq. (12), its form for a product of powers, (u(y)/y)² = Σ (p_i·u(x_i)/x_i)²;
+// §5.2.2 eq. (13), correlated inputs (a difference of one input with itself
+// has zero uncertainty, r = 1); §7.2.6, u quoted to at most two significant
+// digits and the estimate rounded to match.
+
+// uncRun evaluates lines in a fresh session and returns the last result.
+func uncRun(t *testing.T, lines ...string) *runtime.Result {
+	t.Helper()
+	s := stdSession()
+	var res *runtime.Result
+	for i, l := range lines {
+		r, err := s.Eval(lang.Pos{File: "u.lw", Line: i + 1, Col: 1}, l)
+		if err != nil {
+			t.Fatalf("%s: %v", l, err)
+		}
+		res = r
+	}
+	return res
+}
+
+// uOf is the combined standard uncertainty of a one-number result.
+func uOf(t *testing.T, r *runtime.Result) float64 {
+	t.Helper()
+	if len(r.Contributions) == 0 {
+		t.Fatalf("%s: no uncertainty carried", r.Stmt.Text)
+	}
+	var s float64
+	for _, c := range r.Contributions {
+		s += c.CU[0] * c.CU[0]
+	}
+	return math.Sqrt(s)
+}
+
+// TestUncertainProductOfPowers: P = I²·R with u(I)/I = 2 % and
+// u(R)/R = 1 %: GUM eq. (12) gives u(P)/P = √((2·0.02)² + 0.01²). A
+// square and a product are exact under a central difference, so the
+// agreement is to rounding: 1e-12.
+func TestUncertainProductOfPowers(t *testing.T) {
+	r := uncRun(t, "I = 2 A ± 2 %", "R = 5 ohm ± 0.05 ohm", "P = I^2 * R")
+	want := 20 * math.Sqrt(math.Pow(2*0.02, 2)+0.01*0.01)
+	if got := uOf(t, r); math.Abs(got/want-1) > 1e-12 {
+		t.Errorf("u(P) = %.15g W, GUM eq. (12) %.15g W", got, want)
+	}
+	if r.Text != "20.00 W ± 0.82 W" {
+		t.Errorf("shown %q", r.Text)
+	}
+	if len(r.Contributions) != 2 || r.Contributions[0].Input.Label != "I" || r.Contributions[1].Input.Label != "R" {
+		t.Errorf("contributions %+v", r.Contributions)
+	}
+}
+
+// TestUncertainCorrelation: the same input read twice is one input (GUM
+// §5.2, r = 1): r − r and r/r have zero uncertainty, and 2r − r has u(r).
+func TestUncertainCorrelation(t *testing.T) {
+	for _, c := range []struct {
+		expr string
+		want float64
+	}{{"r - r", 0}, {"r / r", 0}, {"2*r - r", 0.1e-3}, {"f(r) - r", 0.1e-3}} {
+		r := uncRun(t, "r = 10 mm ± 0.1 mm", "f(x) = 2*x", c.expr)
+		if got := uOf(t, r); math.Abs(got-c.want) > 1e-15 {
+			t.Errorf("%s: u = %g, want %g", c.expr, got, c.want)
+		}
+	}
+	// a name read inside a user function's body counts too
+	r := uncRun(t, "r = 10 mm ± 0.1 mm", "g(x) = x * r", "g(3)")
+	if got := uOf(t, r); math.Abs(got-0.3e-3) > 1e-15 {
+		t.Errorf("g(3) = 3r: u = %g, want 3e-4", got)
+	}
+}
+
+// TestUncertainThroughBuiltins: the field at the centre of a ring,
+// B = μ0·I/(2r) (Jackson, Classical Electrodynamics, 3rd ed., 1999, §5.5),
+// with u(r)/r = 1 % and u(I)/I = 0.5 %: a product of powers, so GUM
+// eq. (12) gives u(B)/B = √(0.01² + 0.005²). The radius enters through the
+// path (a circle built from r) and the current through the source. The
+// central difference of 1/r with step u is off by (u/r)² = 1e-4 relative
+// from the derivative: tolerance 2e-4.
+func TestUncertainThroughBuiltins(t *testing.T) {
+	r := uncRun(t, "R = 20 mm ± 0.2 mm", "I = 3 A ± 0.5 %", "ring = circle([0, 0, 0] m, [0, 0, 1], R)", "b_at(source(ring, I), [0, 0, 0] m)")
+	if len(r.Contributions) != 2 {
+		t.Fatalf("contributions %+v", r.Contributions)
+	}
+	var u2 float64
+	for _, c := range r.Contributions {
+		u2 += c.CU[2] * c.CU[2] // the z component
+	}
+	b := 4e-7 * math.Pi * 3 / (2 * 0.02)
+	want := b * math.Sqrt(0.01*0.01+0.005*0.005)
+	if got := math.Sqrt(u2); math.Abs(got/want-1) > 2e-4 {
+		t.Errorf("u(B_z) = %.6g T, GUM eq. (12) %.6g T", got, want)
+	}
+}
+
+// TestUncertainRounding: GUM §7.2.6 — u to two significant digits, the
+// estimate to the same decimal place, in the value's unit, both written as
+// entered.
+func TestUncertainRounding(t *testing.T) {
+	for _, c := range []struct{ in, want string }{
+		{"x = 12 mm ± 0.1 mm", "12.00 mm ± 0.10 mm"},
+		{"x = 100.02147 g ± 0.35 mg", "100.02147 g ± 0.00035 g"},
+		{"x = 1.234567 ± 0.000123", "1.23457 ± 0.00012"},
+		{"x = 1234.5 V ± 23 V", "1.235 kV ± 0.023 kV"},
+		{"x = 5 A ± 0.0996 A", "5.00 A ± 0.10 A"},
+		{"x = 7.3 H ± 12 H", "7 H ± 12 H"},
+		{"x = 10 mm ± 0 mm", "10 mm ± 0 mm"},
+	} {
+		r := uncRun(t, c.in)
+		if r.Text != c.want {
+			t.Errorf("%s: shown %q, want %q", c.in, r.Text, c.want)
+		}
+	}
+}
+
+// TestUncertainErrors: bad uncertain values are positioned errors.
+func TestUncertainErrors(t *testing.T) {
+	for _, c := range []struct{ in, want string }{
+		{"x = 5 m ± 1 s", "must measure what the value does"},
+		{"x = 5 m ±", "needs an uncertainty after it"},
+		{"x = ± 5 m", "needs a value before it"},
+		{"x = 5 m ± 1 m ± 2 m", "a second ± in one value"},
+		{"x = 5 m ± -1 m", "finite number ≥ 0"},
+		{"x = [1, 2, 3] m ± 1 m", "give each component of a vector its own ±"},
+		{"f(x) = x ± 1", "cannot be written inside a function"},
+		{"x = 2 A ± 3 A %", "a plain number of percent"},
+	} {
+		s := stdSession()
+		_, err := s.Eval(lang.Pos{File: "u.lw", Line: 1, Col: 1}, c.in)
+		if err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "u.lw:1:") {
+			t.Errorf("%s: got %v, want a positioned error with %q", c.in, err, c.want)
+		}
+	}
+}
+
+// TestUncertainPlusMinusSpelling: "+-" with spaces is ±; "a +-b" stays a
+// sum with a negative number.
+func TestUncertainPlusMinusSpelling(t *testing.T) {
+	if r := uncRun(t, "x = 3 mm +- 0.1 mm"); r.Text != "3.00 mm ± 0.10 mm" {
+		t.Errorf("spaced +-: %q", r.Text)
+	}
+	if r := uncRun(t, "3 +-1"); r.Text != "2" {
+		t.Errorf("3 +-1: %q", r.Text)
+	}
+}
