@@ -129,7 +129,8 @@ func NewSession(lib Library) *Session {
 		Digits:   DefaultDigits,
 		Budget:   DefaultBudget,
 	}
-	for _, f := range lib.Funcs {
+	s.lib.Funcs = append(append([]*Func{}, lib.Funcs...), sessionFuncs()...)
+	for _, f := range s.lib.Funcs {
 		s.vars[f.Name] = f
 		s.kinds[f.Name] = kindBuiltin
 		s.help[f.Name] = f.Help
@@ -212,6 +213,14 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		return s.command(st)
 	case lang.Define:
 		return s.define(st)
+	}
+	if st.Kind == lang.Expr && st.As == "" {
+		if res, ok, err := s.sensitivityOf(st); ok {
+			if err != nil {
+				return nil, err
+			}
+			return s.finishTable(st, res.Value.(Shower))
+		}
 	}
 	p, err := s.compile(st, st.Expr, st.ExprOff, nil, nil)
 	if err != nil {

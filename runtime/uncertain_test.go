@@ -155,3 +155,39 @@ func TestUncertainPlusMinusSpelling(t *testing.T) {
 		t.Errorf("3 +-1: %q", r.Text)
 	}
 }
+
+// TestSensitivityTable: for P = I²R the sensitivity coefficients are
+// ∂P/∂I = 2IR and ∂P/∂R = I² (GUM §5.1.3, eq. (11a)), and the shares of
+// the variance add up to 100 %. Exact under central differences (the
+// result is quadratic in I and linear in R): 1e-12.
+func TestSensitivityTable(t *testing.T) {
+	r := uncRun(t, "I = 2 A ± 2 %", "R = 5 ohm ± 0.05 ohm", "P = I^2 * R", "sensitivity(P)")
+	tab, ok := r.Value.(*runtime.Sensitivity)
+	if !ok {
+		t.Fatalf("sensitivity gave %T", r.Value)
+	}
+	cI := tab.Rows[0].CU[0] / tab.Rows[0].Input.U
+	cR := tab.Rows[1].CU[0] / tab.Rows[1].Input.U
+	if math.Abs(cI/20-1) > 1e-12 || math.Abs(cR/4-1) > 1e-12 {
+		t.Errorf("c_I = %g V (want 2IR = 20 V), c_R = %g A² (want I² = 4 A²)", cI, cR)
+	}
+	_, _, rows := tab.Tabulate()
+	if sum := rows[0][1] + rows[1][1]; math.Abs(sum-100) > 1e-10 {
+		t.Errorf("shares add up to %g %%", sum)
+	}
+	if !strings.Contains(r.Text, "94.1 %") || !strings.Contains(r.Text, "5.88 %") {
+		t.Errorf("table:\n%s", r.Text)
+	}
+}
+
+// TestCentralDifferenceError: for y = x³ the central difference over
+// x ± u gives c·u = 3x²u + u³, the derivative's 3x²u plus exactly the
+// error term (u²/6)·y‴·u the help states (Taylor's theorem; y‴ = 6).
+// Tolerance 1e-12 relative: rounding.
+func TestCentralDifferenceError(t *testing.T) {
+	r := uncRun(t, "x = 2 ± 0.1", "x^3")
+	want := 3*4*0.1 + 0.001
+	if got := r.Contributions[0].CU[0]; math.Abs(got/want-1) > 1e-12 {
+		t.Errorf("c·u = %.15g, want 3x²u + u³ = %.15g", got, want)
+	}
+}

@@ -1,0 +1,174 @@
+package runtime
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strings"
+	"unicode/utf8"
+
+	"loopwise/lang"
+)
+
+// Sensitivity is the table "which tolerance matters" for one result: each
+// uncertain input it reads, its estimate and standard uncertainty, the
+// sensitivity coefficient c_i = ∂y/∂x_i (the central difference over
+// x_i ± u_i, see uncertain.go), the contribution c_i·u_i and its share of
+// the variance, (c_i·u_i)²/u(y)² (GUM §5.1.3, eqs. (10), (11a)).
+type Sensitivity struct {
+	Target string   // the expression
+	Y      Quantity // its estimate
+	U      float64  // its combined standard uncertainty
+	Rows   []Contribution
+}
+
+func (t *Sensitivity) Kind() string { return "a sensitivity table" }
+
+// Summary is the one line recorded for the table (its rows follow).
+func (t *Sensitivity) Summary(digits int) string {
+	y, _ := FormatUncertain(t.Y, []float64{t.U}, "", digits, false)
+	return fmt.Sprintf("sensitivity of %s = %s: %d inputs", t.Target, y, len(t.Rows))
+}
+
+// Show lays the table out for people, largest share first as entered.
+func (t *Sensitivity) Show(digits int) string {
+	cells := [][]string{{"input", "estimate ± u", "sensitivity c", "c·u", "share"}}
+	for _, r := range t.Rows {
+		in := r.Input
+		est, _ := FormatUncertain(in.Value, []float64{in.U}, "", digits, false)
+		c := "—"
+		if in.U > 0 {
+			c = Format(Quantity{V: r.CU[0] / in.U, D: t.Y.D.Div(in.Value.D)}, min(digits, 4))
+		}
+		cells = append(cells, []string{in.Label, est, c, Format(Quantity{V: r.CU[0], D: t.Y.D}, min(digits, 3)), t.share(r)})
+	}
+	width := make([]int, len(cells[0]))
+	for _, row := range cells {
+		for j, c := range row {
+			width[j] = max(width[j], utf8.RuneCountInString(c))
+		}
+	}
+	var b strings.Builder
+	b.WriteString(t.Summary(digits) + "\n")
+	for i, row := range cells {
+		for j, c := range row {
+			if j > 0 {
+				b.WriteString("  ")
+			}
+			b.WriteString(c + strings.Repeat(" ", width[j]-utf8.RuneCountInString(c)))
+		}
+		if i < len(cells)-1 {
+			b.WriteString("\n")
+		}
+	}
+	lines := strings.Split(b.String(), "\n")
+	for i := range lines {
+		lines[i] = strings.TrimRight(lines[i], " ")
+	}
+	return strings.Join(lines, "\n")
+}
+
+func (t *Sensitivity) share(r Contribution) string {
+	if t.U == 0 {
+		return "—"
+	}
+	return FormatNumber(100*r.CU[0]*r.CU[0]/(t.U*t.U), 3) + " %"
+}
+
+// Tabulate gives the recorded columns: each input's contribution c·u (in
+// the result's unit) and share of the variance (percent).
+func (t *Sensitivity) Tabulate() ([]string, []Dim, [][]float64) {
+	rows := make([][]float64, len(t.Rows))
+	for i, r := range t.Rows {
+		share := 0.0
+		if t.U > 0 {
+			share = 100 * r.CU[0] * r.CU[0] / (t.U * t.U)
+		}
+		rows[i] = []float64{r.CU[0], share}
+	}
+	return []string{"c·u", "share %"}, []Dim{t.Y.D, Dimensionless}, rows
+}
+
+// RowLabels names the rows by input.
+func (t *Sensitivity) RowLabels() []string {
+	out := make([]string, len(t.Rows))
+	for i, r := range t.Rows {
+		out[i] = r.Input.Label
+	}
+	return out
+}
+
+// LabelHeading heads the row names.
+func (t *Sensitivity) LabelHeading() string { return "input" }
+
+// sensitivityCall matches a statement that is one call of sensitivity().
+var sensitivityCall = regexp.MustCompile(`^(\s*sensitivity\s*\()(.*)\)\s*$`)
+
+// sensitivityOf handles "sensitivity(expr)": expr is evaluated as a
+// statement of its own and its contributions become the table.
+func (s *Session) sensitivityOf(st *lang.Statement) (*Result, bool, error) {
+	if s.kinds["sensitivity"] == kindVar || s.kinds["sensitivity"] == kindUserFunc {
+		return nil, false, nil // the user's own name
+	}
+	m := sensitivityCall.FindStringSubmatchIndex(st.Expr)
+	if m == nil {
+		return nil, false, nil
+	}
+	inner := *st
+	inner.Kind = lang.Expr
+	inner.Name, inner.As, inner.Declared = "", "", ""
+	inner.Expr = st.Expr[m[4]:m[5]]
+	inner.ExprOff = st.ExprOff + utf8.RuneCountInString(st.Expr[:m[4]])
+	whole := func(format string, args ...any) error {
+		return st.Errorf(st.ExprOff, max(1, utf8.RuneCountInString(st.Expr)), format, args...)
+	}
+	if strings.TrimSpace(inner.Expr) == "" {
+		return nil, true, whole("sensitivity takes one expression: sensitivity(M)")
+	}
+	res, err := s.Exec(&inner)
+	if err != nil {
+		return nil, true, err
+	}
+	s.Transcript = s.Transcript[:len(s.Transcript)-1] // the table stands for it
+	q, ok := res.Value.(Quantity)
+	if !ok {
+		return nil, true, whole("sensitivity needs a number; %s is %s (for a vector take a component, such as .z; for a complex value abs() or re())", strings.TrimSpace(inner.Expr), TypeName(res.Value))
+	}
+	if len(res.Contributions) == 0 {
+		return nil, true, whole("%s reads no uncertain value (enter one as 12 mm ± 0.1 mm)", strings.TrimSpace(inner.Expr))
+	}
+	u := combined(res.Contributions)[0]
+	if math.IsNaN(u) {
+		u = 0
+	}
+	t := &Sensitivity{Target: strings.TrimSpace(inner.Expr), Y: q, U: u, Rows: res.Contributions}
+	return &Result{Stmt: st, Value: t}, true, nil
+}
+
+// finishTable completes the result of a statement whose value is a table
+// made by the session itself (not by the expression engine).
+func (s *Session) finishTable(st *lang.Statement, v Shower) (*Result, error) {
+	res := &Result{Stmt: st, Value: v, Text: v.Show(s.Digits), Record: v.Summary(max(RecordDigits, s.Digits))}
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: res.Record, More: moreLines(res)})
+	return res, nil
+}
+
+// sessionFuncs are the builtins the session provides itself: they work on
+// a whole statement, not on values.
+func sessionFuncs() []*Func {
+	whole := func(name string) func([]Value) (Value, error) {
+		return func([]Value) (Value, error) {
+			return nil, fmt.Errorf("%s(...) must be the whole statement, as in %s(M)", name, name)
+		}
+	}
+	return []*Func{
+		{Name: "sensitivity", Params: []string{"expression"}, MinArgs: 1, MaxArgs: 1, Call: whole("sensitivity"), Help: &Help{
+			Family:    "uncertainty",
+			Signature: "sensitivity(expression: a number that reads uncertain values) -> table",
+			Summary:   "Which tolerance matters: for each uncertain input (a value entered as 12 mm ± 0.1 mm) the expression reads, directly or through names, paths and functions, its estimate ± u, the sensitivity coefficient c = ∂y/∂x, the contribution c·u and its share of the variance (c·u)²/u(y)². Write it as a statement of its own.",
+			Method:    "Every statement that reads uncertain inputs is also evaluated with each input moved to x − u and x + u, the others at their estimates; c·u = (y(x + u) − y(x − u))/2, a central difference of the actual computation (exact for a result linear or quadratic in x, otherwise within (u²/6)·|y‴/y′| of the derivative at x), and u(y) = √Σ(c·u)². Inputs are independent; one input read twice is one input, so x − x has no uncertainty. Each input costs two more evaluations of every statement that reads it.",
+			Example:   "I = 2 A ± 2 %\nR = 5 ohm ± 0.05 ohm\nP = I^2 * R\nsensitivity(P)",
+			Reference: "JCGM 100:2008 (GUM) §5.1.2 eq. (10), §5.1.3; central differences with the step u as in J. Kragten, Analyst 119 (1994) 2161",
+		}},
+	}
+}
