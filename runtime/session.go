@@ -221,6 +221,12 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			}
 			return s.finishTable(st, res.Value.(Shower))
 		}
+		if res, ok, err := s.monteCarloOf(st); ok {
+			if err != nil {
+				return nil, err
+			}
+			return s.finishTable(st, res.Value.(Shower))
+		}
 	}
 	p, err := s.compile(st, st.Expr, st.ExprOff, nil, nil)
 	if err != nil {
@@ -267,6 +273,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			return nil, err
 		}
 		s.setWorlds(st.Name, copies)
+		s.recordChain(st, p, v, copies != nil)
 		if unit == "" {
 			unit = s.declared[st.Name]
 		} else {

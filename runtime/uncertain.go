@@ -60,6 +60,11 @@ type uncState struct {
 	env    map[string]Value // the names as the current world sees them
 	stmtPM []int            // input ids of the running statement's ±, by order
 	label  func(k int) string
+	// chain holds the assignments made since the first input, for Monte
+	// Carlo trials (montecarlo.go); z, in a trial, the inputs' standard
+	// normal draws (cur.id is then -1).
+	chain []chainStep
+	z     []float64
 }
 
 // Inputs lists the uncertain inputs of the session in the order entered.
@@ -108,8 +113,15 @@ func (s *Session) pmFunc(rel bool) func(p ...any) (any, error) {
 			}
 			return v, nil
 		}
-		if k < len(st.stmtPM) && st.stmtPM[k] == st.cur.id {
-			v.V += st.cur.sign * u
+		if k < len(st.stmtPM) {
+			id := st.stmtPM[k]
+			switch {
+			case st.cur.id < 0 && id < len(st.z):
+				in := st.inputs[id] // a Monte Carlo trial: the input's own u
+				v.V = in.Value.V + in.U*st.z[id]
+			case id == st.cur.id:
+				v.V += st.cur.sign * u
+			}
 		}
 		return v, nil
 	}
