@@ -178,7 +178,7 @@ func geometryFuncs() []*runtime.Func {
 		fncEnv("parametric_path", []string{"f", "u0", "u1", "pieces", "closure"}, 4, 5, &runtime.Help{
 			Signature: `parametric_path(f: function of one quantity returning a position [m], u0, u1: the unit of f's parameter (any: rad, m, s or none), pieces: whole number or chord tolerance [m][, "closed"]) -> path`,
 			Summary:   "Straight pieces through points of the curve f(u) as u goes from u0 to u1. A whole number gives that many pieces in equal steps of u; a length is a chord tolerance: pieces are halved until the curve stays within that distance of them. \"closed\" snaps the last point onto the first when they agree within the tolerance (with a piece count, within 1e-6 of the curve's size), making a closed loop; ends further apart are an error.",
-			Method:    "the chord tolerance: from 8 equal steps of u, a piece is cut in two at its middle u until the curve's point there, and the point 0.382 of the way along (a guard against a piece that spans whole turns of a periodic curve, whose middle falls back onto the chord), both lie within the tolerance of the piece; at most 200000 pieces. For a smooth curve the largest distance between curve and pieces is then about the tolerance, and the polyline falls short of the curve's length by at most about tolerance/(3·radius of curvature), relative. The result is a polygon: a circle in n pieces gives n·tan(π/n)/π times the circle's field at its centre (1 + π²/(3n²)).",
+			Method:    "the chord tolerance: from 8 equal steps of u, a piece is cut in two at its middle u until the curve's point there, and the point 0.382 of the way along (a guard against a piece that spans whole turns of a periodic curve, whose middle falls back onto the chord), both lie within the tolerance of the piece; at most 200000 pieces. A jump in the curve becomes a straight piece across it. For a smooth curve the largest distance between curve and pieces is then about the tolerance, and the polyline falls short of the curve's length by at most about tolerance/(3·radius of curvature), relative. The result is a polygon: a circle in n pieces gives n·tan(π/n)/π times the circle's field at its centre (1 + π²/(3n²)).",
 			Example:   "ring(u) = [25 mm * cos(u), 25 mm * sin(u), 0 mm]\nparametric_path(ring, 0 rad, 1 rev, 64, \"closed\")",
 			Reference: "a curve sampled at values of its parameter; the sagitta of a circular arc of radius ρ over a chord c is ρ − √(ρ² − c²/4) (elementary geometry)",
 		}, parametricPath),
@@ -721,8 +721,8 @@ func traceTolerance(c *curve, u0, u1, tol float64) ([]float64, []em.Vec, error) 
 			}
 			um := p.ua + (p.ub-p.ua)/2
 			if um == p.ua || um == p.ub {
-				return nil, nil, errorf("%s: the curve does not settle within %s of a straight piece near %s = %s however finely the parameter is cut: it jumps there, or the tolerance is below the rounding of its coordinates", c.fn,
-					runtime.Format(runtime.Quantity{V: tol, D: dimLength}, 6), c.param, c.showU(um))
+				return nil, nil, errorf("%s: near %s = %s the parameter cannot be cut finer in floating point, and the curve is not yet within %s of a straight piece; give the parameter a range of smaller numbers (nearer zero)", c.fn,
+					c.param, c.showU(um), runtime.Format(runtime.Quantity{V: tol, D: dimLength}, 6))
 			}
 			pm, err := c.at(um)
 			if err != nil {
