@@ -512,11 +512,20 @@ type curve struct {
 	d     runtime.Dim
 	cyc   bool
 	param string
+	args  []runtime.Value
+	// fast evaluates the function on plain numbers when its body allows
+	// (runtime.Fast: no unit wrapping a point); nil otherwise
+	fast  *runtime.FastFunc
+	calls int
 }
 
 func (c *curve) showU(u float64) string {
 	return runtime.Format(runtime.Quantity{V: u, D: c.d, Cyc: c.cyc}, 6)
 }
+
+// checkEvery is how often a point found on plain numbers (runtime.Fast)
+// is found again through the language and compared, besides the first.
+const checkEvery = 1024
 
 func (c *curve) at(u float64) (em.Vec, error) {
 	if c.env != nil {
@@ -524,7 +533,33 @@ func (c *curve) at(u float64) (em.Vec, error) {
 			return em.Vec{}, err
 		}
 	}
-	v, err := c.f.Invoke(c.env, []runtime.Value{runtime.Quantity{V: u, D: c.d, Cyc: c.cyc}})
+	c.calls++
+	if c.fast != nil {
+		v, ok := c.fast.At(u)
+		if ok && c.calls != 1 && c.calls%checkEvery != 0 {
+			return em.Vec{X: v[0], Y: v[1], Z: v[2]}, nil
+		}
+		// the first call, every checkEvery-th, and any whose numbers went
+		// non-finite go through the language too; should the two differ
+		// in a single bit, the rest do as well
+		p, err := c.slow(u)
+		if err == nil && (!ok || p != (em.Vec{X: v[0], Y: v[1], Z: v[2]})) {
+			c.fast = nil
+		}
+		return p, err
+	}
+	return c.slow(u)
+}
+
+// slow evaluates the function through the language.
+func (c *curve) slow(u float64) (em.Vec, error) {
+	// one argument slice for every call: a call's frame is gone when it
+	// returns, and values are copied, never shared
+	if c.args == nil {
+		c.args = make([]runtime.Value, 1)
+	}
+	c.args[0] = runtime.Quantity{V: u, D: c.d, Cyc: c.cyc}
+	v, err := c.f.Invoke(c.env, c.args)
 	if err != nil {
 		return em.Vec{}, err
 	}
@@ -604,6 +639,9 @@ func parametricPath(env runtime.Env, args []runtime.Value) (runtime.Value, error
 	c := &curve{env: env, fn: fn, f: f, d: u0.D, cyc: u0.Cyc && u1.Cyc, param: "u"}
 	if len(f.Params) > 0 && f.Body != "" {
 		c.param = f.Params[0]
+	}
+	if fast := f.Fast(u0.D); fast != nil && fast.Vec && fast.D == dimLength {
+		c.fast = fast
 	}
 	var us []float64
 	var pts []em.Vec

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"loopwise/builtins"
+	"loopwise/builtins/em"
 	"loopwise/lang"
 	"loopwise/runtime"
 )
@@ -55,3 +56,65 @@ func BenchmarkParametricPath(b *testing.B) {
 
 func cosTurn(k int) float64 { return math.Cos(2 * math.Pi * 10 * float64(k) / benchPoints) }
 func sinTurn(k int) float64 { return math.Sin(2 * math.Pi * 10 * float64(k) / benchPoints) }
+
+// The end-to-end pair: the field of a helix of 10 000 straight pieces on a
+// grid of 100 × 100 points, (a) by the kernel alone on points and pieces
+// made in Go, (b) through a session as a user writes it. Run together
+// (go test ./builtins -run '^$' -bench EndToEnd) and compare: the
+// language's share is the difference.
+const (
+	e2ePieces = 10_000
+	e2eSide   = 100
+)
+
+var e2eStatements = []string{
+	"h(u) = [10 mm * cos(u), 10 mm * sin(u), 4 mm * u / (1 rev)]",
+	fmt.Sprintf("coil = parametric_path(h, 0 rad, 10 rev, %d)", e2ePieces),
+	fmt.Sprintf("map = sample_plane(b_field(source(coil, 1 A)), [-30, -30, 50] mm, [60, 0, 0] mm, [0, 60, 0] mm, %d, %d)", e2eSide, e2eSide),
+}
+
+// e2eKernelInput is the same helix and grid in Go.
+func e2eKernelInput() ([]em.Source, []em.Vec) {
+	at := func(k int) em.Vec {
+		u := 2 * math.Pi * 10 * float64(k) / e2ePieces
+		return em.Vec{X: 0.010 * math.Cos(u), Y: 0.010 * math.Sin(u), Z: 0.004 * u / (2 * math.Pi)}
+	}
+	prims := make([]em.Prim, e2ePieces)
+	for k := range prims {
+		s, err := em.NewSegment(at(k), at(k+1))
+		if err != nil {
+			panic(err)
+		}
+		prims[k] = s
+	}
+	pts := make([]em.Vec, 0, e2eSide*e2eSide)
+	for j := 0; j < e2eSide; j++ {
+		for i := 0; i < e2eSide; i++ {
+			u, v := float64(i)/(e2eSide-1), float64(j)/(e2eSide-1)
+			pts = append(pts, em.Vec{X: -0.030 + 0.060*u, Y: -0.030 + 0.060*v, Z: 0.050})
+		}
+	}
+	return []em.Source{{Path: em.Path{Prims: prims}, I: 1}}, pts
+}
+
+func BenchmarkEndToEnd(b *testing.B) {
+	b.Run("kernel", func(b *testing.B) {
+		srcs, pts := e2eKernelInput()
+		out := make([]em.Vec, len(pts))
+		for b.Loop() {
+			if err := em.Fields(em.FieldB, srcs, pts, out, 0, nil, nil); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("session", func(b *testing.B) {
+		s := runtime.NewSession(builtins.Standard())
+		for b.Loop() {
+			for i, l := range e2eStatements {
+				if _, err := s.Eval(lang.Pos{Line: i + 1, Col: 1}, l); err != nil {
+					b.Fatal(err)
+				}
+			}
+		}
+	})
+}
