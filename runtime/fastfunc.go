@@ -41,10 +41,10 @@ type fastBody struct {
 // FastFunc is a user function of one quantity evaluated on plain numbers.
 type FastFunc struct {
 	// Vec tells whether the result is a vector; D is its dimension.
-	Vec bool
-	D   Dim
+	Vec  bool
+	D    Dim
 	eval func(x float64) [3]float64
-	bad *bool
+	bad  *bool
 }
 
 // At evaluates the function at x (in SI units of the dimension Fast was
