@@ -40,9 +40,9 @@ func (p *Path) Show(digits int) string {
 	add(counts[em.Arc], "arc", "arcs")
 	add(circles, "circle", "circles")
 	add(counts[em.Helix], "helix", "helices")
-	loops := p.P.Loops()
+	loops, closed := p.P.LoopsClosed()
 	state := "open"
-	if p.P.LoopsClosed(loops) {
+	if closed {
 		state = "closed"
 		if len(loops) > 1 {
 			state = fmt.Sprintf("%d closed loops", len(loops))

@@ -119,7 +119,12 @@ func (p Path) Size() float64 {
 			// largest is at an end: the middles add nothing but time (a
 			// path of 10^4 pieces is shown, and its loops found, often);
 			// squares compared, one root taken
-			s2 = math.Max(s2, math.Max(dist2(q.A, o), dist2(q.B, o)))
+			if d := dist2(q.A, o); d > s2 {
+				s2 = d
+			}
+			if d := dist2(q.B, o); d > s2 {
+				s2 = d
+			}
 			continue
 		}
 		for _, t := range [...]float64{0, 0.25, 0.5, 0.75, 1} {
@@ -147,20 +152,24 @@ func dist2(a, b Vec) float64 {
 // starting where the previous ended is not required: a path may be a set of
 // closed loops, such as the turns of a coil).
 func (p Path) Closed() bool {
-	return p.LoopsClosed(p.Loops())
+	_, closed := p.LoopsClosed()
+	return closed
 }
 
-// LoopsClosed is Closed for a path whose loops (from Loops) are known.
-func (p Path) LoopsClosed(loops [][2]int) bool {
-	return len(loops) > 0 && p.openGap(loops) == 0
+// LoopsClosed is Loops, and Closed, finding the path's size once.
+func (p Path) LoopsClosed() ([][2]int, bool) {
+	scale := p.scale()
+	loops := p.loops(scale)
+	return loops, len(loops) > 0 && p.openGap(loops, scale) == 0
 }
 
 // Loops splits the path into runs of primitives joined end to start, and
 // returns the index ranges [from, to) of the runs.
-func (p Path) Loops() [][2]int {
+func (p Path) Loops() [][2]int { return p.loops(p.scale()) }
+
+func (p Path) loops(scale float64) [][2]int {
 	var out [][2]int
 	start := 0
-	scale := p.scale()
 	for i := 1; i <= len(p.Prims); i++ {
 		if i == len(p.Prims) || !near(p.Prims[i-1].End(), p.Prims[i].Start(), scale) {
 			out = append(out, [2]int{start, i})
@@ -172,9 +181,8 @@ func (p Path) Loops() [][2]int {
 
 // openGap returns the number of the runs (from Loops) that do not close on
 // themselves.
-func (p Path) openGap(loops [][2]int) int {
+func (p Path) openGap(loops [][2]int, scale float64) int {
 	n := 0
-	scale := p.scale()
 	for _, r := range loops {
 		if !near(p.Prims[r[1]-1].End(), p.Prims[r[0]].Start(), scale) {
 			n++
