@@ -31,6 +31,7 @@ var inductionSetup = []string{
 	"S(t) = t > 0 s ? 1 A : 0 A",
 	"K(t) = 1 A / (t/1 s)",
 	"two(a, b) = a + b",
+	"ring(u) = [50 mm * cos(u), 50 mm * sin(u), 0 mm]",
 }
 
 // inductionPos is where every case is evaluated.
@@ -463,6 +464,11 @@ func FuzzInduction(f *testing.F) {
 		"inductance(loop, 0.3 mm, \"surface\")",
 		"inductance(polygon([0,0,0] m, [1,0,0] cm, [1,1,0] cm), 0.1 mm, \"uniform\")",
 		"path_from_csv(\"points.csv\", \"closed\")",
+		// curves traced by a function
+		"parametric_path(ring, 0 rad, 1 rev, 12)",
+		"parametric_path(ring, 0, 2*pi, 1 mm, \"closed\")",
+		"parametric_path(Vec, 0 s, 1 s, 4)",
+		"parametric_path(K, -1 s, 1 s, 1 mm)",
 		// tables, grids, derivatives and extrema
 		"interpolate(sweep(I, 0 s, 10 ms, 41), \"t\", 1 ms, \"I\")",
 		"where_max(sample_line(b_field(src), [0,0,-1] m, [0,0,1] m, 9), \"|B|\", \"z\")",

@@ -280,9 +280,10 @@ func sampleLine(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		Cols: append([]string{"s", "x", "y", "z"}, cols...),
 		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, d, d, d, d},
 	}
+	tab.Rows = tableRows(len(pts), len(tab.Cols))
 	for i, x := range pts {
 		v := cleanVec(out[i])
-		tab.Rows = append(tab.Rows, []float64{l * float64(i) / float64(n-1), x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
+		copy(tab.Rows[i], []float64{l * float64(i) / float64(n-1), x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
 	}
 	return tab, nil
 }
@@ -321,11 +322,23 @@ func samplePlane(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		Cols: append([]string{"u", "v", "x", "y", "z"}, cols...),
 		Dims: []runtime.Dim{dimLength, dimLength, dimLength, dimLength, dimLength, d, d, d, d},
 	}
+	tab.Rows = tableRows(len(pts), len(tab.Cols))
 	for i, x := range pts {
 		v := cleanVec(out[i])
-		tab.Rows = append(tab.Rows, []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
+		copy(tab.Rows[i], []float64{uv[i][0], uv[i][1], x.X, x.Y, x.Z, v.X, v.Y, v.Z, r3.Norm(v)})
 	}
 	return tab, nil
+}
+
+// tableRows makes n rows of m cells on one backing array: one allocation
+// instead of one a row (a sampled plane has up to a million rows).
+func tableRows(n, m int) [][]float64 {
+	cells := make([]float64, n*m)
+	rows := make([][]float64, n)
+	for i := range rows {
+		rows[i] = cells[i*m : (i+1)*m : (i+1)*m]
+	}
+	return rows
 }
 
 // pathWeight estimates the cost of a path's field at one point, in units of

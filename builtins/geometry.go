@@ -175,6 +175,13 @@ func geometryFuncs() []*runtime.Func {
 			Example:   "toroid_round([0, 0, 0] m, [0, 0, 1], 25 mm, 5 mm, 200)",
 			Reference: refGeom,
 		}, toroidRound),
+		fncEnv("parametric_path", []string{"f", "u0", "u1", "pieces", "closure"}, 4, 5, &runtime.Help{
+			Signature: `parametric_path(f: function of one quantity returning a position [m], u0, u1: the unit of f's parameter (any: rad, m, s or none), pieces: whole number or chord tolerance [m][, "closed"]) -> path`,
+			Summary:   "Straight pieces through points of the curve f(u) as u goes from u0 to u1. A whole number gives that many pieces in equal steps of u; a length is a chord tolerance: pieces are halved until the curve stays within that distance of them. \"closed\" snaps the last point onto the first when they agree within the tolerance (with a piece count, within 1e-6 of the curve's size), making a closed loop; ends further apart are an error.",
+			Method:    "the chord tolerance: from 8 equal steps of u, a piece is cut in two at its middle u until the curve's point there, and the point 0.382 of the way along (a guard against a piece that spans whole turns of a periodic curve, whose middle falls back onto the chord), both lie within the tolerance of the piece; at most 200000 pieces. A jump in the curve becomes a straight piece across it. For a smooth curve the largest distance between curve and pieces is then about the tolerance, and the polyline falls short of the curve's length by at most about tolerance/(3·radius of curvature), relative. The result is a polygon: a circle in n pieces gives n·tan(π/n)/π times the circle's field at its centre (1 + π²/(3n²)). A function of arithmetic, vector literals and builtins such as sin, cos and sqrt is evaluated on plain numbers, its units checked once (about 0.4 µs a point); others through the language, a few µs a point.",
+			Example:   "ring(u) = [25 mm * cos(u), 25 mm * sin(u), 0 mm]\nparametric_path(ring, 0 rad, 1 rev, 64, \"closed\")",
+			Reference: "a curve sampled at values of its parameter; the sagitta of a circular arc of radius ρ over a chord c is ρ − √(ρ² − c²/4) (elementary geometry)",
+		}, parametricPath),
 		fnc("translate", []string{"path", "shift"}, 2, 2, &runtime.Help{
 			Signature: "translate(path, shift: vector [m]) -> path",
 			Summary:   "The path moved by shift.",
@@ -480,4 +487,334 @@ func toroidRound(args []runtime.Value) (runtime.Value, error) {
 		}
 	}
 	return pathResult(fn, prims)
+}
+
+// Tracing a curve given as a function of a parameter.
+const (
+	// traceStart is the number of equal steps the chord-tolerance
+	// refinement starts from.
+	traceStart = 8
+	// traceGuard is where along a piece (as a fraction of its parameter
+	// step) the second test point lies: (3 − √5)/2, irrational, so that a
+	// piece spanning whole periods of a periodic curve cannot have both its
+	// middle and this point fall back onto its chord.
+	traceGuard = 0.3819660112501051
+	// closeRel is how near, relative to the curve's size, the ends must
+	// be for "closed" when a piece count is given (no tolerance).
+	closeRel = 1e-6
+)
+
+// curve evaluates a user's function of one parameter as a position.
+type curve struct {
+	env   runtime.Env
+	fn    string
+	f     *runtime.Func
+	d     runtime.Dim
+	cyc   bool
+	param string
+	args  []runtime.Value
+	// fast evaluates the function on plain numbers when its body allows
+	// (runtime.Fast: no unit wrapping a point); nil otherwise
+	fast  *runtime.FastFunc
+	calls int
+}
+
+func (c *curve) showU(u float64) string {
+	return runtime.Format(runtime.Quantity{V: u, D: c.d, Cyc: c.cyc}, 6)
+}
+
+// checkEvery is how often a point found on plain numbers (runtime.Fast)
+// is found again through the language and compared, besides the first.
+const checkEvery = 1024
+
+func (c *curve) at(u float64) (em.Vec, error) {
+	if c.env != nil {
+		if err := c.env.Err(); err != nil {
+			return em.Vec{}, err
+		}
+	}
+	c.calls++
+	if c.fast != nil {
+		v, ok := c.fast.At(u)
+		if ok && c.calls != 1 && c.calls%checkEvery != 0 {
+			return em.Vec{X: v[0], Y: v[1], Z: v[2]}, nil
+		}
+		// the first call, every checkEvery-th, and any whose numbers went
+		// non-finite go through the language too; should the two differ
+		// in a single bit, the rest do as well
+		p, err := c.slow(u)
+		if err == nil && (!ok || p != (em.Vec{X: v[0], Y: v[1], Z: v[2]})) {
+			c.fast = nil
+		}
+		return p, err
+	}
+	return c.slow(u)
+}
+
+// slow evaluates the function through the language.
+func (c *curve) slow(u float64) (em.Vec, error) {
+	// one argument slice for every call: a call's frame is gone when it
+	// returns, and values are copied, never shared
+	if c.args == nil {
+		c.args = make([]runtime.Value, 1)
+	}
+	c.args[0] = runtime.Quantity{V: u, D: c.d, Cyc: c.cyc}
+	v, err := c.f.Invoke(c.env, c.args)
+	if err != nil {
+		return em.Vec{}, err
+	}
+	p, ok := v.(runtime.Vector)
+	if !ok || p.D != dimLength {
+		return em.Vec{}, errorf("%s: %s must give a position (a vector of lengths, such as [x, y, z] mm), but at %s = %s it gives %s", c.fn, c.f.Signature(), c.param, c.showU(u), runtime.TypeName(v))
+	}
+	for _, x := range p.V {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return em.Vec{}, errorf("%s: %s at %s = %s gives a point that is not finite", c.fn, c.f.Signature(), c.param, c.showU(u))
+		}
+	}
+	return toVec(p), nil
+}
+
+// budget counts m calls of the function against the statement's budget:
+// each call is charged runtime.CallEvals now, and what the calls it makes
+// charge as they run (nested, measured on the first call) is checked to
+// fit.
+func (c *curve) budget(m int, nested float64) error {
+	if c.env == nil {
+		return nil
+	}
+	if err := c.env.Charge(c.fn, runtime.CallEvals*float64(m)); err != nil {
+		return err
+	}
+	return c.env.Afford(c.fn, nested*float64(m))
+}
+
+func parametricPath(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
+	const fn = "parametric_path"
+	f, err := funcArg(fn, args, 0)
+	if err != nil {
+		return nil, err
+	}
+	u0, err := quantity(fn, args, 1)
+	if err != nil {
+		return nil, err
+	}
+	u1, err := quantity(fn, args, 2)
+	if err != nil {
+		return nil, err
+	}
+	if u1.D != u0.D {
+		return nil, errorf("%s: u1 must have the unit of u0 (%s), not %s%s", fn, u0.D.Describe(), u1.D.Describe(), runtime.AngleNote(u1.D, u0.D))
+	}
+	if u1.V == u0.V {
+		return nil, errorf("%s: u0 and u1 are both %s; the parameter must run over a range", fn, runtime.Format(u0, 6))
+	}
+	pq, err := quantity(fn, args, 3)
+	if err != nil {
+		return nil, err
+	}
+	n, tol := 0, 0.0
+	switch {
+	case pq.D.IsZero():
+		if n, err = count(fn, args, 3, 1, maxPrims); err != nil {
+			return nil, err
+		}
+	case pq.D == dimLength:
+		if tol, err = positiveLength(fn, args, 3); err != nil {
+			return nil, err
+		}
+	default:
+		return nil, errorf("%s: the fourth argument is a number of pieces (a whole number) or a chord tolerance (a length), not %s", fn, pq.D.Describe())
+	}
+	closed := false
+	if len(args) == 5 {
+		if s, _ := args[4].(string); s != "closed" {
+			return nil, errorf(`%s: the fifth argument can only be "closed", not %s`, fn, describeArg(args[4]))
+		}
+		closed = true
+		if n > 0 && n < 3 {
+			return nil, errorf("%s: a closed path needs at least 3 pieces, not %d", fn, n)
+		}
+	}
+	c := &curve{env: env, fn: fn, f: f, d: u0.D, cyc: u0.Cyc && u1.Cyc, param: "u"}
+	if len(f.Params) > 0 && f.Body != "" {
+		c.param = f.Params[0]
+	}
+	if fast := f.Fast(u0.D); fast != nil && fast.Vec && fast.D == dimLength {
+		c.fast = fast
+	}
+	var us []float64
+	var pts []em.Vec
+	if n > 0 {
+		us, pts, err = traceSteps(c, u0.V, u1.V, n)
+	} else {
+		us, pts, err = traceTolerance(c, u0.V, u1.V, tol)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if closed {
+		last := len(pts) - 1
+		lim := tol
+		if n > 0 {
+			lim = closeRel * boxSize(pts)
+		}
+		if gap := r3.Norm(r3.Sub(pts[last], pts[0])); gap > lim {
+			return nil, errorf("%s: the curve does not come back to its start: the point at %s = %s is %s from the one at %s, more than %s; trace the whole loop, or leave out \"closed\"", fn,
+				c.param, c.showU(us[last]), runtime.Format(runtime.Quantity{V: gap, D: dimLength}, 6), c.showU(us[0]), runtime.Format(runtime.Quantity{V: lim, D: dimLength}, 6))
+		}
+		pts[last] = pts[0]
+	}
+	prims := make([]em.Prim, len(pts)-1)
+	for i := range prims {
+		s, err := em.NewSegment(pts[i], pts[i+1])
+		if err != nil {
+			return nil, errorf("%s: %s gives the same point at %s = %s and at %s = %s, so a piece would have no length; trace a range over which the curve moves", fn,
+				f.Signature(), c.param, c.showU(us[i]), c.param, c.showU(us[i+1]))
+		}
+		prims[i] = s
+	}
+	return pathResult(fn, prims)
+}
+
+// traceSteps evaluates the curve at n+1 equal steps from u0 to u1.
+func traceSteps(c *curve, u0, u1 float64, n int) ([]float64, []em.Vec, error) {
+	us := make([]float64, n+1)
+	for k := range us {
+		us[k] = u0 + (u1-u0)*float64(k)/float64(n)
+		if k > 0 && us[k] == us[k-1] {
+			return nil, nil, errorf("%s: %d steps from %s to %s are too small to tell apart in floating point; ask for fewer pieces", c.fn, n, c.showU(u0), c.showU(u1))
+		}
+	}
+	us[n] = u1
+	if err := c.budget(1, 0); err != nil {
+		return nil, nil, err
+	}
+	pts := make([]em.Vec, n+1)
+	spent := 0.0
+	if c.env != nil {
+		spent = c.env.Spent()
+	}
+	var err error
+	for k, u := range us {
+		if pts[k], err = c.at(u); err != nil {
+			return nil, nil, err
+		}
+		if k == 0 {
+			nested := 0.0
+			if c.env != nil {
+				nested = c.env.Spent() - spent
+			}
+			if err := c.budget(n, nested); err != nil {
+				return nil, nil, err
+			}
+		}
+		if c.env != nil && n > 1000 && k%1000 == 0 {
+			c.env.Progress(c.fn, k, n+1)
+		}
+	}
+	return us, pts, nil
+}
+
+// tracePiece is a piece of a curve being refined: its parameter range and
+// end points, and whether it follows the curve closely enough.
+type tracePiece struct {
+	ua, ub float64
+	a, b   em.Vec
+	done   bool
+}
+
+// traceTolerance refines equal steps by bisection until the curve's point
+// in the middle of every piece (and at traceGuard along it) is within tol
+// of the piece. The refinement goes level by level, so that each level's
+// work is counted against the budget before it starts.
+func traceTolerance(c *curve, u0, u1, tol float64) ([]float64, []em.Vec, error) {
+	us, pts, err := traceSteps(c, u0, u1, traceStart)
+	if err != nil {
+		return nil, nil, err
+	}
+	pieces := make([]tracePiece, traceStart)
+	for k := range pieces {
+		pieces[k] = tracePiece{ua: us[k], ub: us[k+1], a: pts[k], b: pts[k+1]}
+	}
+	for {
+		pending := 0
+		for _, p := range pieces {
+			if !p.done {
+				pending++
+			}
+		}
+		if pending == 0 {
+			break
+		}
+		// at most two calls a piece; what they call is counted as it runs
+		if err := c.budget(2*pending, 0); err != nil {
+			return nil, nil, err
+		}
+		next := make([]tracePiece, 0, len(pieces)+pending)
+		for _, p := range pieces {
+			if p.done {
+				next = append(next, p)
+				continue
+			}
+			um := p.ua + (p.ub-p.ua)/2
+			if um == p.ua || um == p.ub {
+				return nil, nil, errorf("%s: near %s = %s the parameter cannot be cut finer in floating point, and the curve is not yet within %s of a straight piece; give the parameter a range of smaller numbers (nearer zero)", c.fn,
+					c.param, c.showU(um), runtime.Format(runtime.Quantity{V: tol, D: dimLength}, 6))
+			}
+			pm, err := c.at(um)
+			if err != nil {
+				return nil, nil, err
+			}
+			if distToSegment(pm, p.a, p.b) <= tol {
+				pg, err := c.at(p.ua + traceGuard*(p.ub-p.ua))
+				if err != nil {
+					return nil, nil, err
+				}
+				if distToSegment(pg, p.a, p.b) <= tol {
+					p.done = true
+					next = append(next, p)
+					continue
+				}
+			}
+			next = append(next, tracePiece{ua: p.ua, ub: um, a: p.a, b: pm}, tracePiece{ua: um, ub: p.ub, a: pm, b: p.b})
+			if len(next) > maxPrims {
+				return nil, nil, errorf("%s: following the curve within %s needs more than %d pieces, the most a path may have; ask for a larger tolerance or trace a shorter range", c.fn,
+					runtime.Format(runtime.Quantity{V: tol, D: dimLength}, 6), maxPrims)
+			}
+		}
+		pieces = next
+		if c.env != nil {
+			c.env.Progress(c.fn, len(pieces)-pending, len(pieces))
+		}
+	}
+	us = make([]float64, len(pieces)+1)
+	pts = make([]em.Vec, len(pieces)+1)
+	us[0], pts[0] = pieces[0].ua, pieces[0].a
+	for k, p := range pieces {
+		us[k+1], pts[k+1] = p.ub, p.b
+	}
+	return us, pts, nil
+}
+
+// distToSegment is the distance from p to the segment from a to b (to a
+// when they coincide).
+func distToSegment(p, a, b em.Vec) float64 {
+	ab, ap := r3.Sub(b, a), r3.Sub(p, a)
+	l2 := r3.Dot(ab, ab)
+	if l2 == 0 {
+		return r3.Norm(ap)
+	}
+	t := math.Min(1, math.Max(0, r3.Dot(ap, ab)/l2))
+	return r3.Norm(r3.Sub(ap, r3.Scale(t, ab)))
+}
+
+// boxSize is the diagonal of the box around the points.
+func boxSize(pts []em.Vec) float64 {
+	lo, hi := pts[0], pts[0]
+	for _, p := range pts[1:] {
+		lo = em.Vec{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
+		hi = em.Vec{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y), Z: math.Max(hi.Z, p.Z)}
+	}
+	return r3.Norm(r3.Sub(hi, lo))
 }

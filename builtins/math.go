@@ -19,6 +19,7 @@ func unary(name, summary, example string, f func(float64) float64) *runtime.Func
 			}
 			return finite(name, f(x), runtime.Dimensionless)
 		},
+		Real: &runtime.RealFunc{Dim: plainDim, F: f},
 		Help: &runtime.Help{
 			Signature: name + "(x: plain number) -> plain number",
 			Summary:   summary,
@@ -41,6 +42,9 @@ func trig(name, summary, example string, f func(float64) float64) *runtime.Func 
 			}
 			return finite(name, f(x), runtime.Dimensionless)
 		},
+		Real: &runtime.RealFunc{Dim: func(d runtime.Dim) (runtime.Dim, bool) {
+			return runtime.Dimensionless, d == dimAngle || d.IsZero()
+		}, F: f},
 		Help: &runtime.Help{
 			Signature: name + "(x: rad, or a plain number in radians) -> dimensionless",
 			Summary:   summary,
@@ -107,6 +111,14 @@ func mathFuncs() []*runtime.Func {
 				}
 				return runtime.Quantity{V: math.Sqrt(q.V), D: halfDim(q.D)}, nil
 			},
+			Real: &runtime.RealFunc{Dim: func(d runtime.Dim) (runtime.Dim, bool) {
+				for _, e := range d {
+					if e%2 != 0 {
+						return d, false
+					}
+				}
+				return halfDim(d), true
+			}, F: math.Sqrt}, // a negative argument gives NaN, and the call is made again for its message
 			Help: &runtime.Help{
 				Signature: "sqrt(x: any unit with even powers, real or complex) -> unit^(1/2)",
 				Summary:   "Square root; the unit's powers are halved (sqrt(4 m^2) is 2 m). Of a complex value, the principal root (real part ≥ 0).",
@@ -129,6 +141,7 @@ func mathFuncs() []*runtime.Func {
 				}
 				return runtime.Quantity{V: math.Abs(q.V), D: q.D, Cyc: q.Cyc}, nil
 			},
+			Real: &runtime.RealFunc{Dim: func(d runtime.Dim) (runtime.Dim, bool) { return d, true }, F: math.Abs},
 			Help: &runtime.Help{Signature: "abs(x: any unit, real or complex) -> same unit", Summary: "Absolute value; of a complex value, its magnitude; of a complex vector (a field phasor), √(Σ|cᵢ|²), which is √2 times the rms of the field's magnitude.", Example: "abs(-3 mV)", Reference: refGoMath},
 		},
 		sameDim2("atan2", "Angle of the point (x, y) from the +x axis, in rad, in (-pi, pi].", "atan2(y: unit, x: same unit) -> rad", "atan2(1 mm, -1 mm) as deg",
@@ -142,6 +155,9 @@ func mathFuncs() []*runtime.Func {
 	}
 	return fs
 }
+
+// plainDim is the unit rule of a function of a plain number.
+func plainDim(d runtime.Dim) (runtime.Dim, bool) { return runtime.Dimensionless, d.IsZero() }
 
 func halfDim(d runtime.Dim) runtime.Dim {
 	for i := range d {

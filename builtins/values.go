@@ -40,9 +40,9 @@ func (p *Path) Show(digits int) string {
 	add(counts[em.Arc], "arc", "arcs")
 	add(circles, "circle", "circles")
 	add(counts[em.Helix], "helix", "helices")
-	loops := p.P.Loops()
+	loops, closed := p.P.LoopsClosed()
 	state := "open"
-	if p.P.Closed() {
+	if closed {
 		state = "closed"
 		if len(loops) > 1 {
 			state = fmt.Sprintf("%d closed loops", len(loops))
@@ -276,7 +276,9 @@ func (t *Table) columnUnits(digits int) ([]string, []float64) {
 	for j := range t.Cols {
 		big := 0.0
 		for _, r := range t.Rows {
-			big = math.Max(big, math.Abs(r[j]))
+			if a := math.Abs(r[j]); a > big { // cells are finite (checked when made)
+				big = a
+			}
 		}
 		units[j], scales[j] = runtime.ColumnUnit(t, j, t.Dims[j], big, digits)
 	}

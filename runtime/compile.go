@@ -142,6 +142,12 @@ type program struct {
 	st   *lang.Statement
 	rw   *lang.Rewritten
 	off  int // rune offset of the expression in the statement's line
+	// idle holds machines of the engine that ran this program and may run
+	// it again: a function called many times (by parametric_path, sweep or
+	// a sampler) then allocates no machine and no stack a call. A machine
+	// is taken for each run and given back after, so a function that
+	// calls itself gets one per level.
+	idle []*vm.VM
 }
 
 // errorAt maps a rune offset in the rewritten expression to the statement's
@@ -469,9 +475,17 @@ func (s *Session) run(p *program) (Value, error) {
 	return s.runEnv(p, env)
 }
 
-// runEnv runs p with the names in env.
+// runEnv runs p with the names in env, on a machine of p's idle ones (the
+// engine's machines are reused rather than allocated on every call).
 func (s *Session) runEnv(p *program, env map[string]Value) (Value, error) {
-	out, err := expr.Run(p.prog, env)
+	var m *vm.VM
+	if k := len(p.idle); k > 0 {
+		m, p.idle = p.idle[k-1], p.idle[:k-1]
+	} else {
+		m = &vm.VM{}
+	}
+	out, err := m.Run(p.prog, env)
+	p.idle = append(p.idle, m)
 	if err != nil {
 		return nil, p.engineError(err, false)
 	}

@@ -45,26 +45,35 @@ func gridOf(t Tabular) grid {
 	big := make([]float64, n)
 	for _, r := range rows {
 		for j := range n {
-			big[j] = math.Max(big[j], math.Abs(r[j]))
-		}
-	}
-	clean := make([][]float64, len(rows))
-	for i, r := range rows {
-		clean[i] = make([]float64, n)
-		for j := range n {
-			if math.Abs(r[j]) >= TableNoise*big[j] {
-				clean[i][j] = r[j]
+			if a := math.Abs(r[j]); a > big[j] { // cells are finite (checked when made)
+				big[j] = a
 			}
 		}
+	}
+	keep := func(x float64, j int) float64 { // cells that are noise beside their column's largest are 0
+		if math.Abs(x) >= TableNoise*big[j] {
+			return x
+		}
+		return 0
 	}
 	g.units, g.scales = make([]string, n), make([]float64, n)
 	for j := range n {
 		g.units[j], g.scales[j] = ColumnUnit(t, j, dims[j], big[j], RecordDigits)
 	}
 	if len(rows) <= RecordRows {
+		clean := make([][]float64, len(rows))
+		cells := make([]float64, len(rows)*n) // one allocation, not one a row
+		for i, r := range rows {
+			clean[i] = cells[i*n : (i+1)*n : (i+1)*n]
+			for j := range n {
+				clean[i][j] = keep(r[j], j)
+			}
+		}
 		g.cells = clean
 		return g
 	}
+	// column statistics, straight from the rows (a long table is not
+	// copied)
 	g.labels = statNames
 	g.cells = make([][]float64, len(statNames))
 	for k := range g.cells {
@@ -72,13 +81,14 @@ func gridOf(t Tabular) grid {
 	}
 	for j := range n {
 		lo, hi, sum, sq := math.Inf(1), math.Inf(-1), 0.0, 0.0
-		for _, r := range clean {
-			lo, hi = math.Min(lo, r[j]), math.Max(hi, r[j])
-			sum += r[j]
-			sq += r[j] * r[j]
+		for _, r := range rows {
+			x := keep(r[j], j)
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+			sum += x
+			sq += x * x
 		}
-		m := float64(len(clean))
-		stats := []float64{clean[0][j], clean[len(clean)-1][j], lo, hi, sum / m, math.Sqrt(sq / m)}
+		m := float64(len(rows))
+		stats := []float64{keep(rows[0][j], j), keep(rows[len(rows)-1][j], j), lo, hi, sum / m, math.Sqrt(sq / m)}
 		for k, x := range stats {
 			g.cells[k][j] = x
 		}

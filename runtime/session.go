@@ -478,6 +478,7 @@ func (s *Session) define(st *lang.Statement) (*Result, error) {
 	n := len(st.Params)
 	f := &Func{Name: st.Name, Params: st.Params, Body: st.Expr, MinArgs: n, MaxArgs: n}
 	where := st.Base.String()
+	f.body = &fastBody{s: s, p: p}
 	f.Call = func(args []Value) (Value, error) {
 		frame.frames = append(frame.frames, args)
 		defer func() { frame.frames = frame.frames[:len(frame.frames)-1] }()

@@ -138,8 +138,13 @@ type Func struct {
 	Call func(args []Value) (Value, error)
 	// CallEnv, when set, is used instead of Call and receives the session.
 	CallEnv func(env Env, args []Value) (Value, error)
+	// Real, when set on a builtin of one quantity, is its form on plain
+	// numbers, for fast evaluation of user functions (see Fast).
+	Real *RealFunc
 	// Help is set for builtins.
 	Help *Help
+	// body is a user function's compiled body and its session, for Fast.
+	body *fastBody
 }
 
 // Help documents a builtin for the REPL's help command and the README.

@@ -112,28 +112,64 @@ func (p Path) Size() float64 {
 		return 0
 	}
 	o := p.Prims[0].Start()
-	var s float64
+	var s, s2 float64
 	for _, q := range p.Prims {
-		for _, t := range []float64{0, 0.25, 0.5, 0.75, 1} {
+		if q.Kind == Segment {
+			// the distance from o is convex along a straight piece, so its
+			// largest is at an end: the middles add nothing but time (a
+			// path of 10^4 pieces is shown, and its loops found, often);
+			// squares compared, one root taken
+			if d := dist2(q.A, o); d > s2 {
+				s2 = d
+			}
+			if d := dist2(q.B, o); d > s2 {
+				s2 = d
+			}
+			continue
+		}
+		for _, t := range [...]float64{0, 0.25, 0.5, 0.75, 1} {
 			s = math.Max(s, r3.Norm(r3.Sub(q.Point(t), o)))
 		}
 	}
-	return s
+	if math.IsInf(s2, 0) { // beyond the squares' range
+		for _, q := range p.Prims {
+			if q.Kind == Segment {
+				s = math.Max(s, math.Max(r3.Norm(r3.Sub(q.A, o)), r3.Norm(r3.Sub(q.B, o))))
+			}
+		}
+		return s
+	}
+	return math.Max(s, math.Sqrt(s2))
+}
+
+// dist2 is the square of the distance between a and b.
+func dist2(a, b Vec) float64 {
+	x, y, z := a.X-b.X, a.Y-b.Y, a.Z-b.Z
+	return x*x + y*y + z*z
 }
 
 // Closed reports whether the path ends where it starts (each primitive
 // starting where the previous ended is not required: a path may be a set of
 // closed loops, such as the turns of a coil).
 func (p Path) Closed() bool {
-	return len(p.Loops()) > 0 && p.openGap() == 0
+	_, closed := p.LoopsClosed()
+	return closed
+}
+
+// LoopsClosed is Loops, and Closed, finding the path's size once.
+func (p Path) LoopsClosed() ([][2]int, bool) {
+	scale := p.scale()
+	loops := p.loops(scale)
+	return loops, len(loops) > 0 && p.openGap(loops, scale) == 0
 }
 
 // Loops splits the path into runs of primitives joined end to start, and
 // returns the index ranges [from, to) of the runs.
-func (p Path) Loops() [][2]int {
+func (p Path) Loops() [][2]int { return p.loops(p.scale()) }
+
+func (p Path) loops(scale float64) [][2]int {
 	var out [][2]int
 	start := 0
-	scale := p.scale()
 	for i := 1; i <= len(p.Prims); i++ {
 		if i == len(p.Prims) || !near(p.Prims[i-1].End(), p.Prims[i].Start(), scale) {
 			out = append(out, [2]int{start, i})
@@ -143,11 +179,11 @@ func (p Path) Loops() [][2]int {
 	return out
 }
 
-// openGap returns the number of runs that do not close on themselves.
-func (p Path) openGap() int {
+// openGap returns the number of the runs (from Loops) that do not close on
+// themselves.
+func (p Path) openGap(loops [][2]int, scale float64) int {
 	n := 0
-	scale := p.scale()
-	for _, r := range p.Loops() {
+	for _, r := range loops {
 		if !near(p.Prims[r[1]-1].End(), p.Prims[r[0]].Start(), scale) {
 			n++
 		}
@@ -164,7 +200,11 @@ func (p Path) scale() float64 {
 const joinTol = 1e-9
 
 func near(a, b Vec, scale float64) bool {
-	return r3.Norm(r3.Sub(a, b)) <= joinTol*scale
+	t := joinTol * scale
+	if d2 := dist2(a, b); t > 1e-150 && t < 1e150 && !math.IsInf(d2, 0) {
+		return d2 <= t*t // squares compared: no root a joint
+	}
+	return r3.Norm(r3.Sub(a, b)) <= t // beyond the squares' range
 }
 
 // ErrZeroLength is returned for a primitive of zero length.
