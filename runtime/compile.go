@@ -468,11 +468,7 @@ var tokenName = regexp.MustCompile(`(Operator|Bracket|Identifier|Number|String)\
 
 // run evaluates a compiled program against the session's names.
 func (s *Session) run(p *program) (Value, error) {
-	env := s.vars
-	if s.unc.env != nil {
-		env = s.unc.env // an evaluation with an uncertain input moved
-	}
-	return s.runEnv(p, env)
+	return s.runEnv(p, s.current())
 }
 
 // runEnv runs p with the names in env, on a machine of p's idle ones (the

@@ -122,7 +122,7 @@ func (b *fastBuilder) build(n ast.Node) (fastNode, bool) {
 	case *ast.ConstantNode:
 		return constNode(n.Value)
 	case *ast.IdentifierNode:
-		v, ok := b.s.vars[n.Value]
+		v, ok := b.s.current()[n.Value]
 		if !ok {
 			return fastNode{}, false
 		}
@@ -301,7 +301,7 @@ func (b *fastBuilder) builtin(args []ast.Node) (fastNode, bool) {
 	if !ok {
 		return fail, false
 	}
-	f, ok := b.s.vars[id.Value].(*Func)
+	f, ok := b.s.current()[id.Value].(*Func)
 	if !ok || f.Real == nil {
 		return fail, false
 	}

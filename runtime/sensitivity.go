@@ -170,5 +170,13 @@ func sessionFuncs() []*Func {
 			Example:   "I = 2 A ± 2 %\nR = 5 ohm ± 0.05 ohm\nP = I^2 * R\nsensitivity(P)",
 			Reference: "JCGM 100:2008 (GUM) §5.1.2 eq. (10), §5.1.3; central differences with the step u as in J. Kragten, Analyst 119 (1994) 2161",
 		}},
+		{Name: "monte_carlo", Params: []string{"expression", "trials", "seed"}, MinArgs: 2, MaxArgs: 3, Call: whole("monte_carlo"), Help: &Help{
+			Family:    "uncertainty",
+			Signature: "monte_carlo(expression: a number that reads uncertain values, trials: 1000 to 1000000[, seed: whole number, default 1]) -> table",
+			Summary:   "The distribution of a result when the inputs are drawn at random: its mean ± standard deviation, the 95 % coverage interval, and whether the first-order result (y ± u) agrees with it — where it does not, the result is too far from linear over the inputs' spread and the Monte Carlo interval is the one to use. The table is a histogram of the middle 99.8 % (y, count, and the count the first-order Gaussian expects): plot(table, \"y\", \"count\", \"normal\") draws it. Write it as a statement of its own.",
+			Method:    "Each input gets the Gaussian distribution of its estimate and standard uncertainty; a trial draws all of them (PCG generator seeded by seed and the trial number, so replay is exact) and re-runs the assignments made since the first uncertain input, then the expression. The interval is the probabilistically symmetric one from the sorted results. First order agrees when both ends of y ± 1.96u are within the tolerance of the Monte Carlo ends: half a unit in u's second significant digit, or twice the ends' own Monte Carlo standard error (from ten batches) when the trials cannot resolve that. Every trial costs a re-run of those statements: the work budget applies.",
+			Example:   "x = 1 ± 0.5\nmonte_carlo(exp(x), 2000)",
+			Reference: "JCGM 101:2008 (GUM Supplement 1) §6.4.7, §7.7, §7.9, §8",
+		}},
 	}
 }

@@ -412,3 +412,12 @@ func (s *Session) setWorlds(name string, copies map[int][2]Value) {
 	}
 	s.unc.worlds[name] = copies
 }
+
+// current is the names as the running evaluation sees them: the session's,
+// or those of the world being evaluated.
+func (s *Session) current() map[string]Value {
+	if s.unc.env != nil {
+		return s.unc.env
+	}
+	return s.vars
+}
