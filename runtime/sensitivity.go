@@ -148,7 +148,15 @@ func (s *Session) sensitivityOf(st *lang.Statement) (*Result, bool, error) {
 // finishTable completes the result of a statement whose value is a table
 // made by the session itself (not by the expression engine).
 func (s *Session) finishTable(st *lang.Statement, v Shower) (*Result, error) {
-	res := &Result{Stmt: st, Value: v, Text: v.Show(s.Digits), Record: v.Summary(max(RecordDigits, s.Digits))}
+	text := v.Show(s.Digits)
+	if st.Kind == lang.Assign {
+		if err := s.assign(st, v); err != nil {
+			return nil, err
+		}
+		s.setWorlds(st.Name, nil)
+		text = v.Summary(s.Digits) // shown in full by typing its name
+	}
+	res := &Result{Stmt: st, Value: v, Text: text, Record: v.Summary(max(RecordDigits, s.Digits))}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: res.Record, More: moreLines(res)})
 	return res, nil
 }

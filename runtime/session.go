@@ -214,18 +214,14 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	case lang.Define:
 		return s.define(st)
 	}
-	if st.Kind == lang.Expr && st.As == "" {
-		if res, ok, err := s.sensitivityOf(st); ok {
-			if err != nil {
-				return nil, err
+	if (st.Kind == lang.Expr || st.Kind == lang.Assign) && st.As == "" {
+		for _, form := range []func(*lang.Statement) (*Result, bool, error){s.sensitivityOf, s.monteCarloOf} {
+			if res, ok, err := form(st); ok {
+				if err != nil {
+					return nil, err
+				}
+				return s.finishTable(st, res.Value.(Shower))
 			}
-			return s.finishTable(st, res.Value.(Shower))
-		}
-		if res, ok, err := s.monteCarloOf(st); ok {
-			if err != nil {
-				return nil, err
-			}
-			return s.finishTable(st, res.Value.(Shower))
 		}
 	}
 	p, err := s.compile(st, st.Expr, st.ExprOff, nil, nil)
