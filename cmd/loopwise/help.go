@@ -31,6 +31,9 @@ Numbers and units
   Hz counts cycles: (50 Hz * 1 rev) as rad/s is the angular frequency;
   2*pi*f is a rate in s^-1. sin, cos, tan take an angle or radians.
   20 °C (or degC) is the absolute temperature 293.15 K.
+  12 mm ± 0.1 mm (or +-) carries a standard uncertainty, 2 A ± 2 % a
+  relative one, through every later result; see :help sensitivity and
+  :help monte_carlo.
   Vectors: [0, 0, 5] mm, with + - * / by scalars, dot, cross, norm, .x .y .z.
   Operators: + - * / % ^ (power, from the right: 2^3^2 = 512), comparisons
   == != < <= > >=, and/or/not.
