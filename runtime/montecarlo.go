@@ -179,7 +179,7 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 	if err != nil {
 		return nil, true, err
 	}
-	u := combined(res.Contributions)[0]
+	u := s.combined(res.Contributions)[0]
 	ys, err := s.trials(target, trials, seed)
 	if err != nil {
 		return nil, true, s.stopped(&inner, err)
@@ -192,14 +192,19 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 // trials runs the chain and the target once per trial.
 func (s *Session) trials(target *program, n int, seed uint64) ([]float64, error) {
 	k := len(s.unc.inputs)
-	z := make([]float64, k)
+	z, tmp := make([]float64, k), make([]float64, k)
 	ys := make([]float64, n)
+	l, err := s.correlationFactor()
+	if err != nil {
+		return nil, err
+	}
 	defer func() { s.unc.cur, s.unc.env, s.unc.z = nil, nil, nil }()
 	for t := range n {
 		rng := rand.New(rand.NewPCG(seed, uint64(t)))
 		for i := range z {
 			z[i] = rng.NormFloat64()
 		}
+		correlated(l, z, tmp)
 		env := make(map[string]Value, len(s.vars))
 		for name, v := range s.vars {
 			env[name] = v

@@ -137,7 +137,7 @@ func (s *Session) sensitivityOf(st *lang.Statement) (*Result, bool, error) {
 	if len(res.Contributions) == 0 {
 		return nil, true, whole("%s reads no uncertain value (enter one as 12 mm ± 0.1 mm)", strings.TrimSpace(inner.Expr))
 	}
-	u := combined(res.Contributions)[0]
+	u := s.combined(res.Contributions)[0]
 	if math.IsNaN(u) {
 		u = 0
 	}

@@ -215,6 +215,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		return s.define(st)
 	}
 	if (st.Kind == lang.Expr || st.Kind == lang.Assign) && st.As == "" {
+		if res, ok, err := s.correlateOf(st); ok {
+			return res, err
+		}
 		for _, form := range []func(*lang.Statement) (*Result, bool, error){s.sensitivityOf, s.monteCarloOf} {
 			if res, ok, err := form(st); ok {
 				if err != nil {
@@ -292,7 +295,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	}
 	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
 	contribs := s.contributions(v, copies)
-	if u := combined(contribs); u != nil {
+	if u := s.combined(contribs); u != nil {
 		if t, err := FormatUncertain(v, u, unit, s.Digits, false); err == nil {
 			text = t
 		}

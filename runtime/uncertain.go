@@ -65,6 +65,9 @@ type uncState struct {
 	// normal draws (cur.id is then -1).
 	chain []chainStep
 	z     []float64
+	// corr holds the correlation coefficients given with correlate, by
+	// the pair of input ids (lower first).
+	corr map[[2]int]float64
 }
 
 // Inputs lists the uncertain inputs of the session in the order entered.
@@ -273,22 +276,35 @@ func (s *Session) contributions(v Value, copies map[int][2]Value) []Contribution
 	return out
 }
 
-// combined is √Σ (c_i·u_i)² per component.
-func combined(cs []Contribution) []float64 {
+// combined is √(Σ_ij c_i·u_i · c_j·u_j · r_ij) per component, r_ij the
+// correlation of inputs i and j (1 on the diagonal, 0 unless given with
+// correlate): GUM eq. (16).
+func (s *Session) combined(cs []Contribution) []float64 {
 	if len(cs) == 0 {
 		return nil
 	}
 	u := make([]float64, len(cs[0].CU))
-	for _, c := range cs {
-		for i, x := range c.CU {
-			u[i] += x * x
+	for a, ca := range cs {
+		for b, cb := range cs {
+			r := 1.0
+			if a != b {
+				r = s.unc.corr[corrKey(ca.Input.ID, cb.Input.ID)]
+				if r == 0 {
+					continue
+				}
+			}
+			for i := range u {
+				u[i] += ca.CU[i] * cb.CU[i] * r
+			}
 		}
 	}
 	for i := range u {
-		u[i] = math.Sqrt(u[i])
+		u[i] = math.Sqrt(math.Max(0, u[i]))
 	}
 	return u
 }
+
+func corrKey(a, b int) [2]int { return [2]int{min(a, b), max(a, b)} }
 
 // FormatUncertain shows an estimate with its standard uncertainty as
 // "y ± u unit": u rounded to two significant digits and y to the same
