@@ -178,6 +178,14 @@ func sessionFuncs() []*Func {
 			Example:   "I = 2 A ± 2 %\nR = 5 ohm ± 0.05 ohm\nP = I^2 * R\nsensitivity(P)",
 			Reference: "JCGM 100:2008 (GUM) §5.1.2 eq. (10), §5.1.3; central differences with the step u as in J. Kragten, Analyst 119 (1994) 2161",
 		}},
+		{Name: "correlate", Params: []string{"a", "b", "r"}, MinArgs: 3, MaxArgs: 3, Call: whole("correlate"), Help: &Help{
+			Family:    "uncertainty",
+			Signature: "correlate(a: name of an uncertain input, b: another, r: plain number from -1 to 1)",
+			Summary:   "Gives two uncertain inputs (names assigned a ± value) the correlation coefficient r, as when both were measured with one instrument. First order then adds 2·c_a·u_a·c_b·u_b·r to u², and Monte Carlo draws the inputs jointly. Correlate inputs before using them. Write it as a statement of its own.",
+			Method:    "u(y)² = Σ_ij c_i·u_i·c_j·u_j·r_ij; Monte Carlo draws z' = L·z with L the Cholesky factor of the correlation matrix (gonum), which must be positive definite: inconsistent coefficients are refused.",
+			Example:   "V = 5 V ± 0.01 V\nI = 20 mA ± 0.02 mA\ncorrelate(V, I, 0.5)\nV / I",
+			Reference: "JCGM 100:2008 (GUM) §5.2, eq. (16), annex H.2; JCGM 101:2008 §6.4.8",
+		}},
 		{Name: "monte_carlo", Params: []string{"expression", "trials", "seed"}, MinArgs: 2, MaxArgs: 3, Call: whole("monte_carlo"), Help: &Help{
 			Family:    "uncertainty",
 			Signature: "monte_carlo(expression: a number that reads uncertain values, trials: 1000 to 1000000[, seed: whole number, default 1]) -> table",

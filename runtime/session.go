@@ -164,6 +164,9 @@ type Result struct {
 	// Contributions are the uncertain inputs' parts in the value's
 	// standard uncertainty (nil when it reads none; see uncertain.go).
 	Contributions []Contribution
+	// U is the combined standard uncertainty per component (with the
+	// correlations given), nil with no contributions.
+	U []float64
 }
 
 // shadowNote is the note for a name that hides a builtin.
@@ -295,7 +298,8 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	}
 	rec, _ := s.show(st, v, unit, max(RecordDigits, s.Digits))
 	contribs := s.contributions(v, copies)
-	if u := s.combined(contribs); u != nil {
+	uc := s.combined(contribs)
+	if u := uc; u != nil {
 		if t, err := FormatUncertain(v, u, unit, s.Digits, false); err == nil {
 			text = t
 		}
@@ -313,7 +317,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			cautions = append(cautions, strings.Join(strings.Fields(c), " ")) // one line in a script
 		}
 	}
-	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs}
+	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs, U: uc}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, More: moreLines(res)})
 	return res, nil
 }

@@ -262,3 +262,64 @@ func TestMonteCarloChain(t *testing.T) {
 		t.Errorf("r reassigned without ±: %v", err)
 	}
 }
+
+// TestGUMAnnexH2: the simultaneous measurement of resistance and
+// reactance of JCGM 100:2008 annex H.2 (Tables H.2 and H.3; the numbers
+// from memory): V = 4.99900 V, s = 0.0032 V; I = 19.6610 mA, s = 0.0095 mA;
+// φ = 1.04446 rad, s = 0.00075 rad; r(V, I) = −0.36, r(V, φ) = 0.86,
+// r(I, φ) = −0.65; R = V cos φ/I = 127.732 Ω with u = 0.071 Ω, X = V sin φ/I
+// = 219.847 Ω with u = 0.295 Ω, Z = V/I = 254.260 Ω with u = 0.236 Ω. The
+// estimates are checked to half a unit of their last published digit; the
+// uncertainties to 3 %, since the inputs' s and r are published to two
+// digits (0.0032 alone is uncertain by 1.6 %) and the annex computed from
+// the unrounded data.
+func TestGUMAnnexH2(t *testing.T) {
+	base := []string{"V = 4.99900 V ± 0.0032 V", "I = 19.6610 mA ± 0.0095 mA", "phi = 1.04446 rad ± 0.00075 rad",
+		"correlate(V, I, -0.36)", "correlate(V, phi, 0.86)", "correlate(I, phi, -0.65)"}
+	for _, c := range []struct {
+		expr    string
+		y, u, d float64
+	}{{"V/I*cos(phi)", 127.732, 0.071, 0.0005}, {"V/I*sin(phi)", 219.847, 0.295, 0.0005}, {"V/I", 254.260, 0.236, 0.0005}} {
+		r := uncRun(t, append(base, c.expr)...)
+		y := r.Value.(runtime.Quantity).V
+		if math.Abs(y-c.y) > c.d || len(r.U) != 1 || math.Abs(r.U[0]/c.u-1) > 0.03 {
+			t.Errorf("%s = %.6f ± %v Ω; GUM H.2: %.3f ± %.3f Ω", c.expr, y, r.U, c.y, c.u)
+		}
+		t.Logf("%s = %.4f Ω ± %.4f Ω (GUM H.2: %.3f ± %.3f)", c.expr, y, r.U[0], c.y, c.u)
+	}
+	// Monte Carlo with the same correlations: the sample standard
+	// deviation of R within 2 % of first order (R is nearly linear over
+	// these small spreads; 4 standard errors of an SD at M = 2·10⁴ is
+	// 4/√(2M) = 2 %)
+	r := uncRun(t, append(base, "R = V/I*cos(phi)", "monte_carlo(R, 20000)")...)
+	mc := r.Value.(*runtime.MonteCarlo)
+	if math.Abs(mc.SD/mc.U-1) > 0.02 || !mc.Agree {
+		t.Errorf("Monte Carlo sd %g against first order %g", mc.SD, mc.U)
+	}
+}
+
+// TestCorrelateErrors: inconsistent or misplaced correlations are refused.
+func TestCorrelateErrors(t *testing.T) {
+	for _, c := range []struct {
+		lines []string
+		want  string
+	}{
+		{[]string{"a = 1 ± 0.1", "b = 2 ± 0.1", "d = 3 ± 0.1", "correlate(a, b, 0.5)", "correlate(b, d, 0.5)", "correlate(a, d, -0.9)"}, "not positive definite"},
+		{[]string{"a = 1 ± 0.1", "correlate(a, q, 0.5)"}, `"q" is not a name assigned an uncertain value`},
+		{[]string{"a = 1 ± 0.1", "b = 2 ± 0.1", "correlate(a, b, 2)"}, "from -1 to 1"},
+		{[]string{"a = 1 ± 0.1", "correlate(a, a, 0.5)"}, "fully correlated with itself"},
+		{[]string{"a = 1 ± 0.1", "b = 2*a", "correlate(a, b, 0.5)"}, `"b" is not a name assigned an uncertain value`},
+	} {
+		s := stdSession()
+		var err error
+		for i, l := range c.lines {
+			_, err = s.Eval(lang.Pos{File: "u.lw", Line: i + 1, Col: 1}, l)
+			if err != nil && i < len(c.lines)-1 {
+				t.Fatalf("%s: %v", l, err)
+			}
+		}
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%v: got %v, want %q", c.lines, err, c.want)
+		}
+	}
+}
