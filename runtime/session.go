@@ -586,6 +586,13 @@ func (s *Session) Variables() []Variable {
 				text = t
 			}
 		}
+		if w := s.unc.worlds[name]; w != nil {
+			if uc := s.combined(s.contributions(v, w)); uc != nil {
+				if t, err := FormatUncertain(v, uc, s.declared[name], s.Digits, false); err == nil {
+					text = t
+				}
+			}
+		}
 		out = append(out, Variable{Name: name, Value: v, Text: text})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Name < out[j].Name })

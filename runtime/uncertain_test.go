@@ -323,3 +323,20 @@ func TestCorrelateErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestUncertainVariables: the list of variables shows the uncertainty.
+func TestUncertainVariables(t *testing.T) {
+	s := stdSession()
+	for i, l := range []string{"r = 10 mm ± 0.1 mm", "A = pi*r^2"} {
+		if _, err := s.Eval(lang.Pos{File: "u.lw", Line: i + 1, Col: 1}, l); err != nil {
+			t.Fatal(err)
+		}
+	}
+	got := map[string]string{}
+	for _, v := range s.Variables() {
+		got[v.Name] = v.Text
+	}
+	if got["r"] != "10.00 mm ± 0.10 mm" || got["A"] != "314.2 mm^2 ± 6.3 mm^2" {
+		t.Errorf("variables %v", got)
+	}
+}
