@@ -62,6 +62,10 @@ type compiledSources struct {
 	shapes  []Shape
 	shapesI []float64
 	plates  []Plate
+	// vb holds the segments again, in groups for the vector B kernel
+	// (bkernel.go); nil when no vector kernel runs on this CPU or the
+	// segments are outside its range.
+	vb *vecSegs
 	// stop, if not nil, is polled by the numerical integrals of helices.
 	stop func() error
 }
@@ -96,6 +100,7 @@ func compile(srcs []Source) *compiledSources {
 			}
 		}
 	}
+	c.vb = newVecSegs(c)
 	return c
 }
 
@@ -116,34 +121,14 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 	}
 	var sx, sy, sz float64
 	if which == FieldB {
-		for i := range c.a {
-			if skip != nil && skip[c.segIdx[i]] {
-				continue
-			}
-			r1x, r1y, r1z := c.a[i].X-x.X, c.a[i].Y-x.Y, c.a[i].Z-x.Z
-			r2x, r2y, r2z := c.b[i].X-x.X, c.b[i].Y-x.Y, c.b[i].Z-x.Z
-			n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
-			n2 := math.Sqrt(r2x*r2x + r2y*r2y + r2z*r2z)
-			dx, dy, dz := c.b[i].X-c.a[i].X, c.b[i].Y-c.a[i].Y, c.b[i].Z-c.a[i].Z
-			cx, cy, cz := r1y*dz-r1z*dy, r1z*dx-r1x*dz, r1x*dy-r1y*dx // r1 × (b − a)
-			nn := n1 * n2
-			s := sumTerm(nn, r1x*r2x+r1y*r2y+r1z*r2z, cx*cx+cy*cy+cz*cz)
-			tl := nearLineRel * c.l[i]
-			if s <= tl*tl {
-				b, err := SegmentB(c.a[i], c.b[i], x) // rare: on or near the line
-				if err != nil {
-					return Vec{}, err
-				}
-				sx, sy, sz = sx+c.segI[i]*b.X, sy+c.segI[i]*b.Y, sz+c.segI[i]*b.Z
-				continue
-			}
-			f := c.segI[i] * k0 * (n1 + n2) / (nn * s)
-			if math.IsInf(f, 0) || math.IsNaN(f) {
-				return Vec{}, ErrOnWire
-			}
-			sx += f * cx
-			sy += f * cy
-			sz += f * cz
+		var err error
+		if skip == nil && c.vb != nil && vecPointOK(x) {
+			sx, sy, sz, err = c.vb.sum(c, x)
+		} else {
+			sx, sy, sz, err = c.segmentsB(0, len(c.a), x, skip)
+		}
+		if err != nil {
+			return Vec{}, err
 		}
 	} else {
 		ax, ay, az, err := c.segmentsA(x, skip)
@@ -176,6 +161,44 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 		sx, sy, sz = sx+c.shapesI[i]*v.X, sy+c.shapesI[i]*v.Y, sz+c.shapesI[i]*v.Z
 	}
 	return Vec{X: sx, Y: sy, Z: sz}, nil
+}
+
+// segmentsB sums B at x of the straight segments lo to hi−1 of c, without
+// those whose primitive number is set in skip (nil skips none), in their
+// order. It is the scalar loop: the reference for the vector kernels
+// (bkernel.go), which also hand it every group of segments they flag.
+func (c *compiledSources) segmentsB(lo, hi int, x Vec, skip []bool) (float64, float64, float64, error) {
+	var sx, sy, sz float64
+	for i := lo; i < hi; i++ {
+		if skip != nil && skip[c.segIdx[i]] {
+			continue
+		}
+		r1x, r1y, r1z := c.a[i].X-x.X, c.a[i].Y-x.Y, c.a[i].Z-x.Z
+		r2x, r2y, r2z := c.b[i].X-x.X, c.b[i].Y-x.Y, c.b[i].Z-x.Z
+		n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
+		n2 := math.Sqrt(r2x*r2x + r2y*r2y + r2z*r2z)
+		dx, dy, dz := c.b[i].X-c.a[i].X, c.b[i].Y-c.a[i].Y, c.b[i].Z-c.a[i].Z
+		cx, cy, cz := r1y*dz-r1z*dy, r1z*dx-r1x*dz, r1x*dy-r1y*dx // r1 × (b − a)
+		nn := n1 * n2
+		s := sumTerm(nn, r1x*r2x+r1y*r2y+r1z*r2z, cx*cx+cy*cy+cz*cz)
+		tl := nearLineRel * c.l[i]
+		if s <= tl*tl {
+			b, err := SegmentB(c.a[i], c.b[i], x) // rare: on or near the line
+			if err != nil {
+				return 0, 0, 0, err
+			}
+			sx, sy, sz = sx+c.segI[i]*b.X, sy+c.segI[i]*b.Y, sz+c.segI[i]*b.Z
+			continue
+		}
+		f := c.segI[i] * k0 * (n1 + n2) / (nn * s)
+		if math.IsInf(f, 0) || math.IsNaN(f) {
+			return 0, 0, 0, ErrOnWire
+		}
+		sx += f * cx
+		sy += f * cy
+		sz += f * cz
+	}
+	return sx, sy, sz, nil
 }
 
 // chunk is the number of points a worker takes at a time.
