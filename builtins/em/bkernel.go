@@ -4,10 +4,10 @@ import "math"
 
 // The vector B kernel for straight segments.
 //
-// compile copies the segments once more into blocks of vecBlock segments,
+// compile's vecB copies the segments once more into blocks of vecBlock segments,
 // structure of arrays inside each block (vecFields rows of vecBlock
-// lanes: ax ay az bx by bz w t, with w = μ0/4π·I and t the near-line
-// threshold below), so that a vector kernel loads each quantity of 8 (or
+// lanes: ax ay az bx by bz dx dy dz w t, with d = b − a, w = μ0/4π·I and t
+// the near-line threshold below), so that a vector kernel loads each quantity of 8 (or
 // 4) segments with one instruction. The kernels (bkernel_amd64.s) compute,
 // per lane, the scalar loop's closed form (segmentsB):
 //
@@ -42,7 +42,7 @@ import "math"
 // only on the sources and the point, never on the worker count.
 const (
 	vecBlock  = 8 // segments in a block
-	vecFields = 8 // rows of a block: ax ay az bx by bz w t
+	vecFields = 11 // rows of a block: ax ay az bx by bz dx dy dz w t
 	// vecRange bounds the coordinates and |w| the vector path accepts,
 	// and its inverse the segment lengths.
 	vecRange = 0x1p60
@@ -50,14 +50,18 @@ const (
 	vecMargin = 1 + 0x1p-30
 )
 
-// bKernel is one vector kernel. run sums the groups g to n−1 (group k is
+// bKernel is one vector kernel. Its run method (per architecture) sums
+// the groups g to n−1 (group k is
 // segments k·lanes to k·lanes + lanes − 1) into acc (x lanes at 0, y at 8,
 // z at 16; kept between calls) and returns the number of the first group
-// it flagged, or n.
+// it flagged, or n. chain[k] is 1 when every segment of block k ends
+// exactly (bit for bit) where the next begins, the last one where block
+// k+1 begins (see vecSegs); a kernel may then take n2 from the next
+// segment's n1.
 type bKernel struct {
 	name  string
 	lanes int
-	run   func(blk *float64, g, n int, x, y, z float64, acc *[24]float64) int
+	id    int // which assembly function run calls
 }
 
 // bKernelUse is the kernel compile prepares for: the widest this CPU runs
@@ -71,10 +75,15 @@ func widestKernel() *bKernel {
 	return &bKernels[0]
 }
 
-// vecSegs is the segments of a compiledSources in blocks for kernel k.
+// vecSegs is the segments of a compiledSources in blocks for kernel k:
+// nFull/vecBlock blocks, then one more whose starts (rows ax ay az) are
+// all the end of segment nFull−1, so that a kernel may read the starts of
+// the block after any block; chain marks the blocks whose segments are
+// joined end to start.
 type vecSegs struct {
 	k     *bKernel
 	blk   []float64
+	chain []uint8
 	nFull int // segments in whole blocks; the rest go to segmentsB
 }
 
@@ -98,12 +107,30 @@ func buildVecSegs(c *compiledSources, k *bKernel) *vecSegs {
 			return nil
 		}
 	}
-	v := &vecSegs{k: k, nFull: nFull, blk: make([]float64, nFull*vecFields)}
+	nb := nFull / vecBlock
+	v := &vecSegs{k: k, nFull: nFull, blk: make([]float64, (nb+1)*vecBlock*vecFields), chain: make([]uint8, nb)}
+	last := v.blk[nb*vecBlock*vecFields:]
+	for j := range vecBlock {
+		last[j], last[vecBlock+j], last[2*vecBlock+j] = c.b[nFull-1].X, c.b[nFull-1].Y, c.b[nFull-1].Z
+	}
+	same := func(p, q Vec) bool {
+		return math.Float64bits(p.X) == math.Float64bits(q.X) && math.Float64bits(p.Y) == math.Float64bits(q.Y) &&
+			math.Float64bits(p.Z) == math.Float64bits(q.Z)
+	}
+	for k := range nb {
+		v.chain[k] = 1
+		for i := k * vecBlock; i < (k+1)*vecBlock && i+1 < nFull; i++ {
+			if !same(c.b[i], c.a[i+1]) {
+				v.chain[k] = 0
+			}
+		}
+	}
 	for i := 0; i < nFull; i++ {
 		row := v.blk[i/vecBlock*vecBlock*vecFields+i%vecBlock:]
 		tl := nearLineRel * c.l[i]
 		for f, q := range [vecFields]float64{
 			c.a[i].X, c.a[i].Y, c.a[i].Z, c.b[i].X, c.b[i].Y, c.b[i].Z,
+			c.b[i].X - c.a[i].X, c.b[i].Y - c.a[i].Y, c.b[i].Z - c.a[i].Z, // as segmentsB rounds b − a
 			c.segI[i] * k0, tl * tl * vecMargin,
 		} {
 			row[f*vecBlock] = q
@@ -127,7 +154,7 @@ func (v *vecSegs) sum(c *compiledSources, x Vec) (float64, float64, float64, err
 	lanes := v.k.lanes
 	n := v.nFull / lanes
 	for g := 0; ; g++ {
-		g = v.k.run(&v.blk[0], g, n, x.X, x.Y, x.Z, &acc)
+		g = v.k.run(&v.blk[0], &v.chain[0], g, n, x.X, x.Y, x.Z, &acc) // acc stays on the stack
 		if g >= n {
 			break
 		}

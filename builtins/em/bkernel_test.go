@@ -39,15 +39,17 @@ func bkKernel(t testing.TB, name string) *bKernel {
 var bkNames = []string{"avx512", "avx2"}
 
 // bkRandomSegs is n segments of random directions and lengths from 1 mm
-// to 0.3 m in a 0.4 m box, every third one starting where the previous one
-// ended, with currents from −5 to 5 A and segment n/2 carrying none.
-func bkRandomSegs(rng *rand.Rand, n int) (a, b []Vec, cur []float64) {
+// to 0.3 m in a 0.4 m box, with currents from −5 to 5 A and segment n/2
+// carrying none. Loose: every third one starts where the previous one
+// ended. Joined: a polyline (each starts where the previous ended), broken
+// once, at segment 2n/3, so that the kernels meet blocks of both kinds.
+func bkRandomSegs(rng *rand.Rand, n int, joined bool) (a, b []Vec, cur []float64) {
 	rv := func(s float64) Vec {
 		return Vec{X: s * (2*rng.Float64() - 1), Y: s * (2*rng.Float64() - 1), Z: s * (2*rng.Float64() - 1)}
 	}
 	for i := range n {
 		start := rv(0.2)
-		if i%3 == 1 {
+		if i > 0 && ((!joined && i%3 == 1) || (joined && i != 2*n/3)) {
 			start = b[i-1]
 		}
 		l := 1e-3 * math.Pow(300, rng.Float64())
@@ -128,10 +130,21 @@ func TestVecKernelsAgree(t *testing.T) {
 			k := bkKernel(t, name)
 			rng := rand.New(rand.NewPCG(7, uint64(k.lanes)))
 			var worstSum, worstB float64
-			for _, n := range []int{1, 3, 4, 7, 8, 9, 12, 15, 16, 17, 64, 203} {
-				a, b, cur := bkRandomSegs(rng, n)
+			chained := 0
+			for _, nj := range []struct {
+				n      int
+				joined bool
+			}{{1, true}, {3, false}, {4, true}, {7, false}, {8, false}, {8, true}, {9, true}, {12, false}, {15, true},
+				{16, true}, {17, false}, {17, true}, {64, true}, {203, false}, {203, true}} {
+				n := nj.n
+				a, b, cur := bkRandomSegs(rng, n, nj.joined)
 				c := bkCompiled(a, b, cur)
 				v := buildVecSegs(c, k)
+				if v != nil {
+					for _, f := range v.chain {
+						chained += int(f)
+					}
+				}
 				if n < vecBlock {
 					if v != nil {
 						t.Errorf("n=%d: vector layout for fewer segments than a block", n)
@@ -173,12 +186,16 @@ func TestVecKernelsAgree(t *testing.T) {
 					}
 				}
 			}
+			if chained < 20 {
+				t.Errorf("only %d blocks of joined segments: the test misses the shared-end path", chained)
+			}
 			t.Logf("%s: largest |B_vector − B_scalar| %.2g of Σ|terms|, %.2g of |B| (where |B| > Σ|terms|/10)", name, worstSum, worstB)
 		})
 	}
 }
 
-// TestVecGuardFlags: a kernel flags a group whenever the scalar loop would
+// TestVecGuardFlags: for 16 segments (joined end to start in the first
+// block, or loose), a kernel flags a group whenever the scalar loop would
 // hand one of its segments to SegmentB (s ≤ (nearLineRel·l)², written out
 // here as segmentsB tests it), including points at that threshold to
 // within 10⁻¹²; and it flags no group for points far from the segments
@@ -190,11 +207,14 @@ func TestVecGuardFlags(t *testing.T) {
 			rng := rand.New(rand.NewPCG(11, 3))
 			nearSeen := 0
 			for trial := 0; trial < 40; trial++ {
-				a, b, cur := bkRandomSegs(rng, vecBlock)
+				a, b, cur := bkRandomSegs(rng, 2*vecBlock, trial%2 == 0)
 				c := bkCompiled(a, b, cur)
 				v := buildVecSegs(c, k)
+				if trial%2 == 0 && v.chain[0] != 1 {
+					t.Fatal("joined segments, block not marked")
+				}
 				for _, x := range bkPoints(rng, a, b) {
-					for g := 0; g < vecBlock/k.lanes; g++ {
+					for g := 0; g < 2*vecBlock/k.lanes; g++ {
 						near := false
 						for i := g * k.lanes; i < (g+1)*k.lanes; i++ {
 							r1, r2, d := r3.Sub(a[i], x), r3.Sub(b[i], x), r3.Sub(b[i], a[i])
@@ -204,7 +224,7 @@ func TestVecGuardFlags(t *testing.T) {
 							near = near || s <= tl*tl
 						}
 						var acc [24]float64
-						flagged := k.run(&v.blk[0], g, g+1, x.X, x.Y, x.Z, &acc) == g
+						flagged := k.run(&v.blk[0], &v.chain[0], g, g+1, x.X, x.Y, x.Z, &acc) == g
 						if near {
 							nearSeen++
 							if !flagged {
@@ -217,7 +237,7 @@ func TestVecGuardFlags(t *testing.T) {
 				for range 20 {
 					x := r3.Scale(2+rng.Float64(), r3.Unit(Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}))
 					var acc [24]float64
-					if g := k.run(&v.blk[0], 0, vecBlock/k.lanes, x.X, x.Y, x.Z, &acc); g != vecBlock/k.lanes {
+					if g := k.run(&v.blk[0], &v.chain[0], 0, 2*vecBlock/k.lanes, x.X, x.Y, x.Z, &acc); g != 2*vecBlock/k.lanes {
 						t.Errorf("far point %v: group %d flagged", x, g)
 					}
 				}

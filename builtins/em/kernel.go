@@ -63,15 +63,29 @@ type compiledSources struct {
 	shapesI []float64
 	plates  []Plate
 	// vb holds the segments again, in groups for the vector B kernel
-	// (bkernel.go); nil when no vector kernel runs on this CPU or the
-	// segments are outside its range.
-	vb *vecSegs
+	// (bkernel.go), made at the first B evaluation (vecB); nil when no
+	// vector kernel runs on this CPU or the segments are outside its
+	// range.
+	vb     *vecSegs
+	vbOnce sync.Once
 	// stop, if not nil, is polled by the numerical integrals of helices.
 	stop func() error
 }
 
 func compile(srcs []Source) *compiledSources {
 	c := &compiledSources{}
+	n := 0
+	for _, s := range srcs {
+		if s.I != 0 {
+			for _, p := range s.Path.Prims {
+				if p.Kind == Segment {
+					n++
+				}
+			}
+		}
+	}
+	c.a, c.b, c.l, c.segI = make([]Vec, 0, n), make([]Vec, 0, n), make([]float64, 0, n), make([]float64, 0, n)
+	c.segIdx, c.flat = make([]int, 0, n), make([]flatSeg, 0, n)
 	k := 0
 	for _, s := range srcs {
 		if s.Plate != nil {
@@ -100,8 +114,14 @@ func compile(srcs []Source) *compiledSources {
 			}
 		}
 	}
-	c.vb = newVecSegs(c)
 	return c
+}
+
+// vecB returns the segments laid out for the vector B kernel, making them
+// at the first call (safe for concurrent callers).
+func (c *compiledSources) vecB() *vecSegs {
+	c.vbOnce.Do(func() { c.vb = newVecSegs(c) })
+	return c.vb
 }
 
 // at computes the field at one point: segments first in their order, then
@@ -122,8 +142,8 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 	var sx, sy, sz float64
 	if which == FieldB {
 		var err error
-		if skip == nil && c.vb != nil && vecPointOK(x) {
-			sx, sy, sz, err = c.vb.sum(c, x)
+		if vb := c.vecB(); skip == nil && vb != nil && vecPointOK(x) {
+			sx, sy, sz, err = vb.sum(c, x)
 		} else {
 			sx, sy, sz, err = c.segmentsB(0, len(c.a), x, skip)
 		}
