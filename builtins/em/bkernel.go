@@ -41,7 +41,7 @@ import "math"
 // the accumulator lanes are added in a fixed order. The result depends
 // only on the sources and the point, never on the worker count.
 const (
-	vecBlock  = 8 // segments in a block
+	vecBlock  = 8  // segments in a block
 	vecFields = 11 // rows of a block: ax ay az bx by bz dx dy dz w t
 	// vecRange bounds the coordinates and |w| the vector path accepts,
 	// and its inverse the segment lengths.
