@@ -374,23 +374,37 @@ func TestVecFieldsWorkers(t *testing.T) {
 
 // BenchmarkBKernel times B of a 2000-segment coil at 256 points on one
 // core by the scalar loop and each vector kernel this CPU runs, in one
-// run, and reports segment–point interactions per second.
+// run, and reports segment–point interactions per second. "joined" is the
+// coil as a path (each segment starts where the last ended: one square
+// root a segment on the AVX-512 path); "loose" is the same coil with every
+// other segment reversed and its current negated (the same field, no
+// shared ends: two square roots a segment).
 func BenchmarkBKernel(b *testing.B) {
 	coil := cpPolyCoil(b, 0.02, 0, 0.05, 200, 10)
-	c := compile([]Source{{Path: coil, I: 1}})
+	joined := compile([]Source{{Path: coil, I: 1}})
+	var a2, b2 []Vec
+	var cur []float64
+	for i := range joined.a {
+		if i%2 == 0 {
+			a2, b2, cur = append(a2, joined.a[i]), append(b2, joined.b[i]), append(cur, 1)
+		} else {
+			a2, b2, cur = append(a2, joined.b[i]), append(b2, joined.a[i]), append(cur, -1)
+		}
+	}
+	loose := bkCompiled(a2, b2, cur)
 	pts := make([]Vec, 256)
 	for i := range pts {
 		f := float64(i)
 		pts[i] = Vec{X: 0.05 * math.Cos(f), Y: 0.05 * math.Sin(f), Z: 0.1 * f / float64(len(pts))}
 	}
 	report := func(b *testing.B, n int) {
-		b.ReportMetric(float64(n)*float64(len(pts)*len(c.a))/b.Elapsed().Seconds(), "interactions/s")
+		b.ReportMetric(float64(n)*float64(len(pts)*len(joined.a))/b.Elapsed().Seconds(), "interactions/s")
 	}
 	b.Run("scalar", func(b *testing.B) {
 		n := 0
 		for b.Loop() {
 			for _, x := range pts {
-				if _, _, _, err := c.segmentsB(0, len(c.a), x, nil); err != nil {
+				if _, _, _, err := joined.segmentsB(0, len(joined.a), x, nil); err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -399,18 +413,23 @@ func BenchmarkBKernel(b *testing.B) {
 		report(b, n)
 	})
 	for _, name := range bkNames {
-		b.Run(name, func(b *testing.B) {
-			v := buildVecSegs(c, bkKernel(b, name))
-			n := 0
-			for b.Loop() {
-				for _, x := range pts {
-					if _, _, _, err := v.sum(c, x); err != nil {
-						b.Fatal(err)
+		for _, c := range []struct {
+			name string
+			c    *compiledSources
+		}{{"joined", joined}, {"loose", loose}} {
+			b.Run(name+"/"+c.name, func(b *testing.B) {
+				v := buildVecSegs(c.c, bkKernel(b, name))
+				n := 0
+				for b.Loop() {
+					for _, x := range pts {
+						if _, _, _, err := v.sum(c.c, x); err != nil {
+							b.Fatal(err)
+						}
 					}
+					n++
 				}
-				n++
-			}
-			report(b, n)
-		})
+				report(b, n)
+			})
+		}
 	}
 }
