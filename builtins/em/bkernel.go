@@ -36,6 +36,11 @@ import "math"
 // keeps, and no per-lane finiteness test is needed. Sources or points
 // outside that range use segmentsB.
 //
+// Shared ends. When every segment of a block ends bit for bit where the
+// next begins (chain), the AVX-512 kernel takes r2 = x − b and n2 of lane
+// j from r1 and n1 of lane j+1 (of the next block for the last lane): one
+// square root a segment instead of two, with the same rounded values.
+//
 // Order. Lane j of every group is summed in accumulator lane j; flagged
 // groups, the remainder (the last len mod 8 segments, by segmentsB) and
 // the accumulator lanes are added in a fixed order. The result depends
