@@ -141,8 +141,12 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 	}
 	var sx, sy, sz float64
 	if which == FieldB {
+		var vb *vecSegs
+		if skip == nil && vecPointOK(x) {
+			vb = c.vecB()
+		}
 		var err error
-		if vb := c.vecB(); skip == nil && vb != nil && vecPointOK(x) {
+		if vb != nil {
 			sx, sy, sz, err = vb.sum(c, x)
 		} else {
 			sx, sy, sz, err = c.segmentsB(0, len(c.a), x, skip)
