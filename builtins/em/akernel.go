@@ -58,11 +58,12 @@ func (c *compiledSources) segmentsA(x Vec, skip []bool) (float64, float64, float
 		return segmentsAHook(c, x, skip)
 	}
 	var sx, sy, sz float64
-	for k := range c.flat {
+	flat := c.flatSegs()
+	for k := range flat {
 		if skip != nil && skip[c.segIdx[k]] {
 			continue
 		}
-		s := &c.flat[k]
+		s := &flat[k]
 		r1x, r1y, r1z := s.ax-x.X, s.ay-x.Y, s.az-x.Z
 		r2x, r2y, r2z := s.bx-x.X, s.by-x.Y, s.bz-x.Z
 		n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)

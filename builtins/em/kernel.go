@@ -51,10 +51,12 @@ type compiledSources struct {
 	l    []float64 // segment lengths
 	segI []float64 // segment currents
 	// flat holds the segments again for the vector-potential loop
-	// (segmentsA), one record each, in the same order as a and b.
-	flat    []flatSeg
-	others  []Prim
-	othersI []float64
+	// (segmentsA), one record each, in the same order as a and b; made at
+	// the first A evaluation (flatSegs).
+	flat     []flatSeg
+	flatOnce sync.Once
+	others   []Prim
+	othersI  []float64
 	// segIdx and othIdx number each entry by its place among all the
 	// primitives of all the sources, for masking (see atMasked).
 	segIdx, othIdx []int
@@ -85,7 +87,7 @@ func compile(srcs []Source) *compiledSources {
 		}
 	}
 	c.a, c.b, c.l, c.segI = make([]Vec, 0, n), make([]Vec, 0, n), make([]float64, 0, n), make([]float64, 0, n)
-	c.segIdx, c.flat = make([]int, 0, n), make([]flatSeg, 0, n)
+	c.segIdx = make([]int, 0, n)
 	k := 0
 	for _, s := range srcs {
 		if s.Plate != nil {
@@ -106,7 +108,6 @@ func compile(srcs []Source) *compiledSources {
 				c.l = append(c.l, r3.Norm(r3.Sub(p.B, p.A)))
 				c.segI = append(c.segI, s.I)
 				c.segIdx = append(c.segIdx, k-1)
-				c.flat = append(c.flat, newFlatSeg(p.A, p.B, s.I))
 			} else {
 				c.others = append(c.others, p)
 				c.othersI = append(c.othersI, s.I)
@@ -115,6 +116,18 @@ func compile(srcs []Source) *compiledSources {
 		}
 	}
 	return c
+}
+
+// flatSegs returns the segments as records for segmentsA, making them at
+// the first call (safe for concurrent callers).
+func (c *compiledSources) flatSegs() []flatSeg {
+	c.flatOnce.Do(func() {
+		c.flat = make([]flatSeg, len(c.a))
+		for i := range c.a {
+			c.flat[i] = newFlatSeg(c.a[i], c.b[i], c.segI[i])
+		}
+	})
+	return c.flat
 }
 
 // vecB returns the segments laid out for the vector B kernel, making them
