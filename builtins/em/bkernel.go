@@ -4,12 +4,13 @@ import "math"
 
 // The vector B kernel for straight segments.
 //
-// compile's vecB copies the segments once more into blocks of vecBlock segments,
-// structure of arrays inside each block (vecFields rows of vecBlock
-// lanes: ax ay az bx by bz dx dy dz w t, with d = b − a, w = μ0/4π·I and t
-// the near-line threshold below), so that a vector kernel loads each quantity of 8 (or
-// 4) segments with one instruction. The kernels (bkernel_amd64.s) compute,
-// per lane, the scalar loop's closed form (segmentsB):
+// compiledSources.vecB copies the segments once more into blocks of
+// vecBlock segments, structure of arrays inside each block (vecFields rows
+// of vecBlock lanes: ax ay az bx by bz dx dy dz w t, with d = b − a as
+// segmentsB rounds it, w = μ0/4π·I and t the near-line threshold below),
+// so that a vector kernel loads each quantity of 8 (or 4) segments with
+// one instruction. The kernels (bkernel_amd64.s) compute, per lane, the
+// scalar loop's closed form (segmentsB):
 //
 //	B += w (n1 + n2)/(n1 n2 s) · r1 × (b − a),  s = n1 n2 + r1·r2  (r1·r2 ≥ 0)
 //	                                              s = |r1 × (b − a)|²/(n1 n2 − r1·r2)  (r1·r2 < 0)
@@ -20,9 +21,9 @@ import "math"
 // multiply-add there), so every lane takes the same branch of sumTerm as
 // the scalar loop; the norms, |c|², and the sum use FMA.
 //
-// Guards. A lane is flagged when its denominator is at most
-// max(t·num, 2^-200) (num = 1 or n1 n2 − r1·r2), with t = (nearLineRel·l)²
-// enlarged by 2^-30. The enlargement is far more than the few roundings
+// Guards. A lane is flagged when its denominator (n1 n2 + r1·r2 or
+// |r1 × (b − a)|²) is at most t·num + 2^-200 (one fused multiply-add;
+// num = 1 or n1 n2 − r1·r2), with t = (nearLineRel·l)² enlarged by 2^-30. The enlargement is far more than the few roundings
 // by which the vector and scalar forms of the test can differ, so every
 // lane that the scalar loop would hand to SegmentB is flagged (a few more
 // may be, which does no harm). A kernel stops at the first group of lanes
@@ -56,10 +57,9 @@ const (
 )
 
 // bKernel is one vector kernel. Its run method (per architecture) sums
-// the groups g to n−1 (group k is
-// segments k·lanes to k·lanes + lanes − 1) into acc (x lanes at 0, y at 8,
-// z at 16; kept between calls) and returns the number of the first group
-// it flagged, or n. chain[k] is 1 when every segment of block k ends
+// the groups g to n−1 (group k is segments k·lanes to k·lanes + lanes − 1)
+// into acc (x lanes at 0, y at 8, z at 16; kept between calls) and
+// returns the number of the first group it flagged, or n. chain[k] is 1 when every segment of block k ends
 // exactly (bit for bit) where the next begins, the last one where block
 // k+1 begins (see vecSegs); a kernel may then take n2 from the next
 // segment's n1.
