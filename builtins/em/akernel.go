@@ -63,7 +63,7 @@ func (c *compiledSources) segmentsA(x Vec, skip []bool) (float64, float64, float
 	if segmentsAHook != nil {
 		return segmentsAHook(c, x, skip)
 	}
-	if k := aVector; k != nil && len(c.flat) > 0 {
+	if k := aVector; k != nil && len(c.flatSegs()) > 0 {
 		return c.segmentsAVec(k, x, skip)
 	}
 	return c.segmentsAScalar(x, skip)
@@ -74,11 +74,12 @@ func (c *compiledSources) segmentsA(x Vec, skip []bool) (float64, float64, float
 // against.
 func (c *compiledSources) segmentsAScalar(x Vec, skip []bool) (float64, float64, float64, error) {
 	var sx, sy, sz float64
-	for k := range c.flat {
+	flat := c.flatSegs()
+	for k := range flat {
 		if skip != nil && skip[c.segIdx[k]] {
 			continue
 		}
-		s := &c.flat[k]
+		s := &flat[k]
 		r1x, r1y, r1z := s.ax-x.X, s.ay-x.Y, s.az-x.Z
 		r2x, r2y, r2z := s.bx-x.X, s.by-x.Y, s.bz-x.Z
 		n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
@@ -181,7 +182,7 @@ func aBlocks(flat []flatSeg) []float64 {
 // the scalar loop, so that refusals (ErrOnWire) are the scalar loop's.
 func (c *compiledSources) segmentsAVec(k *aKernel, x Vec, skip []bool) (float64, float64, float64, error) {
 	var acc [3]float64
-	n := len(c.flat)
+	n := len(c.flatSegs())
 	lo := 0
 	if skip != nil {
 		// a []bool holds one byte 0 or 1 per element

@@ -101,7 +101,7 @@ func BenchmarkMutual1000(b *testing.B) {
 func BenchmarkSegmentAGoSum(b *testing.B) {
 	coil := cpPolyCoil(b, 0.02, 0, 0.02, 10, 100)
 	c := compile([]Source{{Path: coil, I: 1}})
-	w := make([]float64, len(c.flat))
+	w := make([]float64, len(c.flatSegs()))
 	for i := range w {
 		w[i] = 1 + float64(i%7)
 	}
@@ -110,18 +110,18 @@ func BenchmarkSegmentAGoSum(b *testing.B) {
 	var sink float64
 	for b.Loop() {
 		var sx, sy, sz float64
-		for k := range c.flat {
+		for k := range c.flatSegs() {
 			if skip[c.segIdx[k]] {
 				continue
 			}
-			s := &c.flat[k]
+			s := &c.flatSegs()[k]
 			sx += w[k] * s.ex
 			sy += w[k] * s.ey
 			sz += w[k] * s.ez
 		}
 		sink += sx + sy + sz
 	}
-	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(c.flat)), "ns/interaction")
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(c.flatSegs())), "ns/interaction")
 	if math.IsNaN(sink) {
 		b.Fatal("NaN")
 	}

@@ -97,7 +97,7 @@ func TestSegmentsAVector(t *testing.T) {
 					worst = math.Max(worst, d/s)
 				}
 			}
-			for i, f := range c.flat {
+			for i, f := range c.flatSegs() {
 				if skip != nil && skip[c.segIdx[i]] {
 					continue
 				}
@@ -234,7 +234,7 @@ func TestAKernelsNearLine(t *testing.T) {
 		near := 0
 		for range 400 {
 			c := compile(akSources(t, rng))
-			n := len(c.flat)
+			n := len(c.flatSegs())
 			for j := range 50 {
 				x := akPoint(rng, c)
 				if j%2 == 1 {
@@ -249,8 +249,8 @@ func TestAKernelsNearLine(t *testing.T) {
 					x = r3.Add(foot, r3.Scale(nearLineA*r3.Norm(d)*(1+0.01*(2*rng.Float64()-1)), perp))
 				}
 				var want, got []int
-				for i := range c.flat {
-					s := &c.flat[i]
+				for i := range c.flatSegs() {
+					s := &c.flatSegs()[i]
 					r1x, r1y, r1z := s.ax-x.X, s.ay-x.Y, s.az-x.Z
 					r2x, r2y, r2z := s.bx-x.X, s.by-x.Y, s.bz-x.Z
 					n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)

@@ -51,11 +51,14 @@ type compiledSources struct {
 	l    []float64 // segment lengths
 	segI []float64 // segment currents
 	// flat holds the segments again for the vector-potential loop
-	// (segmentsA), one record each, in the same order as a and b.
-	flat    []flatSeg
-	ablk    []float64 // flat again in blocks for the vector kernels (aBlocks)
-	others  []Prim
-	othersI []float64
+	// (segmentsA), one record each, in the same order as a and b, and
+	// ablk the same in blocks for the vector kernels (aBlocks); both made
+	// at the first A evaluation (flatSegs).
+	flat     []flatSeg
+	ablk     []float64
+	flatOnce sync.Once
+	others   []Prim
+	othersI  []float64
 	// segIdx and othIdx number each entry by its place among all the
 	// primitives of all the sources, for masking (see atMasked).
 	segIdx, othIdx []int
@@ -63,12 +66,30 @@ type compiledSources struct {
 	shapes  []Shape
 	shapesI []float64
 	plates  []Plate
+	// vb holds the segments again, in groups for the vector B kernel
+	// (bkernel.go), made at the first B evaluation (vecB); nil when no
+	// vector kernel runs on this CPU or the segments are outside its
+	// range.
+	vb     *vecSegs
+	vbOnce sync.Once
 	// stop, if not nil, is polled by the numerical integrals of helices.
 	stop func() error
 }
 
 func compile(srcs []Source) *compiledSources {
 	c := &compiledSources{}
+	n := 0
+	for _, s := range srcs {
+		if s.I != 0 {
+			for _, p := range s.Path.Prims {
+				if p.Kind == Segment {
+					n++
+				}
+			}
+		}
+	}
+	c.a, c.b, c.l, c.segI = make([]Vec, 0, n), make([]Vec, 0, n), make([]float64, 0, n), make([]float64, 0, n)
+	c.segIdx = make([]int, 0, n)
 	k := 0
 	for _, s := range srcs {
 		if s.Plate != nil {
@@ -89,7 +110,6 @@ func compile(srcs []Source) *compiledSources {
 				c.l = append(c.l, r3.Norm(r3.Sub(p.B, p.A)))
 				c.segI = append(c.segI, s.I)
 				c.segIdx = append(c.segIdx, k-1)
-				c.flat = append(c.flat, newFlatSeg(p.A, p.B, s.I))
 			} else {
 				c.others = append(c.others, p)
 				c.othersI = append(c.othersI, s.I)
@@ -97,8 +117,27 @@ func compile(srcs []Source) *compiledSources {
 			}
 		}
 	}
-	c.ablk = aBlocks(c.flat)
 	return c
+}
+
+// flatSegs returns the segments as records for segmentsA, making them at
+// the first call (safe for concurrent callers).
+func (c *compiledSources) flatSegs() []flatSeg {
+	c.flatOnce.Do(func() {
+		c.flat = make([]flatSeg, len(c.a))
+		for i := range c.a {
+			c.flat[i] = newFlatSeg(c.a[i], c.b[i], c.segI[i])
+		}
+		c.ablk = aBlocks(c.flat)
+	})
+	return c.flat
+}
+
+// vecB returns the segments laid out for the vector B kernel, making them
+// at the first call (safe for concurrent callers).
+func (c *compiledSources) vecB() *vecSegs {
+	c.vbOnce.Do(func() { c.vb = newVecSegs(c) })
+	return c.vb
 }
 
 // at computes the field at one point: segments first in their order, then
@@ -118,34 +157,18 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 	}
 	var sx, sy, sz float64
 	if which == FieldB {
-		for i := range c.a {
-			if skip != nil && skip[c.segIdx[i]] {
-				continue
-			}
-			r1x, r1y, r1z := c.a[i].X-x.X, c.a[i].Y-x.Y, c.a[i].Z-x.Z
-			r2x, r2y, r2z := c.b[i].X-x.X, c.b[i].Y-x.Y, c.b[i].Z-x.Z
-			n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
-			n2 := math.Sqrt(r2x*r2x + r2y*r2y + r2z*r2z)
-			dx, dy, dz := c.b[i].X-c.a[i].X, c.b[i].Y-c.a[i].Y, c.b[i].Z-c.a[i].Z
-			cx, cy, cz := r1y*dz-r1z*dy, r1z*dx-r1x*dz, r1x*dy-r1y*dx // r1 × (b − a)
-			nn := n1 * n2
-			s := sumTerm(nn, r1x*r2x+r1y*r2y+r1z*r2z, cx*cx+cy*cy+cz*cz)
-			tl := nearLineRel * c.l[i]
-			if s <= tl*tl {
-				b, err := SegmentB(c.a[i], c.b[i], x) // rare: on or near the line
-				if err != nil {
-					return Vec{}, err
-				}
-				sx, sy, sz = sx+c.segI[i]*b.X, sy+c.segI[i]*b.Y, sz+c.segI[i]*b.Z
-				continue
-			}
-			f := c.segI[i] * k0 * (n1 + n2) / (nn * s)
-			if math.IsInf(f, 0) || math.IsNaN(f) {
-				return Vec{}, ErrOnWire
-			}
-			sx += f * cx
-			sy += f * cy
-			sz += f * cz
+		var vb *vecSegs
+		if skip == nil && vecPointOK(x) {
+			vb = c.vecB()
+		}
+		var err error
+		if vb != nil {
+			sx, sy, sz, err = vb.sum(c, x)
+		} else {
+			sx, sy, sz, err = c.segmentsB(0, len(c.a), x, skip)
+		}
+		if err != nil {
+			return Vec{}, err
 		}
 	} else {
 		ax, ay, az, err := c.segmentsA(x, skip)
@@ -178,6 +201,44 @@ func (c *compiledSources) atMasked(which Which, x Vec, skip []bool) (Vec, error)
 		sx, sy, sz = sx+c.shapesI[i]*v.X, sy+c.shapesI[i]*v.Y, sz+c.shapesI[i]*v.Z
 	}
 	return Vec{X: sx, Y: sy, Z: sz}, nil
+}
+
+// segmentsB sums B at x of the straight segments lo to hi−1 of c, without
+// those whose primitive number is set in skip (nil skips none), in their
+// order. It is the scalar loop: the reference for the vector kernels
+// (bkernel.go), which also hand it every group of segments they flag.
+func (c *compiledSources) segmentsB(lo, hi int, x Vec, skip []bool) (float64, float64, float64, error) {
+	var sx, sy, sz float64
+	for i := lo; i < hi; i++ {
+		if skip != nil && skip[c.segIdx[i]] {
+			continue
+		}
+		r1x, r1y, r1z := c.a[i].X-x.X, c.a[i].Y-x.Y, c.a[i].Z-x.Z
+		r2x, r2y, r2z := c.b[i].X-x.X, c.b[i].Y-x.Y, c.b[i].Z-x.Z
+		n1 := math.Sqrt(r1x*r1x + r1y*r1y + r1z*r1z)
+		n2 := math.Sqrt(r2x*r2x + r2y*r2y + r2z*r2z)
+		dx, dy, dz := c.b[i].X-c.a[i].X, c.b[i].Y-c.a[i].Y, c.b[i].Z-c.a[i].Z
+		cx, cy, cz := r1y*dz-r1z*dy, r1z*dx-r1x*dz, r1x*dy-r1y*dx // r1 × (b − a)
+		nn := n1 * n2
+		s := sumTerm(nn, r1x*r2x+r1y*r2y+r1z*r2z, cx*cx+cy*cy+cz*cz)
+		tl := nearLineRel * c.l[i]
+		if s <= tl*tl {
+			b, err := SegmentB(c.a[i], c.b[i], x) // rare: on or near the line
+			if err != nil {
+				return 0, 0, 0, err
+			}
+			sx, sy, sz = sx+c.segI[i]*b.X, sy+c.segI[i]*b.Y, sz+c.segI[i]*b.Z
+			continue
+		}
+		f := c.segI[i] * k0 * (n1 + n2) / (nn * s)
+		if math.IsInf(f, 0) || math.IsNaN(f) {
+			return 0, 0, 0, ErrOnWire
+		}
+		sx += f * cx
+		sy += f * cy
+		sz += f * cz
+	}
+	return sx, sy, sz, nil
 }
 
 // chunk is the number of points a worker takes at a time.

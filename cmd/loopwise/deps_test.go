@@ -23,7 +23,7 @@ var allowedImports = map[string][]string{
 	"lang":          {},
 	"runtime":       {"loopwise/lang", "github.com/expr-lang/expr", "gonum.org/v1/gonum"},
 	"builtins":      {"loopwise/runtime", "loopwise/lang", "loopwise/builtins/em", "loopwise/builtins/draw", "loopwise/builtins/wire", "loopwise/builtins/circuit", "loopwise/builtins/ode", "gonum.org/v1/gonum"},
-	"builtins/em":   {"gonum.org/v1/gonum", "golang.org/x/sys/cpu"},
+	"builtins/em":   {"gonum.org/v1/gonum", "golang.org/x/sys/cpu"}, // cpu: which vector kernels run
 	"builtins/wire": {"gonum.org/v1/gonum"},
 	"builtins/ode":  {"gonum.org/v1/gonum"},
 	"builtins/draw": {"gonum.org/v1/plot"},

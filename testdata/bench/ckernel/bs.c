@@ -4,7 +4,9 @@
  * r1.r2))), structure-of-arrays inputs, the inner loop over segments
  * vectorised by the compiler (OpenMP SIMD reduction), points shared among
  * threads. Built by the script with the system C compiler when one is
- * present (cc -O3 -march=native -fopenmp); never part of the Go build.
+ * present (cc -O3 -march=native -fno-math-errno -fopenmp: without
+ * -fno-math-errno GCC 12 leaves the loop scalar, as sqrt may set errno);
+ * never part of the Go build.
  *
  *   bs SEGMENTS POINTS OUT REPEATS      (files as for ../kernel)
  *
