@@ -216,7 +216,7 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		return nil, errorf("%s: the loop is not closed (its end is not its start); for a coil model it with rings() or join the helix to its leads; for an open wire moving in a field use motional_emf", fn)
 	}
 	if phasor {
-		phi, err := fluxPhasor(env, fn, src, &Path{loop})
+		phi, err := fluxPhasor(env, fn, src, &Path{P: loop})
 		if err != nil {
 			return nil, err
 		}

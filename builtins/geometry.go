@@ -15,7 +15,7 @@ func pathResult(fn string, prims []em.Prim) (runtime.Value, error) {
 	if err := checkPrims(fn, len(prims)); err != nil {
 		return nil, err
 	}
-	return &Path{em.Path{Prims: prims}}, nil
+	return &Path{P: em.Path{Prims: prims}}, nil
 }
 
 func geomErr(fn string, err error) error {
@@ -224,7 +224,7 @@ func geometryFuncs() []*runtime.Func {
 			if err != nil {
 				return nil, err
 			}
-			return &Path{p.Reversed()}, nil
+			return &Path{P: p.Reversed()}, nil
 		}),
 		fnc("join", []string{"p1", "p2", "..."}, 2, -1, &runtime.Help{
 			Signature: "join(p1, p2, ...: paths) -> path",
@@ -351,7 +351,7 @@ func transformed(p em.Path, rot func(em.Vec) em.Vec, origin, shift em.Vec) *Path
 	for i, q := range p.Prims {
 		out[i] = q.Transform(rot, origin, shift)
 	}
-	return &Path{em.Path{Prims: out}}
+	return &Path{P: em.Path{Prims: out}}
 }
 
 func loopThrough(pts []em.Vec) ([]em.Prim, error) {

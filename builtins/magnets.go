@@ -436,7 +436,7 @@ func mirrorSource(fn string, src *Source, p, n em.Vec, mur float64) (*Source, er
 		inner := t.desc
 		if inner == nil {
 			inner = func(digits int) string {
-				return (&Path{t.path}).Show(digits)[len("path: "):]
+				return (&Path{P: t.path}).Show(digits)[len("path: "):]
 			}
 		}
 		img.desc = func(digits int) string {

@@ -12,12 +12,27 @@ import (
 )
 
 // Path is a current path value: pieces (segments, arcs, helices) joined end
-// to end, possibly several closed loops (the turns of a coil).
-type Path struct{ P em.Path }
+// to end, possibly several closed loops (the turns of a coil). A path
+// never changes once made; info caches what Show needs (a long path is
+// shown two or three times per statement, and its length and loops cost
+// a pass over every piece).
+type Path struct {
+	P    em.Path
+	info *pathInfo
+}
+
+type pathInfo struct {
+	parts  string
+	length float64
+	state  string
+}
 
 func (p *Path) Kind() string { return "a path" }
 
-func (p *Path) Show(digits int) string {
+func (p *Path) describe() *pathInfo {
+	if p.info != nil {
+		return p.info
+	}
 	counts := map[em.Kind]int{}
 	circles := 0
 	for _, q := range p.P.Prims {
@@ -48,8 +63,14 @@ func (p *Path) Show(digits int) string {
 			state = fmt.Sprintf("%d closed loops", len(loops))
 		}
 	}
-	return fmt.Sprintf("path: %s, length %s, %s", strings.Join(parts, ", "),
-		runtime.Format(runtime.Quantity{V: p.P.Length(), D: dimLength}, digits), state)
+	p.info = &pathInfo{parts: strings.Join(parts, ", "), length: p.P.Length(), state: state}
+	return p.info
+}
+
+func (p *Path) Show(digits int) string {
+	in := p.describe()
+	return fmt.Sprintf("path: %s, length %s, %s", in.parts,
+		runtime.Format(runtime.Quantity{V: in.length, D: dimLength}, digits), in.state)
 }
 
 func (p *Path) Summary(digits int) string { return p.Show(digits) }
@@ -127,7 +148,7 @@ func (s *Source) Show(digits int) string {
 		if f, ok := t.current.(*runtime.Func); ok {
 			cur = f.Signature()
 		}
-		what := strings.TrimPrefix((&Path{t.path}).Show(digits), "path: ")
+		what := strings.TrimPrefix((&Path{P: t.path}).Show(digits), "path: ")
 		if t.desc != nil {
 			what = t.desc(digits)
 		}

@@ -997,7 +997,7 @@ func SessionScript(title string, entries []Entry) []byte {
 		fmt.Fprintln(w, e.Line)
 		if e.Record != "" {
 			fmt.Fprintf(w, "%s %s\n", ResultMark, e.Record)
-			for _, l := range e.More {
+			for _, l := range e.MoreLines() {
 				fmt.Fprintln(w, l)
 			}
 		}

@@ -157,7 +157,7 @@ func (s *Session) finishTable(st *lang.Statement, v Shower) (*Result, error) {
 		text = v.Summary(s.Digits) // shown in full by typing its name
 	}
 	res := &Result{Stmt: st, Value: v, Text: text, Record: v.Summary(max(RecordDigits, s.Digits))}
-	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: res.Record, More: moreLines(res)})
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: res.Record, more: func() []string { return moreLines(res) }})
 	return res, nil
 }
 

@@ -51,8 +51,19 @@ type Entry struct {
 	Line   string // the statement as typed (continued lines joined by newlines)
 	Record string // its recorded result
 	// More holds the lines recorded after the result (without indentation):
-	// a table's rows and the result's cautions.
+	// a table's rows and the result's cautions. Statements leave it nil
+	// and set more, which makes the lines when they are asked for (a
+	// long table's rows are formatted only if the session is saved).
 	More []string
+	more func() []string
+}
+
+// MoreLines returns the lines recorded after the result.
+func (e Entry) MoreLines() []string {
+	if e.More == nil && e.more != nil {
+		return e.more()
+	}
+	return e.More
 }
 
 // Session holds the names a user has defined and evaluates statements.
@@ -318,7 +329,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		}
 	}
 	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs, U: uc}
-	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, More: moreLines(res)})
+	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, more: func() []string { return moreLines(res) }})
 	return res, nil
 }
 
