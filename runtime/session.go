@@ -269,14 +269,16 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			e.Cause = ErrInterrupted
 			return nil, e
 		}
-		if causeOf(perr) == ErrBudget {
-			return nil, s.stopped(st, fmt.Errorf("while carrying the uncertainty: %w", perr))
+		if errors.Is(perr, ErrBudget) {
+			e := st.Errorf(0, utf8.RuneCountInString(st.Text), "%s", lang.Abbrev(perr.Error(), 400))
+			e.Cause = ErrBudget
+			return nil, e
 		}
 		note = "note: the uncertainty is not carried: " + perr.Error()
 		copies = nil
 	}
 	if st.Kind == lang.Assign {
-		note = s.shadowNote(st.Name)
+		note = strings.TrimSpace(s.shadowNote(st.Name) + "\n" + note)
 		if unit != "" { // a bad "as" unit must not leave the name assigned
 			if _, err := s.show(st, v, unit, s.Digits); err != nil {
 				return nil, err

@@ -1,6 +1,7 @@
 package runtime
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"regexp"
@@ -202,7 +203,15 @@ func (s *Session) propagate(p *program, v Value) (map[int][2]Value, error) {
 			v, err := s.runIn(p, env)
 			if err != nil {
 				in := s.unc.inputs[id]
-				return nil, fmt.Errorf("with %s moved to %s the statement fails (%v)", in.Label, Format(Quantity{V: in.Value.V + sign*in.U, D: in.Value.D}, 6), lang.Abbrev(err.Error(), 200))
+				msg := err.Error()
+				var le *lang.Error
+				if errors.As(err, &le) {
+					msg = le.Msg
+				}
+				if errors.Is(err, ErrBudget) || errors.Is(err, ErrInterrupted) {
+					return nil, &causedError{fmt.Sprintf("carrying the uncertainty of %d input(s) takes %d more evaluations of this statement, and they stopped: %s", len(ids), 2*len(ids), msg), causeOf(err)}
+				}
+				return nil, fmt.Errorf("with %s moved to %s the statement fails (%s)", in.Label, Format(Quantity{V: in.Value.V + sign*in.U, D: in.Value.D}, 6), lang.Abbrev(msg, 200))
 			}
 			pair[j] = v
 		}

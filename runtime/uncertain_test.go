@@ -340,3 +340,12 @@ func TestUncertainVariables(t *testing.T) {
 		t.Errorf("variables %v", got)
 	}
 }
+
+// TestUncertainWorldFails: a statement that fails with an input moved
+// gives its value with a note that says which input and why.
+func TestUncertainWorldFails(t *testing.T) {
+	r := uncRun(t, "r = 10 mm ± 0.1 mm", "x = sqrt((r - 10 mm)/1 mm)")
+	if r.Contributions != nil || !strings.Contains(r.Note, "the uncertainty is not carried: with r moved to 9.9 mm the statement fails (sqrt: the argument is negative") {
+		t.Errorf("note %q, contributions %v", r.Note, r.Contributions)
+	}
+}
