@@ -343,6 +343,9 @@ func tableRows(n, m int) [][]float64 {
 
 // pathWeight estimates the cost of a path's field at one point, in units of
 // one straight segment (an elementary evaluation).
+// segWeight is em.SegmentWeight, read once.
+var segWeight = em.SegmentWeight()
+
 func pathWeight(p em.Path) float64 {
 	w := 0.0
 	for _, q := range p.Prims {
@@ -355,11 +358,12 @@ func pathWeight(p em.Path) float64 {
 // elliptic integrals cost about 20 segments, a helix is integrated
 // numerically to 1e-12 and costs about 2000 a turn (BenchmarkPrimWeights
 // in builtins/em, at points near and far: about 190 ns an arc and 22 µs a
-// helix turn, beside about 11 ns a segment).
+// helix turn, beside about 11 ns a segment in the scalar loop); a segment
+// costs less where a vector kernel runs (em.SegmentWeight).
 func primWeight(q em.Prim) float64 {
 	switch q.Kind {
 	case em.Segment:
-		return 1
+		return segWeight
 	case em.Arc:
 		return 20
 	}

@@ -348,3 +348,21 @@ func (e *Evaluator) SetStop(stop func() error) { e.c.stop = stop }
 
 // At returns the field at x.
 func (e *Evaluator) At(x Vec) (Vec, error) { return e.c.at(e.which, x) }
+
+// SegmentWeight is the cost of one straight segment's field (B or A) at
+// one point, in units of the scalar B loop's (about 11 ns, the unit the
+// work budget counts in): the slower of the vector-potential and B
+// kernels this machine runs, so that an estimate stays an upper bound for
+// either field. Measured (BenchmarkSegmentAKernel, BenchmarkBKernel, one
+// run): A about 2 ns with AVX-512 and 5 ns with AVX2, B about 0.7 and
+// 1.7 ns; hence 0.25 and 0.5, with room for a loaded machine. Without a
+// vector kernel it is 1.
+func SegmentWeight() float64 {
+	if aVector == nil || bKernelUse == nil {
+		return 1
+	}
+	if aVector.lanes >= 8 && bKernelUse.lanes >= 8 {
+		return 0.25
+	}
+	return 0.5
+}
