@@ -41,6 +41,9 @@ func (s *Session) recordChain(st *lang.Statement, p *program, v Value, uncertain
 	if len(s.unc.inputs) == 0 || st.Kind != lang.Assign {
 		return
 	}
+	if sh, ok := v.(Shower); ok && sh.Kind() == "a plot" {
+		uncertain = false // a picture: trials would only write it again
+	}
 	if uncertain {
 		s.unc.chain = append(s.unc.chain, chainStep{name: st.Name, prog: p, pm: append([]int(nil), s.unc.stmtPM...)})
 		return

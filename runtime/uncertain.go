@@ -176,6 +176,9 @@ func (s *Session) propagate(p *program, v Value) (map[int][2]Value, error) {
 	if _, ok := components(v); !ok && p.st.Kind != lang.Assign {
 		return nil, nil // a plot or a table shown once: nothing reads its moved values
 	}
+	if sh, ok := v.(Shower); ok && sh.Kind() == "a plot" {
+		return nil, nil // a picture is drawn once, from the estimates
+	}
 	ids := s.readsInputs(p.st.Expr)
 	for _, id := range s.unc.stmtPM {
 		ids = append(ids, id)
