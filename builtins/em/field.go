@@ -94,7 +94,10 @@ func onSegment(a, b, x Vec, l float64) bool {
 //	A = μ0/4π · ê · ln((R1 + R2 + L)/(R1 + R2 − L)),
 //
 // with R1 + R2 − L computed as 2(R1R2 + r1·r2)/(R1 + R2 + L) to keep its
-// digits near the wire.
+// digits near the wire, and the logarithm taken as log1p(2L/(R1 + R2 − L))
+// so that far away, where the ratio is 1 + O(L/R), it keeps them too (the
+// plain logarithm of the rounded ratio lost ε·R/L of itself: 1e-14 at
+// 50 lengths).
 func SegmentA(a, b, x Vec) (Vec, error) {
 	r1 := r3.Sub(a, x)
 	r2 := r3.Sub(b, x)
@@ -107,7 +110,7 @@ func SegmentA(a, b, x Vec) (Vec, error) {
 	if small <= 0 || (r3.Norm(c) <= segOnWire(n1, n2)*l && onSegment(a, b, x, l)) {
 		return Vec{}, ErrOnWire
 	}
-	return finiteOrOnWire(r3.Scale(k0*math.Log((sum+l)/small)/l, d))
+	return finiteOrOnWire(r3.Scale(k0*math.Log1p(2*l/small)/l, d))
 }
 
 // arcLocal holds a field point in the frame of an arc's circle.
