@@ -210,24 +210,28 @@ func pathSamples(p em.Path) []em.Vec {
 }
 
 // lineIntegralOf integrates a field along a path at time t.
-func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, hasT bool) (runtime.Quantity, error) {
+// The second result is the quadrature's own error estimate (same unit).
+func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, hasT bool) (runtime.Quantity, float64, error) {
 	eval, err := f.prepare(env, fn, t, hasT)
 	if err != nil {
-		return runtime.Quantity{}, err
+		return runtime.Quantity{}, 0, err
 	}
 	pts := pathSamples(p)
 	if _, err := eval(pts[0]); err != nil {
-		return runtime.Quantity{}, fieldErr(fn, err)
+		return runtime.Quantity{}, 0, fieldErr(fn, err)
 	}
 	if err := charge(env, fn, f.pointCost*nodes(p)); err != nil {
-		return runtime.Quantity{}, err
+		return runtime.Quantity{}, 0, err
 	}
 	scale := scaleOf(eval, pts) * math.Max(p.Length(), p.Size())
-	v, err := em.LineIntegral(p, eval, control(env, fn, em.DefaultTol), scale)
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	v, err := em.LineIntegral(p, eval, tol, scale)
 	if err != nil {
-		return runtime.Quantity{}, fieldErr(fn, err)
+		return runtime.Quantity{}, 0, fieldErr(fn, err)
 	}
-	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, nil
+	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, est, nil
 }
 
 func calculusFuncs() []*runtime.Func {
@@ -275,12 +279,12 @@ func calculusFuncs() []*runtime.Func {
 		{
 			Name: "line_integral", Params: []string{"field", "path", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
-				return lineIntegralBuiltin(env, "line_integral", args, false)
+				return reportEst(env)(lineIntegralBuiltin(env, "line_integral", args, false))
 			},
 			Help: &runtime.Help{
 				Signature: "line_integral(field, path[, t: s]) -> field unit*m",
 				Summary:   "∫ F·dl along a path, open or closed, in the path's direction.",
-				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10; the work is estimated before it starts and refused beyond the work budget (:budget)",
+				Method:    "adaptive Gauss–Kronrod per piece (quarter turns for arcs and helices), asked for relative error 1e-10; the sum of the pieces' error estimates is the result's numerical error estimate (shown when it reaches the digits shown, or always after :numerr on; it does not include rounding in the field itself); the work is estimated before it starts and refused beyond the work budget (:budget)",
 				Example:   "line_integral(b_field(source(segment([0, 0, -5] m, [0, 0, 5] m), 10 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / mu0",
 				Reference: refCalculus + "; Ampère: ∮B·dl = μ0 I",
 			},
@@ -288,7 +292,7 @@ func calculusFuncs() []*runtime.Func {
 		{
 			Name: "circulation", Params: []string{"field", "loop", "t"}, MinArgs: 2, MaxArgs: 3,
 			CallEnv: func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
-				return lineIntegralBuiltin(env, "circulation", args, true)
+				return reportEst(env)(lineIntegralBuiltin(env, "circulation", args, true))
 			},
 			Help: &runtime.Help{
 				Signature: "circulation(field, loop: closed path[, t: s]) -> field unit*m",
@@ -360,21 +364,32 @@ func calculusFuncs() []*runtime.Func {
 	}
 }
 
-func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, closed bool) (runtime.Value, error) {
+func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, closed bool) (runtime.Value, float64, error) {
 	f, err := fieldArg(fn, args, 0)
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	r := readArgs(fn, args)
 	p := r.path(1)
 	t, hasT := r.time(2)
 	if r.err != nil {
-		return nil, r.err
+		return nil, 0, r.err
 	}
 	if closed && !p.Closed() {
-		return nil, errorf("%s: the loop is not closed (its end is not its start); use line_integral for an open path", fn)
+		return nil, 0, errorf("%s: the loop is not closed (its end is not its start); use line_integral for an open path", fn)
 	}
 	return lineIntegralOf(env, fn, f, p, t, hasT)
+}
+
+// reportEst reports a builtin's error estimate to the session and passes
+// its value on.
+func reportEst(env runtime.Env) func(v runtime.Value, est float64, err error) (runtime.Value, error) {
+	return func(v runtime.Value, est float64, err error) (runtime.Value, error) {
+		if err == nil && env != nil {
+			env.NumericalError(est)
+		}
+		return v, err
+	}
 }
 
 func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -520,13 +535,16 @@ func workBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	if err != nil {
 		return nil, err
 	}
-	circ, err := lineIntegralBuiltin(env, fn, args[1:], true)
+	circ, est, err := lineIntegralBuiltin(env, fn, args[1:], true)
 	if err != nil {
 		return nil, err
 	}
 	c := circ.(runtime.Quantity)
 	if c.D != dimVolt {
 		return nil, errorf("%s: the field must be an electric field (V/m); its circulation is %s", fn, c.D.Describe())
+	}
+	if env != nil {
+		env.NumericalError(math.Abs(q) * est)
 	}
 	return runtime.Quantity{V: q * c.V, D: dimJoule}, nil
 }

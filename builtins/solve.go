@@ -44,7 +44,7 @@ func solveFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "solve(f: function of one quantity, target: unit of f, lo, hi: unit of f's argument) -> unit of lo",
 				Summary:   "The x between lo and hi where f(x) = target. f(lo) − target and f(hi) − target must have opposite signs (the root is bracketed).",
-				Method:    "Brent's method (bisection, secant and inverse quadratic steps); stops on an exact zero or when the root is bracketed within 1e-12·|x| (plus 1e-24 of the larger end of [lo, hi], for a root at or near zero)",
+				Method:    "Brent's method (bisection, secant and inverse quadratic steps); stops on an exact zero or when the root is bracketed within 1e-12·|x| (plus 1e-24 of the larger end of [lo, hi], for a root at or near zero). The final bracket's width is the result's numerical error estimate (shown when it reaches the digits shown, or always after :numerr on): the root of the computed function lies inside it",
 				Example:   "V(N) = N * 2*pi*50 Hz * 1 cm^2 * 1 mT\nsolve(V, 0.1 V, 1, 10000)",
 				Reference: refSolve,
 			},
@@ -137,9 +137,13 @@ func solveBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		return nil, errorf("%s: no solution is bracketed: f(lo) − target = %s and f(hi) − target = %s have the same sign; widen or move [lo, hi]", fn,
 			runtime.Format(runtime.Quantity{V: fa, D: target.D}, 4), runtime.Format(runtime.Quantity{V: fb, D: target.D}, 4))
 	}
-	x, err := brent(g, lo.V, hi.V, fa, fb)
+	x, width, err := brent(g, lo.V, hi.V, fa, fb)
 	if err != nil {
 		return nil, err
+	}
+	if env != nil {
+		// the root of the computed function lies in the final bracket
+		env.NumericalError(width)
 	}
 	return runtime.Quantity{V: x, D: lo.D}, nil
 }
@@ -160,7 +164,7 @@ const solveRel, solveFloor = 1e-12, 1e-24
 // the bracket against 2ε|b| + tol/2 with a fixed tol; here tol follows
 // the current estimate, and solveRel far above 4ε keeps the steps
 // representable.)
-func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, error) {
+func brent(g func(float64) (float64, error), a, b, fa, fb float64) (x, width float64, err error) {
 	// at least two of the smallest float64 steps, so that a bracket near
 	// the underflow limit still moves
 	floor := math.Max(solveFloor*math.Max(math.Abs(a), math.Abs(b)), 2*math.SmallestNonzeroFloat64)
@@ -179,8 +183,11 @@ func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, err
 		}
 		tol1 := 0.5 * (solveRel*math.Abs(b) + floor)
 		m := 0.5 * (c - b)
-		if math.Abs(m) <= tol1 || fb == 0 {
-			return b, nil
+		if fb == 0 {
+			return b, 0, nil
+		}
+		if math.Abs(m) <= tol1 {
+			return b, 2 * math.Abs(m), nil // the root is between b and c
 		}
 		if math.Abs(e) >= tol1 && math.Abs(fa) > math.Abs(fb) {
 			s := fb / fa
@@ -216,10 +223,10 @@ func brent(g func(float64) (float64, error), a, b, fa, fb float64) (float64, err
 		}
 		var err error
 		if fb, err = g(b); err != nil {
-			return 0, err
+			return 0, 0, err
 		}
 	}
-	return 0, errorf("solve: no convergence in 300 steps (is the function continuous on the interval?)")
+	return 0, 0, errorf("solve: no convergence in 300 steps (is the function continuous on the interval?)")
 }
 
 // sweepAxis is one parameter of a sweep: n evenly spaced values from

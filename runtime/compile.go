@@ -532,11 +532,25 @@ func (s *Session) callFunc(p ...any) (any, error) {
 			return nil, err
 		}
 	}
+	if s.depth == 0 && s.num.replay != nil {
+		return s.replayCall(f) // a replay for the numerical error (numerr.go)
+	}
 	s.depth++
 	defer func() { s.depth-- }()
 	if s.depth > maxDepth {
 		s.tooDeep = true
 		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
+	}
+	if s.depth == 1 && s.unc.cur == nil {
+		// a direct call of the statement: recorded for the numerical error
+		k := len(s.num.calls)
+		s.num.calls = append(s.num.calls, numCall{f: f})
+		prev := s.num.cur
+		s.num.cur = k
+		v, err := f.Invoke(s, args)
+		s.num.cur = prev
+		s.num.calls[k].val = v
+		return v, err
 	}
 	return f.Invoke(s, args)
 }

@@ -725,6 +725,37 @@ func Matches(recorded string, v Value, nowText string, tol float64) (ok bool, no
 	if recorded == nowText {
 		return true, nowText, 0
 	}
+	recBody, recErr := splitNumErr(recorded)
+	nowBody, nowErr := splitNumErr(nowText)
+	if floor := math.Max(recErr, nowErr); floor > 0 {
+		// a change within the recorded or present numerical error is not
+		// drift: the value is compared with that floor
+		ok, now, rel = Matches(recBody, v, nowBody, tol)
+		if ok {
+			return ok, nowText, rel
+		}
+		rv, _, parsed := parseRecorded(recBody)
+		if !parsed {
+			return ok, nowText, rel
+		}
+		switch x := v.(type) {
+		case Quantity:
+			if r, isQ := rv.(Quantity); isQ && r.D == x.D && math.Abs(r.V-x.V) <= floor {
+				return true, nowText, rel
+			}
+		case Vector:
+			if r, isV := rv.(Vector); isV && r.D == x.D {
+				within := true
+				for i := range 3 {
+					within = within && math.Abs(r.V[i]-x.V[i]) <= floor
+				}
+				if within {
+					return true, nowText, rel
+				}
+			}
+		}
+		return false, nowText, rel
+	}
 	if rv, unit, ok := parseCVectorRecorded(recorded); ok {
 		x, isV := v.(CVector)
 		now = nowText
@@ -1063,3 +1094,27 @@ func (sc *Script) Prose(i int) bool { return !sc.block[i] && !sc.fence[i] }
 // Fence reports whether line i (0-based) opens or closes a block of
 // statements.
 func (sc *Script) Fence(i int) bool { return sc.fence[i] }
+
+// numErrRE matches the numerical-error note a result may end with.
+var numErrRE = regexp.MustCompile(` \(numerical error ≤ ([^ )]+)(?: ([^)]*))?\)$`)
+
+// splitNumErr splits off a result's numerical-error note, returning the
+// rest and the bound in SI units (0 when there is none).
+func splitNumErr(text string) (string, float64) {
+	m := numErrRE.FindStringSubmatchIndex(text)
+	if m == nil {
+		return text, 0
+	}
+	x, err := strconv.ParseFloat(text[m[2]:m[3]], 64)
+	if err != nil {
+		return text, 0
+	}
+	if m[4] >= 0 {
+		u, err := ParseUnit(text[m[4]:m[5]])
+		if err != nil {
+			return text, 0
+		}
+		x *= u.Scale()
+	}
+	return text[:m[0]], x
+}

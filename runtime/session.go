@@ -92,6 +92,7 @@ type Session struct {
 	// means the session writes none. The command sets it.
 	OutDir string
 	unc    uncState // uncertain inputs and the values moved by them
+	num    numState // numerical error estimates (numerr.go)
 	// InDir is where builtins may read data files (ReadInput): the
 	// script's directory, or the prompt's working directory; empty means
 	// the session reads none. The command sets it.
@@ -178,6 +179,9 @@ type Result struct {
 	// U is the combined standard uncertainty per component (with the
 	// correlations given), nil with no contributions.
 	U []float64
+	// NumErr bounds the numerical error per component, from the methods'
+	// own estimates (numerr.go); nil when none was reported.
+	NumErr []float64
 }
 
 // shadowNote is the note for a name that hides a builtin.
@@ -220,6 +224,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	s.depth, s.tooDeep, s.work = 0, false, 0
 	s.interrupted.Store(false)
 	s.unc.stmtPM, s.unc.label, s.unc.cur, s.unc.env = nil, nil, nil, nil
+	s.num.calls, s.num.cur, s.num.nested, s.num.replay = nil, -1, false, nil
 	switch st.Kind {
 	case lang.Empty:
 		return &Result{Stmt: st}, nil
@@ -262,6 +267,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	v = markCycles(v, st.As)
 	unit := st.As
 	note := ""
+	nb, tracked := s.numericalBound(p, v)
 	copies, perr := s.propagate(p, v)
 	if perr != nil {
 		if s.interrupted.Load() {
@@ -288,6 +294,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			return nil, err
 		}
 		s.setWorlds(st.Name, copies)
+		s.setNumErr(st.Name, nb)
 		s.recordChain(st, p, v, copies != nil)
 		if unit == "" {
 			unit = s.declared[st.Name]
@@ -323,6 +330,17 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 	if sh, ok := v.(Shower); ok {
 		rec = sh.Summary(max(RecordDigits, s.Digits)) // one line for a script
 	}
+	if nb != nil {
+		if s.num.showAll || numErrVisible(v, nb, s.Digits) {
+			text += " " + FormatNumErr(v, nb, unit)
+		}
+		if numErrVisible(v, nb, RecordDigits-2) {
+			rec += " " + FormatNumErr(v, nb, unit)
+		}
+	}
+	if !tracked {
+		note = strings.TrimSpace(note + "\nnote: a builtin inside a function or a sweep reported a numerical error estimate that is not carried to this result")
+	}
 	var cautions []string
 	if s.lib.Caution != nil {
 		if c := s.lib.Caution(v); c != "" {
@@ -330,7 +348,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 			cautions = append(cautions, strings.Join(strings.Fields(c), " ")) // one line in a script
 		}
 	}
-	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs, U: uc}
+	res = &Result{Stmt: st, Value: v, Text: text, Record: rec, Note: note, Cautions: cautions, Contributions: contribs, U: uc, NumErr: nb}
 	s.Transcript = append(s.Transcript, Entry{Line: st.Text, Record: rec, more: func() []string { return moreLines(res) }})
 	return res, nil
 }
@@ -542,6 +560,21 @@ func (s *Session) command(st *lang.Statement) (*Result, error) {
 		}
 		s.Digits = n
 		text := fmt.Sprintf("showing %d significant digits", n)
+		s.Transcript = append(s.Transcript, Entry{Line: st.Text})
+		return &Result{Stmt: st, Text: text}, nil
+	case "numerr":
+		switch strings.TrimSpace(st.Args) {
+		case "on":
+			s.num.showAll = true
+		case "off":
+			s.num.showAll = false
+		default:
+			return nil, st.Errorf(0, utf8.RuneCountInString(st.Text), ":numerr takes on (show every numerical error estimate beside its value) or off (only those that reach the digits shown)")
+		}
+		text := "numerical error estimates shown only where they reach the digits shown"
+		if s.num.showAll {
+			text = "numerical error estimates shown beside every value that has one"
+		}
 		s.Transcript = append(s.Transcript, Entry{Line: st.Text})
 		return &Result{Stmt: st, Text: text}, nil
 	}

@@ -117,6 +117,12 @@ type Env interface {
 	// that would leave the directory is refused; with no output directory
 	// (check, piped input), ErrNoOutput.
 	OutputPath(name string) (string, error)
+	// NumericalError reports the error estimate of the value the builtin
+	// returns: an absolute bound per component (one for a number, three
+	// for a vector, re and im for a complex number), in SI units, from
+	// the method's own estimate (an adaptive integral's, a root's
+	// bracket, a derivative's extrapolation). Call it once per value.
+	NumericalError(err ...float64)
 }
 
 // ErrNoOutput is OutputPath's error when the session writes no files.

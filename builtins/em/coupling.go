@@ -47,7 +47,7 @@ func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64)
 		pieceTol.Abs = math.Max(tol.Abs, tol.Rel*scale*p.Length()/math.Max(path.Length(), 1e-300)*1e-3)
 		br := primBreaks(p)
 		for k := 0; k+1 < len(br); k++ {
-			v, _, err := Integrate(g, br[k], br[k+1], pieceTol)
+			v, e, err := Integrate(g, br[k], br[k+1], pieceTol)
 			if ferr != nil {
 				return 0, ferr
 			}
@@ -55,6 +55,9 @@ func lineIntegral(path Path, f func(x Vec) (Vec, error), tol Tol, scale float64)
 				return 0, err
 			}
 			sum += v
+			if tol.Est != nil {
+				*tol.Est += e
+			}
 			if done++; tol.Progress != nil {
 				tol.Progress(done, total)
 			}

@@ -50,6 +50,9 @@ type Tol struct {
 	MaxEval  int
 	Stop     func() error
 	Progress func(done, total int)
+	// Est, if not nil, receives (adds up) the quadratures' own error
+	// estimates, where a routine supports it (LineIntegral).
+	Est *float64
 }
 
 // stopped polls tol.Stop.

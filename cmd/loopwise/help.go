@@ -43,6 +43,8 @@ Commands
   :vars           list your variables and functions
   :units [text]   list the units (optionally only those matching text)
   :digits N       show N significant digits (default 6)
+  :numerr on|off  show every numerical error estimate beside its value (off:
+                  only those that reach the digits shown)
   :budget S       the work one statement may do, in seconds (default 5; run,
                   check and record: 60, or -budget S); work estimated to need
                   more is refused before it starts

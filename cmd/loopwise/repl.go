@@ -498,4 +498,4 @@ func complete(s *runtime.Session, line string, pos int) (string, []string, strin
 	return string(r[:start]), cands, string(r[pos:])
 }
 
-var commandNames = []string{":help", ":vars", ":units", ":save", ":load", ":digits", ":budget", ":quit"}
+var commandNames = []string{":help", ":vars", ":units", ":save", ":load", ":digits", ":numerr", ":budget", ":quit"}
