@@ -39,9 +39,13 @@ func fluxFuncs() []*runtime.Func {
 				if err != nil {
 					return nil, err
 				}
-				phi, err := fluxOf(env, "flux", srcs, src.uniformB(), args[1])
+				var est float64
+				phi, err := fluxOfEst(env, "flux", srcs, src.uniformB(), args[1], &est)
 				if err != nil {
 					return nil, err
+				}
+				if _, loop := args[1].(*Path); loop && env != nil {
+					env.NumericalError(withFieldRounding(est, phi)) // ∮A·dl's quadrature estimate and the fields' rounding
 				}
 				return runtime.Quantity{V: phi, D: dimWeber}, nil
 			},
@@ -81,7 +85,14 @@ func fluxFuncs() []*runtime.Func {
 // fluxOf computes the flux of sources (plus a uniform field) through a
 // closed path or a surface.
 func fluxOf(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target runtime.Value) (float64, error) {
+	return fluxOfEst(env, fn, srcs, ub, target, nil)
+}
+
+// fluxOfEst is fluxOf that adds the line integral's error estimate to
+// est (for a closed path; a surface's is not collected).
+func fluxOfEst(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target runtime.Value, est *float64) (float64, error) {
 	tol := control(env, fn, em.DefaultTol)
+	tol.Est = est
 	switch x := target.(type) {
 	case *Path:
 		if !x.P.Closed() {

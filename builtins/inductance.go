@@ -28,9 +28,15 @@ func inductanceFuncs() []*runtime.Func {
 			if err := charge(env, "mutual", mutualCost(p1, p2)); err != nil {
 				return nil, err
 			}
-			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: control(env, "mutual", em.DefaultTol)})
+			tol := control(env, "mutual", em.DefaultTol)
+			var est float64
+			tol.Est = &est
+			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, fieldErr("mutual", err)
+			}
+			if env != nil {
+				env.NumericalError(withFieldRounding(est, m)) // ∮A·dl's quadrature estimate (0 where Maxwell's formula serves) and the fields' rounding
 			}
 			return runtime.Quantity{V: m, D: dimHenry}, nil
 		}),

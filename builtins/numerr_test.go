@@ -33,7 +33,14 @@ func numRun(t *testing.T, lines ...string) *runtime.Result {
 // number; e.g. OEIS A003957). Line integrals: Ampère's law, ∮B·dl = μ0·I
 // around a wire (Jackson, Classical Electrodynamics, 3rd ed., 1999, §5.3;
 // μ0 of CODATA 2018, and the finite wire's factor (L/2)/√((L/2)² + ρ²)),
-// and ∮ of F = (−y, x, 0) around a circle of radius R, 2πR² (Stokes). A
+// and ∮ of F = (−y, x, 0) around a circle of radius R, 2πR² (Stokes).
+// Mutual inductance: Maxwell's formula for coaxial circles,
+// μ0√(ab)[(2/k − k)K(k) − (2/k)E(k)] (Maxwell, Treatise, 1873, §701), with
+// gonum's complete elliptic integrals (maxwellM, magnets_test.go),
+// against the general route (a circle
+// made of two arcs); flux of an infinite wire through a rectangle in its
+// plane, μ0·I·h·ln(b/a)/(2π) (any text on Ampère's law; the sign: the
+// rectangle's circulation runs against the wire's B there). A
 // case passes when the actual error is at most the bound; the bound
 // being loose is allowed (it is the method's own worst case).
 func TestNumericalErrorBounds(t *testing.T) {
@@ -58,6 +65,10 @@ func TestNumericalErrorBounds(t *testing.T) {
 		{"solve cos fixed point", []string{"g(x) = cos(x) - x", "solve(g, 0, 0, 1)"}, 0.7390851332151607},
 		{"solve a length", []string{"g(x) = x^2", "solve(g, 2 mm^2, 0 mm, 5 mm) / 1 mm"}, math.Sqrt2},
 		{"Ampère", []string{"w = segment([0, 0, -50] m, [0, 0, 50] m)", "line_integral(b_field(source(w, 3 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / 1 T/m"}, 1.25663706212e-6 * 3 * (50 / math.Hypot(50, 0.02))},
+		{"mutual, general route", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 12] mm, [0, 0, 1], 18 mm)) / 1 H"}, maxwellM(0.025, 0.018, 0.012)},
+		{"mutual, close circles", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 0.5] mm, [0, 0, 1], 24 mm)) / 1 H"}, maxwellM(0.025, 0.024, 0.0005)},
+		{"mutual, far circles", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 400] mm, [0, 0, 1], 10 mm)) / 1 H"}, 1.914637572328644704e-12},
+		{"flux of an infinite wire", []string{"w = infinite_wire([0, 0, 0] m, [0, 0, 1], 4 A)", "flux(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm)) / 1 Wb"}, -1.25663706212e-6 * 4 * 0.05 / (2 * math.Pi) * math.Log(4)},
 		{"Stokes", []string{"F(p) = [-p.y, p.x, 0 m]", "line_integral(F, circle([0, 0, 0] m, [0, 0, 1], 0.3 m)) / 1 m^2"}, 2 * math.Pi * 0.09},
 	}
 	for _, c := range cases {
