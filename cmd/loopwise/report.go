@@ -302,6 +302,10 @@ func stmtView(r runtime.StatementResult, digits int) statementView {
 		return v
 	}
 	v.Result = res.Text
+	if res.NumErr != nil && !strings.Contains(v.Result, "(numerical error ≤") {
+		// the page shows every estimate, even one below the digits shown
+		v.Result += " " + runtime.FormatNumErr(res.Value, res.NumErr, res.Stmt.As)
+	}
 	for _, c := range res.Cautions {
 		v.Cautions = append(v.Cautions, cautionBody(c))
 	}

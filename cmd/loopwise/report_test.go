@@ -377,3 +377,12 @@ func TestReportNoiseCells(t *testing.T) {
 		t.Errorf("cells %q, want 0 and 0.001", got)
 	}
 }
+
+// TestReportNumericalError: the page shows a result's numerical error
+// estimate even when it is below the digits shown.
+func TestReportNumericalError(t *testing.T) {
+	page, _, _ := writeReport(t, "# N\n\n```lw\ng(x) = cos(x) - x\nsolve(g, 0, 0, 1)\n```\n")
+	if !strings.Contains(page, "0.739085 (numerical error ≤ 3.7e-13)") {
+		t.Errorf("page lacks the estimate:\n%s", page)
+	}
+}
