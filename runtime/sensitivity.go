@@ -27,7 +27,7 @@ func (t *Sensitivity) Kind() string { return "a sensitivity table" }
 // Summary is the one line recorded for the table (its rows follow).
 func (t *Sensitivity) Summary(digits int) string {
 	y, _ := FormatUncertain(t.Y, []float64{t.U}, "", digits, false)
-	return fmt.Sprintf("sensitivity of %s = %s: %d inputs", t.Target, y, len(t.Rows))
+	return fmt.Sprintf("sensitivity of %s = %s: %d input%s", t.Target, y, len(t.Rows), plural(len(t.Rows)))
 }
 
 // Show lays the table out for people, largest share first as entered.
