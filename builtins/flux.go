@@ -63,7 +63,7 @@ func fluxFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "emf(source, loop: closed path, t: s) -> V; emf(source, loop, f: Hz or rad/s) -> complex V (peak phasor)",
 				Summary:   "EMF induced around the loop (in its circulation direction) by the source's changing currents: −dΦ/dt at time t. Given a frequency instead of a time, the EMF phasor −jωΦ at that frequency, each current read as a peak phasor (polar(2 A, 30 deg); a real current has phase 0); the result is peak like the currents (divide by sqrt(2) for rms).",
-				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, asked for relative error 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 of the current's rate of change is used (so periodic currents are not aliased); a jump at t is an error, and so is a kink (one-sided slopes that differ at every step, as for |t| or a triangle wave at its peak), with both slopes in the message",
+				Method:    "Φ = Σ Φₖ·Iₖ(t) with Φₖ the flux per ampere of each current (∮A·dl, asked for relative error 1e-10); dIₖ/dt by central differences with one Richardson step; the step goes up in decades from 1 ps and the first whose estimate agrees with both neighbours to 1e-6 of the current's rate of change is used (so periodic currents are not aliased); a jump at t is an error, and so is a kink (one-sided slopes that differ at every step, as for |t| or a triangle wave at its peak), with both slopes in the message. At a time t the result carries a numerical error estimate: the flux's quadrature estimate (plus 1e-12 of it) times |dI/dt|, plus |Φ| times the derivative's estimate, per current",
 				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t)\nemf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 0 s)\nemf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), polar(2 A, -90 deg)), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 50 Hz) as polar",
 				Reference: refFlux,
 			},
@@ -180,7 +180,13 @@ var gl8x, gl8w = func() ([8]float64, [8]float64) {
 // (steps 1 ps to 1 s, the first plateau going up); a jump or a kink at t is
 // an error naming t (and for a kink both slopes).
 func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, error) {
-	d, err := em.Derivative(func(x float64) (em.Vec, error) {
+	d, _, err := derivativeEst(env, fn, f, t)
+	return d, err
+}
+
+// derivativeEst is derivative with em.DerivativeEst's error estimate.
+func derivativeEst(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, float64, error) {
+	d, est, err := em.DerivativeEst(func(x float64) (em.Vec, error) {
 		i, err := currentAt(env, fn, f, x, true)
 		return em.Vec{X: i}, err
 	}, t, 1, -12, true)
@@ -190,16 +196,16 @@ func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64
 	switch {
 	case errors.As(err, &ke):
 		rate := dimCurrent.Div(dimTime)
-		return 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+		return 0, 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
 			runtime.Format(runtime.Quantity{V: ke.Before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.After.X, D: rate}, 6))
 	case errors.As(err, &ae):
-		return 0, err
+		return 0, 0, err
 	case errors.Is(err, em.ErrNoPlateau):
-		return 0, errorf("%s: the current function %s has no reliable derivative at t = %s (a jump there, or not defined there?); take t a little before or after", fn, f.Signature(), at)
+		return 0, 0, errorf("%s: the current function %s has no reliable derivative at t = %s (a jump there, or not defined there?); take t a little before or after", fn, f.Signature(), at)
 	case err != nil:
-		return 0, err
+		return 0, 0, err
 	}
-	return d.X, nil
+	return d.X, est, nil
 }
 
 func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -234,7 +240,7 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		// e^{jωt} time dependence: EMF = −dΦ/dt = −jωΦ
 		return runtime.Complex{V: complex(0, -omega) * phi, D: dimVolt}, nil
 	}
-	var e float64
+	var e, bound float64
 	for _, term := range src.terms {
 		if _, ok := term.current.(runtime.Complex); ok {
 			return nil, errorf("%s: the source's currents are phasors; give the frequency (Hz) instead of a time for the EMF phasor", fn)
@@ -243,7 +249,7 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		if !ok {
 			continue // a constant current induces nothing
 		}
-		didt, err := derivative(env, fn, f, t)
+		didt, dEst, err := derivativeEst(env, fn, f, t)
 		if err != nil {
 			return nil, err
 		}
@@ -253,11 +259,20 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		if err := charge(env, fn, term.weight()*nodes(loop)); err != nil {
 			return nil, err
 		}
-		phi1, err := em.FluxThroughLoop([]em.Source{term.em(1)}, loop, control(env, fn, em.DefaultTol))
+		tol := control(env, fn, em.DefaultTol)
+		var fEst float64
+		tol.Est = &fEst
+		phi1, err := em.FluxThroughLoop([]em.Source{term.em(1)}, loop, tol)
 		if err != nil {
 			return nil, touchErr(fn, err)
 		}
 		e -= phi1 * didt
+		// first order in both errors: the flux's (quadrature and rounding)
+		// times the rate, and the rate's times the flux
+		bound += withFieldRounding(fEst, phi1)*math.Abs(didt) + math.Abs(phi1)*dEst
+	}
+	if env != nil {
+		env.NumericalError(bound)
 	}
 	return runtime.Quantity{V: e, D: dimVolt}, nil
 }

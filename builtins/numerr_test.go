@@ -40,7 +40,8 @@ func numRun(t *testing.T, lines ...string) *runtime.Result {
 // against the general route (a circle
 // made of two arcs); flux of an infinite wire through a rectangle in its
 // plane, μ0·I·h·ln(b/a)/(2π) (any text on Ampère's law; the sign: the
-// rectangle's circulation runs against the wire's B there). A
+// rectangle's circulation runs against the wire's B there), and the EMF
+// −dΦ/dt of that loop for a sine and a ramp (Faraday's law). A
 // case passes when the actual error is at most the bound; the bound
 // being loose is allowed (it is the method's own worst case).
 func TestNumericalErrorBounds(t *testing.T) {
@@ -69,6 +70,8 @@ func TestNumericalErrorBounds(t *testing.T) {
 		{"mutual, close circles", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 0.5] mm, [0, 0, 1], 24 mm)) / 1 H"}, maxwellM(0.025, 0.024, 0.0005)},
 		{"mutual, far circles", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 400] mm, [0, 0, 1], 10 mm)) / 1 H"}, 1.914637572328644704e-12},
 		{"flux of an infinite wire", []string{"w = infinite_wire([0, 0, 0] m, [0, 0, 1], 4 A)", "flux(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm)) / 1 Wb"}, -1.25663706212e-6 * 4 * 0.05 / (2 * math.Pi) * math.Log(4)},
+		{"emf of a sine beside a long wire", []string{"I(t) = 3 A * sin(2*pi*50 Hz*t)", "w = infinite_wire([0, 0, 0] m, [0, 0, 1], I)", "emf(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm), 1 ms) / 1 V"}, 1.25663706212e-6 * 0.05 * math.Log(4) / (2 * math.Pi) * 3 * 2 * math.Pi * 50 * math.Cos(2*math.Pi*50*1e-3)},
+		{"emf of a ramp beside a long wire", []string{"I(t) = 2 kA/s * t", "w = infinite_wire([0, 0, 0] m, [0, 0, 1], I)", "emf(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm), 3 ms) / 1 V"}, 1.25663706212e-6 * 0.05 * math.Log(4) / (2 * math.Pi) * 2000},
 		{"Stokes", []string{"F(p) = [-p.y, p.x, 0 m]", "line_integral(F, circle([0, 0, 0] m, [0, 0, 1], 0.3 m)) / 1 m^2"}, 2 * math.Pi * 0.09},
 	}
 	for _, c := range cases {
