@@ -128,7 +128,7 @@ func extremumFunc(name, word string, sign float64) *runtime.Func {
 		Help: &runtime.Help{
 			Signature: name + "(f: function of one quantity, lo, hi: unit of f's argument) -> unit of lo",
 			Summary:   "The x between lo and hi where f(x) is " + word + " (the argument, not the value: the value is f(" + name + "(f, lo, hi))). f should have one " + map[bool]string{true: "minimum", false: "maximum"}[sign > 0] + " inside the interval; if it is " + word + " at an end, that is an error saying which end (the extreme lies outside: move the interval). Use " + other + " for the opposite.",
-			Method:    "Brent's method (golden-section steps and parabolic interpolation; gonum offers no one-dimensional minimiser); stops when x is within 2·(1.5e-8·|x| + 3.3e-13·(hi − lo)) of the extremum (1.5e-8 is the square root of double precision: a smooth extremum is flat, so its place is known far less well than its value)",
+			Method:    "Brent's method (golden-section steps and parabolic interpolation; gonum offers no one-dimensional minimiser); stops when x is within 2·(1.5e-8·|x| + 3.3e-13·(hi − lo)) of the extremum (1.5e-8 is the square root of double precision: a smooth extremum is flat, so its place is known far less well than its value). The result carries a numerical error estimate: the final bracket plus the width around it that rounding leaves flat, √(16ε|f|/f''), with f'' from two more values of f",
 			Example:   map[bool]string{true: "minimize(cos, 2, 4)\ncos(minimize(cos, 2, 4))", false: "P(R) = (1 V)^2 * R / (R + 50 ohm)^2\nmaximize(P, 1 ohm, 500 ohm)\nP(maximize(P, 1 ohm, 500 ohm))"}[sign > 0],
 			Reference: refMinimize,
 		},
@@ -183,7 +183,7 @@ func extremum(env runtime.Env, fn string, sign float64, args []runtime.Value) (r
 		}
 		return sign * q.V, nil
 	}
-	x, fx, err := localMin(g, lo.V, hi.V, 1e-12*(hi.V-lo.V))
+	x, fx, width, err := localMin(g, lo.V, hi.V, 1e-12*(hi.V-lo.V))
 	if errors.Is(err, errNoMin) {
 		return nil, errorf("%s: %s: %v", fn, f.Signature(), err)
 	}
@@ -205,6 +205,11 @@ func extremum(env runtime.Env, fn string, sign float64, args []runtime.Value) (r
 				runtime.Format(runtime.Quantity{V: sign * fe, D: dim}, 6), map[bool]string{true: "minimum", false: "maximum"}[sign > 0])
 		}
 	}
+	if env != nil {
+		// a minimum of the computed function lies in the final bracket;
+		// the true one within the width its rounding leaves flat
+		env.NumericalError(width + flatWidth(g, x, fx, lo.V, hi.V))
+	}
 	return runtime.Quantity{V: x, D: lo.D, Cyc: cyc}, nil
 }
 
@@ -218,14 +223,14 @@ var errNoMin = errors.New("no convergence in 500 steps (is the function continuo
 // x. For a unimodal g it finds the minimum; otherwise a local one.
 // (gonum's optimize package minimises in several dimensions only; it has
 // no bracketing minimiser in one, so this is written out here.)
-func localMin(g func(float64) (float64, error), a, b, t float64) (float64, float64, error) {
+func localMin(g func(float64) (float64, error), a, b, t float64) (x, fx, width float64, err error) {
 	c := 0.5 * (3 - math.Sqrt(5)) // the golden section, 0.381966…
 	v := a + c*(b-a)
-	w, x := v, v
+	w := v
+	x = v
 	d, e := 0.0, 0.0
-	fx, err := g(x)
-	if err != nil {
-		return 0, 0, err
+	if fx, err = g(x); err != nil {
+		return 0, 0, 0, err
 	}
 	fv, fw := fx, fx
 	for iter := 0; iter < 500; iter++ {
@@ -233,7 +238,7 @@ func localMin(g func(float64) (float64, error), a, b, t float64) (float64, float
 		tol := minRel*math.Abs(x) + t/3
 		t2 := 2 * tol
 		if math.Abs(x-m) <= t2-0.5*(b-a) {
-			return x, fx, nil
+			return x, fx, math.Max(x-a, b-x), nil
 		}
 		golden := true
 		if math.Abs(e) > tol { // try a parabola through x, v, w
@@ -276,7 +281,7 @@ func localMin(g func(float64) (float64, error), a, b, t float64) (float64, float
 		}
 		fu, err := g(u)
 		if err != nil {
-			return 0, 0, err
+			return 0, 0, 0, err
 		}
 		if fu <= fx {
 			if u < x {
@@ -298,5 +303,28 @@ func localMin(g func(float64) (float64, error), a, b, t float64) (float64, float
 			v, fv = u, fu
 		}
 	}
-	return 0, 0, errNoMin
+	return 0, 0, 0, errNoMin
+}
+
+// flatWidth is how far from x the computed function can stay within its
+// rounding of its least value: near a minimum g ≈ g(x) + g”·(u − x)²/2,
+// which rounding (8 ulps of |g(x)|) cannot tell from g(x) while
+// |u − x| < √(16ε|g(x)|/g”). g” comes from two more values of g at
+// x ± h, h = 1e-4 of the interval (far enough that rounding does not
+// swamp it); where it is not positive, √ε times the scale.
+func flatWidth(g func(float64) (float64, error), x, fx, lo, hi float64) float64 {
+	const eps = 0x1p-52
+	scale := math.Max(math.Abs(x), hi-lo)
+	h := 1e-4 * (hi - lo)
+	h = math.Min(h, math.Min(x-lo, hi-x))
+	if h > 0 {
+		fp, err1 := g(x + h)
+		fm, err2 := g(x - h)
+		if err1 == nil && err2 == nil {
+			if c2 := (fp + fm - 2*fx) / (h * h); c2 > 0 && !math.IsInf(c2, 0) {
+				return math.Min(math.Sqrt(16*eps*math.Max(math.Abs(fx), 1e-300)/c2), scale)
+			}
+		}
+	}
+	return math.Sqrt(eps) * scale
 }

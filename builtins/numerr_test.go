@@ -30,7 +30,8 @@ func numRun(t *testing.T, lines ...string) *runtime.Result {
 // does not see. Derivatives: d/dx sin = cos, d/dx exp = exp,
 // d/dx xⁿ = n·xⁿ⁻¹, the product and chain rules (any calculus text). Roots:
 // √2, ln 3 and the fixed point of cos, 0.7390851332151607 (the Dottie
-// number; e.g. OEIS A003957). Line integrals: Ampère's law, ∮B·dl = μ0·I
+// number; e.g. OEIS A003957). Extremes: the minimum of (x − 0.3)² at 0.3,
+// of cos at π, of x·ln x at 1/e, the maximum of sin at π/2. Line integrals: Ampère's law, ∮B·dl = μ0·I
 // around a wire (Jackson, Classical Electrodynamics, 3rd ed., 1999, §5.3;
 // μ0 of CODATA 2018, and the finite wire's factor (L/2)/√((L/2)² + ρ²)),
 // and ∮ of F = (−y, x, 0) around a circle of radius R, 2πR² (Stokes).
@@ -65,6 +66,10 @@ func TestNumericalErrorBounds(t *testing.T) {
 		{"solve ln 3", []string{"g(x) = exp(x)", "solve(g, 3, 0, 5)"}, math.Log(3)},
 		{"solve cos fixed point", []string{"g(x) = cos(x) - x", "solve(g, 0, 0, 1)"}, 0.7390851332151607},
 		{"solve a length", []string{"g(x) = x^2", "solve(g, 2 mm^2, 0 mm, 5 mm) / 1 mm"}, math.Sqrt2},
+		{"minimize a parabola", []string{"q(x) = (x - 0.3)^2 + 1", "minimize(q, 0, 1)"}, 0.3},
+		{"minimize cos", []string{"q(x) = cos(x)", "minimize(q, 2, 4)"}, math.Pi},
+		{"maximize sin", []string{"q(x) = sin(x)", "maximize(q, 0, 3)"}, math.Pi / 2},
+		{"minimize x ln x", []string{"q(x) = x*ln(x)", "minimize(q, 0.1, 1)"}, 1 / math.E},
 		{"Ampère", []string{"w = segment([0, 0, -50] m, [0, 0, 50] m)", "line_integral(b_field(source(w, 3 A)), circle([0, 0, 0] m, [0, 0, 1], 20 mm)) / 1 T/m"}, 1.25663706212e-6 * 3 * (50 / math.Hypot(50, 0.02))},
 		{"mutual, general route", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 12] mm, [0, 0, 1], 18 mm)) / 1 H"}, maxwellM(0.025, 0.018, 0.012)},
 		{"mutual, close circles", []string{"h1 = arc([0, 0, 0] m, [0, 0, 1], [25, 0, 0] mm, pi)", "h2 = arc([0, 0, 0] m, [0, 0, 1], [-25, 0, 0] mm, pi)", "mutual(join(h1, h2), circle([0, 0, 0.5] mm, [0, 0, 1], 24 mm)) / 1 H"}, maxwellM(0.025, 0.024, 0.0005)},
