@@ -44,8 +44,8 @@ func fluxFuncs() []*runtime.Func {
 				if err != nil {
 					return nil, err
 				}
-				if _, loop := args[1].(*Path); loop && env != nil {
-					env.NumericalError(withFieldRounding(est, phi)) // ∮A·dl's quadrature estimate and the fields' rounding
+				if env != nil {
+					env.NumericalError(withFieldRounding(est, phi)) // the quadrature's estimate and the fields' rounding
 				}
 				return runtime.Quantity{V: phi, D: dimWeber}, nil
 			},
@@ -88,8 +88,7 @@ func fluxOf(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target runt
 	return fluxOfEst(env, fn, srcs, ub, target, nil)
 }
 
-// fluxOfEst is fluxOf that adds the line integral's error estimate to
-// est (for a closed path; a surface's is not collected).
+// fluxOfEst is fluxOf that adds the quadrature's error estimate to est.
 func fluxOfEst(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target runtime.Value, est *float64) (float64, error) {
 	tol := control(env, fn, em.DefaultTol)
 	tol.Est = est
@@ -122,7 +121,9 @@ func fluxOfEst(env runtime.Env, fn string, srcs []em.Source, ub em.Vec, target r
 			return 0, fieldErr(fn, err)
 		}
 		if ub != (em.Vec{}) {
-			u, err := em.FluxUniform(ub, x.S, em.DefaultTol)
+			ut := em.DefaultTol
+			ut.Est = est
+			u, err := em.FluxUniform(ub, x.S, ut)
 			if err != nil {
 				return 0, fieldErr(fn, err)
 			}

@@ -261,9 +261,12 @@ func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
 	}
 	t := tol
 	t.Abs = math.Max(tol.Abs, tol.Rel*Mu0*imax*surf.Size*1e-3)
-	v, _, err := Integrate2(f, 0, 1, 0, 1, t)
+	v, e, err := Integrate2(f, 0, 1, 0, 1, t)
 	if ferr != nil {
 		return 0, ferr
+	}
+	if tol.Est != nil {
+		*tol.Est += e
 	}
 	return v, err
 }
@@ -271,7 +274,10 @@ func FluxThroughSurface(srcs []Source, surf Surface, tol Tol) (float64, error) {
 // FluxUniform is the flux of a uniform field through a surface.
 func FluxUniform(b Vec, surf Surface, tol Tol) (float64, error) {
 	f := func(u, v float64) float64 { return r3.Dot(b, surf.Normal(u, v)) }
-	v, _, err := Integrate2(f, 0, 1, 0, 1, tol.with(tol.Rel, tol.Rel*r3.Norm(b)*surf.Area*1e-3))
+	v, e, err := Integrate2(f, 0, 1, 0, 1, tol.with(tol.Rel, tol.Rel*r3.Norm(b)*surf.Area*1e-3))
+	if tol.Est != nil {
+		*tol.Est += e
+	}
 	return v, err
 }
 

@@ -51,7 +51,8 @@ type Tol struct {
 	Stop     func() error
 	Progress func(done, total int)
 	// Est, if not nil, receives (adds up) the quadratures' own error
-	// estimates, where a routine supports it (LineIntegral).
+	// estimates, where a routine supports it (LineIntegral,
+	// FluxThroughLoop, FluxThroughSurface, FluxUniform).
 	Est *float64
 }
 
