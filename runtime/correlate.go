@@ -2,7 +2,6 @@ package runtime
 
 import (
 	"fmt"
-	"regexp"
 	"strings"
 	"unicode/utf8"
 
@@ -11,31 +10,23 @@ import (
 	"loopwise/lang"
 )
 
-// correlateCall matches "correlate(a, b, r)" as a whole statement.
-var correlateCall = regexp.MustCompile(`^(\s*correlate\s*\()(.*)\)\s*$`)
-
 // correlateOf handles "correlate(a, b, r)": the inputs named a and b (the
 // names their ± values were assigned to) get correlation coefficient r
 // (GUM §5.2.2), used by first order (eq. (16)) and by Monte Carlo draws.
 func (s *Session) correlateOf(st *lang.Statement) (*Result, bool, error) {
-	if s.kinds["correlate"] == kindVar || s.kinds["correlate"] == kindUserFunc {
+	call, ok := s.matchForm(st, "correlate")
+	if !ok {
 		return nil, false, nil
 	}
-	m := correlateCall.FindStringSubmatchIndex(st.Expr)
-	if m == nil {
-		return nil, false, nil
-	}
-	whole := func(format string, args ...any) error {
-		return st.Errorf(st.ExprOff, max(1, utf8.RuneCountInString(st.Expr)), format, args...)
-	}
+	whole := call.errorf
 	if st.Kind != lang.Expr {
 		return nil, true, whole("correlate(a, b, r) is a statement of its own; it gives no value to assign")
 	}
-	args := splitTopLevel(st.Expr[m[4]:m[5]])
+	args := call.args
 	if len(args) != 3 {
 		return nil, true, whole("correlate takes the names of two uncertain inputs and a correlation coefficient: correlate(V, I, -0.36)")
 	}
-	argOff := func(a topArg) int { return st.ExprOff + utf8.RuneCountInString(st.Expr[:m[4]]) + a.off }
+	argOff := func(a topArg) int { return st.ExprOff + a.off }
 	var ids [2]int
 	for k, a := range args[:2] {
 		name := strings.TrimSpace(a.text)
@@ -56,15 +47,14 @@ func (s *Session) correlateOf(st *lang.Statement) (*Result, bool, error) {
 	if ids[0] == ids[1] {
 		return nil, true, whole("an input is fully correlated with itself; name two different inputs")
 	}
-	sub := *st
-	sub.Expr, sub.ExprOff = args[2].text, argOff(args[2])
-	p, err := s.compile(&sub, sub.Expr, sub.ExprOff, nil, nil)
+	sub := call.sub(args[2])
+	p, err := s.compile(sub, sub.Expr, sub.ExprOff, nil, nil)
 	if err != nil {
 		return nil, true, err
 	}
 	v, err := s.run(p)
 	if err != nil {
-		return nil, true, s.stopped(&sub, err)
+		return nil, true, s.stopped(sub, err)
 	}
 	q, ok := v.(Quantity)
 	if !ok || !q.D.IsZero() || !(q.V >= -1 && q.V <= 1) {

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"regexp"
 	"sort"
 	"strings"
 	"unicode/utf8"
@@ -110,42 +109,31 @@ func (m *MonteCarlo) Tabulate() ([]string, []Dim, [][]float64) {
 	return []string{"y", "count", "normal"}, []Dim{m.D, Dimensionless, Dimensionless}, rows
 }
 
-// monteCarloCall matches "monte_carlo(expr, trials[, seed])" as a whole
-// statement; the last one or two arguments are split off at top level.
-var monteCarloCall = regexp.MustCompile(`^(\s*monte_carlo\s*\()(.*)\)\s*$`)
-
 // MaxTrials bounds the trials of one monte_carlo statement.
 const MaxTrials = 1_000_000
 
+// monteCarloOf handles "monte_carlo(expr, trials[, seed])".
 func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
-	if s.kinds["monte_carlo"] == kindVar || s.kinds["monte_carlo"] == kindUserFunc {
+	call, ok := s.matchForm(st, "monte_carlo")
+	if !ok {
 		return nil, false, nil
 	}
-	m := monteCarloCall.FindStringSubmatchIndex(st.Expr)
-	if m == nil {
-		return nil, false, nil
-	}
-	whole := func(format string, args ...any) error {
-		return st.Errorf(st.ExprOff, max(1, utf8.RuneCountInString(st.Expr)), format, args...)
-	}
-	args := splitTopLevel(st.Expr[m[4]:m[5]])
+	whole := call.errorf
+	args := call.args
 	if len(args) < 2 || len(args) > 3 {
 		return nil, true, whole("monte_carlo takes an expression and a number of trials (and a seed): monte_carlo(M, 10000)")
 	}
 	// the trial count and seed are plain numbers
 	nums := make([]float64, len(args)-1)
 	for i, a := range args[1:] {
-		sub := *st
-		sub.Kind, sub.Name, sub.As, sub.Declared = lang.Expr, "", "", ""
-		sub.Expr = a.text
-		sub.ExprOff = st.ExprOff + utf8.RuneCountInString(st.Expr[:m[4]]) + a.off
-		p, err := s.compile(&sub, sub.Expr, sub.ExprOff, nil, nil)
+		sub := call.sub(a)
+		p, err := s.compile(sub, sub.Expr, sub.ExprOff, nil, nil)
 		if err != nil {
 			return nil, true, err
 		}
 		v, err := s.run(p)
 		if err != nil {
-			return nil, true, s.stopped(&sub, err)
+			return nil, true, s.stopped(sub, err)
 		}
 		q, ok := v.(Quantity)
 		if !ok || !q.D.IsZero() || q.V != math.Trunc(q.V) || q.V < 0 {
@@ -162,11 +150,8 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 		return nil, true, whole("the number of trials must be from 1000 to %d; JCGM 101 suggests 10⁶ for a 95 %% interval good to two digits", MaxTrials)
 	}
 	// first order, and the compiled target
-	inner := *st
-	inner.Kind, inner.Name, inner.As, inner.Declared = lang.Expr, "", "", ""
-	inner.Expr = args[0].text
-	inner.ExprOff = st.ExprOff + utf8.RuneCountInString(st.Expr[:m[4]]) + args[0].off
-	res, err := s.Exec(&inner)
+	inner := call.sub(args[0])
+	res, err := s.Exec(inner)
 	if err != nil {
 		return nil, true, err
 	}
@@ -178,14 +163,14 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 	if len(res.Contributions) == 0 {
 		return nil, true, whole("%s reads no uncertain value (enter one as 12 mm ± 0.1 mm)", strings.TrimSpace(inner.Expr))
 	}
-	target, err := s.compile(&inner, inner.Expr, inner.ExprOff, nil, nil)
+	target, err := s.compile(inner, inner.Expr, inner.ExprOff, nil, nil)
 	if err != nil {
 		return nil, true, err
 	}
 	u := s.combined(res.Contributions)[0]
 	ys, err := s.trials(target, trials, seed)
 	if err != nil {
-		return nil, true, s.stopped(&inner, err)
+		return nil, true, s.stopped(inner, err)
 	}
 	mc := summarise(ys, q, u)
 	mc.Target, mc.Trials, mc.Seed = strings.TrimSpace(inner.Expr), trials, seed

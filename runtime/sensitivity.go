@@ -3,7 +3,6 @@ package runtime
 import (
 	"fmt"
 	"math"
-	"regexp"
 	"strings"
 	"unicode/utf8"
 
@@ -101,31 +100,22 @@ func (t *Sensitivity) RowLabels() []string {
 // LabelHeading heads the row names.
 func (t *Sensitivity) LabelHeading() string { return "input" }
 
-// sensitivityCall matches a statement that is one call of sensitivity().
-var sensitivityCall = regexp.MustCompile(`^(\s*sensitivity\s*\()(.*)\)\s*$`)
-
 // sensitivityOf handles "sensitivity(expr)": expr is evaluated as a
 // statement of its own and its contributions become the table.
 func (s *Session) sensitivityOf(st *lang.Statement) (*Result, bool, error) {
-	if s.kinds["sensitivity"] == kindVar || s.kinds["sensitivity"] == kindUserFunc {
-		return nil, false, nil // the user's own name
-	}
-	m := sensitivityCall.FindStringSubmatchIndex(st.Expr)
-	if m == nil {
+	call, ok := s.matchForm(st, "sensitivity")
+	if !ok {
 		return nil, false, nil
 	}
-	inner := *st
-	inner.Kind = lang.Expr
-	inner.Name, inner.As, inner.Declared = "", "", ""
-	inner.Expr = st.Expr[m[4]:m[5]]
-	inner.ExprOff = st.ExprOff + utf8.RuneCountInString(st.Expr[:m[4]])
-	whole := func(format string, args ...any) error {
-		return st.Errorf(st.ExprOff, max(1, utf8.RuneCountInString(st.Expr)), format, args...)
+	whole := call.errorf
+	if len(call.args) != 1 {
+		return nil, true, whole("sensitivity takes one expression: sensitivity(M)")
 	}
+	inner := call.sub(call.args[0])
 	if strings.TrimSpace(inner.Expr) == "" {
 		return nil, true, whole("sensitivity takes one expression: sensitivity(M)")
 	}
-	res, err := s.Exec(&inner)
+	res, err := s.Exec(inner)
 	if err != nil {
 		return nil, true, err
 	}
