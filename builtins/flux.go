@@ -185,20 +185,45 @@ func derivative(env runtime.Env, fn string, f *runtime.Func, t float64) (float64
 	return d, err
 }
 
-// derivativeEst is derivative with em.DerivativeEst's error estimate.
+// derivativeEst is derivative with an error estimate: exact (forward-mode
+// automatic differentiation, the estimate the rounding bound of the
+// tangent) when the derivative flows through f, else em.DerivativeEst's
+// (and the result's note says so).
 func derivativeEst(env runtime.Env, fn string, f *runtime.Func, t float64) (float64, float64, error) {
+	at := runtime.Format(runtime.Quantity{V: t, D: dimTime}, 6)
+	rate := dimCurrent.Div(dimTime)
+	dd, reason, err := tangentOf(env, f, []runtime.Value{runtime.Quantity{V: t, D: dimTime}}, 0, [3]float64{1})
+	var ke *runtime.KinkError
+	var je *runtime.JumpError
+	var ie *runtime.InfiniteSlopeError
+	switch {
+	case errors.As(err, &ke):
+		return 0, 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+			runtime.Format(runtime.Quantity{V: real(ke.Before.T[0]), D: rate}, 6), runtime.Format(runtime.Quantity{V: real(ke.After.T[0]), D: rate}, 6))
+	case errors.As(err, &je):
+		return 0, 0, errorf("%s: the current function %s jumps at t = %s (%s just before, %s at t, %s just after), so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+			runtime.Format(je.Before, 6), runtime.Format(je.At, 6), runtime.Format(je.After, 6))
+	case errors.As(err, &ie):
+		return 0, 0, errorf("%s: the current function %s has no derivative at t = %s: %s", fn, f.Signature(), at, ie.Error())
+	case err != nil:
+		return 0, 0, err
+	}
+	if q, ok := dd.V.(runtime.Quantity); ok && reason == "" && q.D == dimCurrent {
+		return real(dd.T[0]), dd.ET, nil
+	}
+	if reason != "" {
+		noteDifferences(env, fn, f, reason)
+	}
 	d, est, err := em.DerivativeEst(func(x float64) (em.Vec, error) {
 		i, err := currentAt(env, fn, f, x, true)
 		return em.Vec{X: i}, err
 	}, t, 1, -12, true)
-	at := runtime.Format(runtime.Quantity{V: t, D: dimTime}, 6)
-	var ke *em.KinkError
+	var fke *em.KinkError
 	var ae *argError
 	switch {
-	case errors.As(err, &ke):
-		rate := dimCurrent.Div(dimTime)
+	case errors.As(err, &fke):
 		return 0, 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
-			runtime.Format(runtime.Quantity{V: ke.Before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: ke.After.X, D: rate}, 6))
+			runtime.Format(runtime.Quantity{V: fke.Before.X, D: rate}, 6), runtime.Format(runtime.Quantity{V: fke.After.X, D: rate}, 6))
 	case errors.As(err, &ae):
 		return 0, 0, err
 	case errors.Is(err, em.ErrNoPlateau):

@@ -153,7 +153,7 @@ func mathFuncs() []*runtime.Func {
 		sameDimN("min", "Smallest of its arguments.", "min(a: unit, b: same unit, ...) -> unit", "min(3 mm, 0.2 inch)", math.Min),
 		sameDimN("max", "Largest of its arguments.", "max(a: unit, b: same unit, ...) -> unit", "max(3 mm, 0.2 inch)", math.Max),
 	}
-	return fs
+	return withTangents(fs)
 }
 
 // plainDim is the unit rule of a function of a plain number.

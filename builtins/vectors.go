@@ -36,7 +36,7 @@ func vec2(name string, f func(a, b runtime.Vector) (runtime.Value, error), help 
 }
 
 func vectorFuncs() []*runtime.Func {
-	return []*runtime.Func{
+	return withTangents([]*runtime.Func{
 		vec2("dot", func(a, b runtime.Vector) (runtime.Value, error) {
 			return runtime.Quantity{V: r3.Dot(toR3(a), toR3(b)), D: a.D.Mul(b.D)}, nil
 		}, &runtime.Help{
@@ -88,5 +88,5 @@ func vectorFuncs() []*runtime.Func {
 				Reference: refR3,
 			},
 		},
-	}
+	})
 }

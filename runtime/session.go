@@ -97,6 +97,30 @@ type Session struct {
 	// script's directory, or the prompt's working directory; empty means
 	// the session reads none. The command sets it.
 	InDir string
+	notes []string // remarks builtins made on the running statement (AddNote)
+}
+
+// Noter is implemented by the session: a builtin's remark on how it
+// computed its value joins the result's note.
+type Noter interface{ Note(msg string) }
+
+// Note implements Noter; a remark made twice (a statement run again for
+// its uncertainty) is kept once.
+func (s *Session) Note(msg string) {
+	for _, n := range s.notes {
+		if n == msg {
+			return
+		}
+	}
+	s.notes = append(s.notes, msg)
+}
+
+// AddNote adds a remark to the running statement's note, when env keeps
+// notes.
+func AddNote(env Env, msg string) {
+	if n, ok := env.(Noter); ok {
+		n.Note(msg)
+	}
 }
 
 // OutputPath implements Env: name must be a plain relative path that stays
@@ -222,6 +246,7 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		}
 	}()
 	s.depth, s.tooDeep, s.work = 0, false, 0
+	s.notes = nil
 	s.interrupted.Store(false)
 	s.unc.stmtPM, s.unc.label, s.unc.cur, s.unc.env = nil, nil, nil, nil
 	s.num.calls, s.num.cur, s.num.nested, s.num.replay = nil, -1, false, nil
@@ -337,6 +362,9 @@ func (s *Session) Exec(st *lang.Statement) (res *Result, err error) {
 		if numErrVisible(v, nb, RecordDigits-2) {
 			rec += " " + FormatNumErr(v, nb, unit)
 		}
+	}
+	for _, n := range s.notes {
+		note = strings.TrimSpace(note + "\nnote: " + n)
 	}
 	if !tracked {
 		note = strings.TrimSpace(note + "\nnote: a builtin inside a function or a sweep reported a numerical error estimate that is not carried to this result")

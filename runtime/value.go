@@ -147,6 +147,9 @@ type Func struct {
 	// Real, when set on a builtin of one quantity, is its form on plain
 	// numbers, for fast evaluation of user functions (see Fast).
 	Real *RealFunc
+	// Tangent, when set on a builtin, is its rule on Duals, by which
+	// exact derivatives flow through it (tangent.go).
+	Tangent TangentRule
 	// Help is set for builtins.
 	Help *Help
 	// body is a user function's compiled body and its session, for Fast.
