@@ -34,6 +34,9 @@ type Field struct {
 	// prepare returns an evaluator for time t (hasT says whether t was
 	// given).
 	prepare func(env runtime.Env, fn string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error)
+	// fn is the user function of a field made from one (for exact
+	// derivatives), or nil.
+	fn *runtime.Func
 }
 
 func (f *Field) Kind() string { return "a vector field" }
@@ -57,7 +60,7 @@ func userField(fn string, uf *runtime.Func) (*Field, error) {
 	if uf.MinArgs == 1 && uf.MaxArgs == 1 {
 		withT = false
 	}
-	f := &Field{desc: uf.Signature(), sym: "F", user: true, timeDep: withT}
+	f := &Field{desc: uf.Signature(), sym: "F", user: true, timeDep: withT, fn: uf}
 	f.prepare = func(env runtime.Env, name string, t float64, hasT bool) (func(x em.Vec) (em.Vec, error), error) {
 		if withT && !hasT {
 			return nil, errorf("%s: the field %s depends on time; give the time as the last argument", name, uf.Signature())
@@ -462,7 +465,14 @@ func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Valu
 	if err != nil {
 		return nil, err
 	}
-	j, err := em.Jacobian(eval, x)
+	var j [3]em.Vec
+	exact, err := exactJacobian(env, fn, f, args, &j)
+	if err != nil {
+		return nil, err
+	}
+	if !exact {
+		j, err = em.Jacobian(eval, x)
+	}
 	if err != nil {
 		var ke *em.AxisKinkError
 		var ae *argError
@@ -510,6 +520,9 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	}
 	if _, err := g(t); err != nil {
 		return nil, fieldErr(fn, err)
+	}
+	if v, ok, err := exactDdt(env, fn, f, x, t); ok || err != nil {
+		return v, err
 	}
 	v, err := em.Derivative(g, t, 1, -12, true)
 	var ke *em.KinkError

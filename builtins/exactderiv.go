@@ -3,7 +3,9 @@ package builtins
 import (
 	"errors"
 	"fmt"
+	"math"
 
+	"loopwise/builtins/em"
 	"loopwise/runtime"
 )
 
@@ -68,4 +70,95 @@ func realTangent(d runtime.Dual) (v [3]float64, dim runtime.Dim, vec, ok bool) {
 		return [3]float64{real(d.T[0]), real(d.T[1]), real(d.T[2])}, x.D, true, true
 	}
 	return v, dim, false, false
+}
+
+// exactJacobian fills j (column k: ∂F/∂x_k) by three exact passes, one
+// per axis, when the field is a user function the derivative flows
+// through; false to use differences (noted).
+func exactJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, j *[3]em.Vec) (bool, error) {
+	if f.fn == nil {
+		return false, nil
+	}
+	in := []runtime.Value{args[1]}
+	if f.timeDep {
+		in = append(in, args[2])
+	}
+	var worst float64
+	for k := 0; k < 3; k++ {
+		var dir [3]float64
+		dir[k] = 1
+		d, reason, err := tangentOf(env, f.fn, in, 0, dir)
+		if err != nil {
+			return false, fieldDerivErr(fn, f, "xyz"[k:k+1], dimLength, err)
+		}
+		t, _, vec, ok := realTangent(d)
+		if reason != "" || !ok || !vec {
+			if reason != "" {
+				noteDifferences(env, fn, f.fn, reason)
+			}
+			return false, nil
+		}
+		j[k] = em.Vec{X: t[0], Y: t[1], Z: t[2]}
+		worst = math.Max(worst, d.ET)
+	}
+	if env != nil {
+		// curl and div add two or three partial derivatives
+		if fn == "div" {
+			env.NumericalError(3 * worst)
+		} else {
+			env.NumericalError(2*worst, 2*worst, 2*worst)
+		}
+	}
+	return true, nil
+}
+
+// exactDdt is ∂F/∂t of a user field of position and time by one exact
+// pass; ok false to use differences (noted).
+func exactDdt(env runtime.Env, fn string, f *Field, x em.Vec, t float64) (runtime.Value, bool, error) {
+	if f.fn == nil || !f.timeDep {
+		return nil, false, nil
+	}
+	d, reason, err := tangentOf(env, f.fn, []runtime.Value{fromVec(x, dimLength), runtime.Quantity{V: t, D: dimTime}}, 1, [3]float64{1})
+	if err != nil {
+		return nil, false, fieldDerivErr(fn, f, "t", dimTime, err)
+	}
+	v, dim, vec, ok := realTangent(d)
+	if reason != "" || !ok || !vec {
+		if reason != "" {
+			noteDifferences(env, fn, f.fn, reason)
+		}
+		return nil, false, nil
+	}
+	if env != nil {
+		env.NumericalError(d.ET, d.ET, d.ET)
+	}
+	return runtime.Vector{V: v, D: dim.Div(dimTime)}, true, nil
+}
+
+// fieldDerivErr is the message of a user field without a derivative at
+// the point along axis (x, y, z, or t for time).
+func fieldDerivErr(fn string, f *Field, axis string, per runtime.Dim, err error) error {
+	var ke *runtime.KinkError
+	var je *runtime.JumpError
+	var ie *runtime.InfiniteSlopeError
+	rate := func(d runtime.Dual) string {
+		v, e := runtime.TangentValue(d, per)
+		if e != nil {
+			return "?"
+		}
+		return runtime.Format(v, 6)
+	}
+	along := "along " + axis
+	if axis == "t" {
+		along = "in time"
+	}
+	switch {
+	case errors.As(err, &ke):
+		return errorf("%s: the field %s has a kink at this point %s: its derivative %s is %s on the − side and %s on the + side", fn, f.fn.Signature(), along, along, rate(ke.Before), rate(ke.After))
+	case errors.As(err, &je):
+		return errorf("%s: the field %s jumps at this point %s (%s on the − side, %s on the + side)", fn, f.fn.Signature(), along, runtime.Format(je.Before, 6), runtime.Format(je.After, 6))
+	case errors.As(err, &ie):
+		return errorf("%s: the field %s has no derivative at this point %s: %s", fn, f.fn.Signature(), along, ie.Error())
+	}
+	return err
 }

@@ -19,7 +19,7 @@ func extremumFuncs() []*runtime.Func {
 				Signature: "deriv(f: function of one quantity, x: unit of f's argument[, scale: unit of x]) -> unit of f / unit of x",
 				Summary:   "The derivative of f at x, for a function of any one quantity (a gap, a radius, a current, a time) returning a quantity or a vector. scale is the largest step tried; it defaults to |x| and must be given at x = 0.",
 				Method:    "central differences with one Richardson step (the step search shared with emf and ddt), steps from 1e-12·scale up to scale, the first whose estimate agrees with its neighbours to 1e-6 of the function's rate of change; a jump or a kink at x is an error giving the slopes before and after. Its numerical error estimate (shown when it reaches the digits shown, or always after :numerr on) adds the change of the extrapolated value to the neighbouring steps and 3δ/h for an error δ in f's values (the noise the smaller steps show, at least 4 ulps); the tests find it 7 to 350 times the actual error",
-				Example:   "k(d) = maxwell_mutual(20 mm, 15 mm, d) / (1 uH)\nderiv(k, 5 mm)",
+				Example:   "B(z) = mu0 * 2 A * (20 mm)^2 / (2 * ((20 mm)^2 + z^2)^1.5)\nderiv(B, 5 mm)",
 				Reference: "Burden & Faires, Numerical Analysis, 9th ed., 2011, §4.1 (three-point formulas) and §4.2 (Richardson's extrapolation)",
 			},
 		},
@@ -54,6 +54,28 @@ func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	} else if scale == 0 {
 		return nil, errorf("%s: at x = 0 the step cannot follow x; give the scale over which f changes as a third argument, such as deriv(f, %s, %s)", fn, runtime.Format(x, 6), runtime.Format(runtime.Quantity{V: 1, D: x.D}, 6))
 	}
+	at := runtime.Format(x, 6)
+	dd, reason, err := tangentOf(env, f, []runtime.Value{x}, 0, [3]float64{1})
+	if err != nil {
+		return nil, derivErr(fn, f, at, x.D, err)
+	}
+	if t, d, vec, ok := realTangent(dd); ok && reason == "" {
+		if dt, ok := d.Combine(1, x.D, -1); ok {
+			if vec {
+				if env != nil {
+					env.NumericalError(dd.ET, dd.ET, dd.ET) // a bound on the norm bounds each component
+				}
+				return runtime.Vector{V: t, D: dt}, nil
+			}
+			if env != nil {
+				env.NumericalError(dd.ET)
+			}
+			return runtime.Quantity{V: t[0], D: dt}, nil
+		}
+	}
+	if reason != "" {
+		noteDifferences(env, fn, f, reason)
+	}
 	var dim runtime.Dim
 	vec := false
 	first := true
@@ -86,7 +108,6 @@ func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		return out, nil
 	}
 	d, est, err := em.DerivativeEst(g, x.V, scale, -12, true)
-	at := runtime.Format(x, 6)
 	show := func(v em.Vec) string {
 		if vec {
 			return runtime.Format(fromVec(v, dim.Div(x.D)), 6)
@@ -116,6 +137,31 @@ func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 		return fromVec(d, dim.Div(x.D)), nil
 	}
 	return runtime.Quantity{V: d.X, D: dim.Div(x.D)}, nil
+}
+
+// derivErr is the message of an exact derivative that does not exist at
+// x (of unit xd): a kink, a jump or an infinite slope of f.
+func derivErr(fn string, f *runtime.Func, at string, xd runtime.Dim, err error) error {
+	var ke *runtime.KinkError
+	var je *runtime.JumpError
+	var ie *runtime.InfiniteSlopeError
+	slope := func(d runtime.Dual) string {
+		v, e := runtime.TangentValue(d, xd)
+		if e != nil {
+			return "?"
+		}
+		return runtime.Format(v, 6)
+	}
+	switch {
+	case errors.As(err, &ke):
+		return errorf("%s: %s has a kink at %s: its slope is %s just before and %s just after, so the derivative is not defined there", fn, f.Signature(), at, slope(ke.Before), slope(ke.After))
+	case errors.As(err, &je):
+		return errorf("%s: %s has no derivative at %s: it jumps there (%s just before, %s at the point, %s just after)", fn, f.Signature(), at,
+			runtime.Format(je.Before, 6), runtime.Format(je.At, 6), runtime.Format(je.After, 6))
+	case errors.As(err, &ie):
+		return errorf("%s: %s has no derivative at %s: %s", fn, f.Signature(), at, ie.Error())
+	}
+	return err
 }
 
 func extremumFunc(name, word string, sign float64) *runtime.Func {

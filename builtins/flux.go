@@ -201,7 +201,7 @@ func derivativeEst(env runtime.Env, fn string, f *runtime.Func, t float64) (floa
 		return 0, 0, errorf("%s: the current function %s has a kink at t = %s: its slope is %s just before and %s just after, so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
 			runtime.Format(runtime.Quantity{V: real(ke.Before.T[0]), D: rate}, 6), runtime.Format(runtime.Quantity{V: real(ke.After.T[0]), D: rate}, 6))
 	case errors.As(err, &je):
-		return 0, 0, errorf("%s: the current function %s jumps at t = %s (%s just before, %s at t, %s just after), so dI/dt is not defined there; take t a little before or after", fn, f.Signature(), at,
+		return 0, 0, errorf("%s: the current function %s has no derivative at t = %s: it jumps there (%s just before, %s at t, %s just after); take t a little before or after", fn, f.Signature(), at,
 			runtime.Format(je.Before, 6), runtime.Format(je.At, 6), runtime.Format(je.After, 6))
 	case errors.As(err, &ie):
 		return 0, 0, errorf("%s: the current function %s has no derivative at t = %s: %s", fn, f.Signature(), at, ie.Error())

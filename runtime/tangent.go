@@ -245,7 +245,9 @@ func norm3(c [3]complex128) float64 {
 
 func sq(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
 
-func sub3(a, b [3]complex128) [3]complex128 { return [3]complex128{a[0] - b[0], a[1] - b[1], a[2] - b[2]} }
+func sub3(a, b [3]complex128) [3]complex128 {
+	return [3]complex128{a[0] - b[0], a[1] - b[1], a[2] - b[2]}
+}
 
 // IsConst reports a Dual whose tangent is zero.
 func (d Dual) IsConst() bool { return d.T == [3]complex128{} }
