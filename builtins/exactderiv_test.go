@@ -267,7 +267,7 @@ func TestExactKinksAndJumps(t *testing.T) {
 	ring := "circle([0, 0, 0] m, [0, 0, 1], 25 mm)"
 	for _, c := range []struct {
 		name, def, call, want string
-		col               int
+		col                   int
 	}{
 		{"abs at t0", "I(t) = 2 A * abs(t - 1 ms) / (1 ms)", "emf(source(" + ring + ", I), " + loop + ", 1 ms)",
 			"emf: the current function I(t) has a kink at t = 1 ms: its slope is -2 kA/s just before and 2 kA/s just after, so dI/dt is not defined there; take t a little before or after", 1},
