@@ -524,6 +524,9 @@ func ddtBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	if v, ok, err := exactDdt(env, fn, f, x, t); ok || err != nil {
 		return v, err
 	}
+	if v, ok, err := exactSourceDdt(env, fn, f, x, t); ok || err != nil {
+		return v, err
+	}
 	v, err := em.Derivative(g, t, 1, -12, true)
 	var ke *em.KinkError
 	var ae *argError

@@ -162,3 +162,61 @@ func fieldDerivErr(fn string, f *Field, axis string, per runtime.Dim, err error)
 	}
 	return err
 }
+
+// exactSourceDdt is ∂B/∂t or ∂A/∂t of a source's field: Σ (field per
+// ampere of each current)·dIₖ/dt with exact rates; ok false to use
+// differences (noted) when a rate cannot flow. A kink of a current is a
+// kink of the field, reported with the rates before and after.
+func exactSourceDdt(env runtime.Env, fn string, f *Field, x em.Vec, t float64) (runtime.Value, bool, error) {
+	if f.src == nil || (f.which != em.FieldB && f.which != em.FieldA) {
+		return nil, false, nil
+	}
+	var before, after em.Vec
+	var bound float64
+	kink := false
+	at := runtime.Quantity{V: t, D: dimTime}
+	for _, term := range f.src.terms {
+		cf, ok := term.current.(*runtime.Func)
+		if !ok {
+			continue // a constant current (a phasor was refused before)
+		}
+		per, err := em.NewEvaluator(f.which, []em.Source{term.em(1)}).At(x)
+		if err != nil {
+			return nil, false, fieldErr(fn, err)
+		}
+		d, reason, err := tangentOf(env, cf, []runtime.Value{at}, 0, [3]float64{1})
+		var ke *runtime.KinkError
+		switch {
+		case errors.As(err, &ke):
+			kink = true
+			before = em.Vec{X: before.X + per.X*real(ke.Before.T[0]), Y: before.Y + per.Y*real(ke.Before.T[0]), Z: before.Z + per.Z*real(ke.Before.T[0])}
+			after = em.Vec{X: after.X + per.X*real(ke.After.T[0]), Y: after.Y + per.Y*real(ke.After.T[0]), Z: after.Z + per.Z*real(ke.After.T[0])}
+			continue
+		case err != nil:
+			_, _, err = derivativeEst(env, fn, cf, t) // its message for the current
+			return nil, false, err
+		}
+		q, ok := d.V.(runtime.Quantity)
+		if reason != "" || !ok || q.D != dimCurrent {
+			if reason != "" {
+				noteDifferences(env, fn, cf, reason)
+			}
+			return nil, false, nil
+		}
+		r := real(d.T[0])
+		before = em.Vec{X: before.X + per.X*r, Y: before.Y + per.Y*r, Z: before.Z + per.Z*r}
+		after = em.Vec{X: after.X + per.X*r, Y: after.Y + per.Y*r, Z: after.Z + per.Z*r}
+		n := math.Sqrt(per.X*per.X + per.Y*per.Y + per.Z*per.Z)
+		// the rate's rounding bound, and the fields' closed forms' rounding
+		bound += n*d.ET + fieldRounding*n*math.Abs(r)
+	}
+	d := f.dim.Div(dimTime)
+	if kink {
+		return nil, false, errorf("%s: the field has a kink in time at t = %s: its rate of change is %s just before and %s just after; take t a little before or after", fn,
+			runtime.Format(at, 6), runtime.Format(fromVec(before, d), 6), runtime.Format(fromVec(after, d), 6))
+	}
+	if env != nil {
+		env.NumericalError(bound, bound, bound)
+	}
+	return fromVec(after, d), true, nil
+}

@@ -305,3 +305,23 @@ func TestExactKinksAndJumps(t *testing.T) {
 		})
 	}
 }
+
+// TestExactSourceDdt: ∂B/∂t on the axis of a ring whose current is a
+// sine is the on-axis field per ampere, μ0a²/(2(a² + z²)^{3/2}) (Jackson,
+// Classical Electrodynamics, 3rd ed., 1999, §5.5, from memory), times
+// dI/dt = I0·ω·cos(ωt). The kernel's closed form and the formula round
+// differently: bound 1e-13 relative.
+func TestExactSourceDdt(t *testing.T) {
+	r := sessionRun(t, "I(t) = 2 A * sin(2*pi*50 Hz*t)",
+		"ddt(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 7] mm, 1.3 ms)")
+	got := comps(t, r.Value)
+	a, z, w := 0.025, 0.007, 2*math.Pi*50
+	mu0 := sessionRun(t, "mu0").Value.(runtime.Quantity).V
+	want := mu0 * a * a / (2 * math.Pow(a*a+z*z, 1.5)) * 2 * w * math.Cos(w*1.3e-3)
+	if math.Abs(got[2]-want) > 1e-13*math.Abs(want) || math.Abs(got[0]) > 1e-13*math.Abs(want) || math.Abs(got[1]) > 1e-13*math.Abs(want) {
+		t.Errorf("ddt B = %v T/s, want [0, 0, %.17g]", got, want)
+	}
+	if strings.Contains(r.Note, "differences") {
+		t.Errorf("note %q", r.Note)
+	}
+}
