@@ -324,7 +324,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "curl(field, point: position [m][, t: s]) -> vector [field unit/m]",
 				Summary:   "∇ × F at a point. (For B of a wire that is not a closed circuit the curl is not zero off the wire: an open piece of wire does not conserve current.)",
-				Method:    "each partial derivative by central differences with one Richardson step; of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used, judged against the field's own rate of change (so a curl that is zero, as curl B off the wires, is an answer: below 1e-8 of |B|/distance near a 12-ring coil in the tests); a kink at the point (a region's boundary) is an error giving both one-sided derivatives; refuses on or very near wires",
+				Method:    "for a field that is a function of yours, each partial derivative exact (forward-mode automatic differentiation, one pass per axis; within 1e-14 of the hand curl in the tests), with a rounding bound as its numerical error estimate; for fields of sources and regions (and functions the derivative cannot flow through, which the note names) central differences with one Richardson step: of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used, judged against the field's own rate of change (so a curl that is zero, as curl B off the wires, is an answer: below 1e-8 of |B|/distance near a 12-ring coil in the tests); a kink at the point (a region's boundary) is an error giving both one-sided derivatives; refuses on or very near wires",
 				Example:   "F(p) = [-p.y, p.x, 0] * 1 T/m\ncurl(F, [1, 2, 3] m)",
 				Reference: refCalculus,
 			},
@@ -348,7 +348,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "ddt(field, point: position [m], t: s) -> vector [field unit/s]",
 				Summary:   "∂F/∂t at a point and time, for fields of time-varying sources or functions of time.",
-				Method:    "central differences in time with one Richardson step, step searched from 1 ps up to 1 s (as emf); a jump or a kink at t is an error giving the rates just before and after",
+				Method:    "exact for a field that is a function of yours of position and time, and for B and A of a source (the fields per ampere times each current's exact dI/dt, as in emf), with a rounding bound as the numerical error estimate; otherwise (E fields, regions, functions the derivative cannot flow through: the note says so) central differences in time with one Richardson step, step searched from 1 ps up to 1 s (as emf); a jump or a kink at t is an error giving the rates just before and after",
 				Example:   "I(t) = 2 A * sin(2*pi*50 Hz*t)\nddt(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 0] m, 0 s)",
 				Reference: refCalculus,
 			},

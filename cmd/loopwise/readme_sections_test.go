@@ -11,7 +11,7 @@ import (
 // sections on multilayer coils, wire losses, printed coils, AC circuits, circuits in time,
 // magnets and tolerances, so the page shows what the program prints.
 func TestReadmeTranscripts(t *testing.T) {
-	for _, title := range []string{"### Multilayer coils", "### Wire losses at AC", "### Printed coils", "### AC: phasors, circuits and the two-coil link", "### Circuits in time and the ring ejector", "### Magnets, ideal sources, steel plates and cores", "### Tolerances and uncertainty", "### Numerical error"} {
+	for _, title := range []string{"### Multilayer coils", "### Wire losses at AC", "### Printed coils", "### AC: phasors, circuits and the two-coil link", "### Circuits in time and the ring ejector", "### Magnets, ideal sources, steel plates and cores", "### Tolerances and uncertainty", "### Exact derivatives", "### Numerical error"} {
 		t.Run(title[4:], func(t *testing.T) { replaySection(t, title) })
 	}
 }
