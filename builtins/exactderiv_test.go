@@ -97,6 +97,7 @@ func TestExactDerivClosedForms(t *testing.T) {
 		{"vector products", []string{"a(x) = [x, x^2, 1]", "f(x) = dot(a(x), [1, 2, 3]) + norm(cross(a(x), [0, 0, 1]))"}, "deriv(f, 0.5)",
 			// dot: x + 2x² + 3 → 1 + 4x; |a × ẑ| = √(x² + x⁴) → (x + 2x³)/√(x² + x⁴)
 			[]float64{1 + 4*0.5 + (0.5+2*0.125)/math.Sqrt(0.25+0.0625)}, 3},
+		{"complex intermediate", []string{"f(x) = abs((1 + x) * exp(j * x))"}, "deriv(f, 0.5)", []float64{1}, 1}, // |e^{jx}| = 1
 		{"a smooth join", []string{"f(x) = x < 1 ? x^2 : 2*x - 1"}, "deriv(f, 1)", []float64{2}, 2},
 		{"a piecewise constant part", []string{"f(x) = floor(x) + x^2"}, "deriv(f, 2.5)", []float64{5}, 5},
 	}
