@@ -154,7 +154,10 @@ func (f *Func) Derivative(env Env, args []Value, i int, dir [3]float64) (Dual, e
 	if !ok {
 		return Dual{}, NoTangent("a value that is %s", TypeName(v0))
 	}
-	// the pieces' values at the point may differ by their own rounding
+	// the two sides' values (and slopes) at the point come from different
+	// pieces, which may differ by their own rounding: equal means within
+	// twice their bounds plus 1e-12 of their size (a jump or kink smaller
+	// than that is not told from rounding)
 	tol := func(x, y [3]complex128, e float64) bool {
 		return norm3(sub3(x, y)) <= 2*e+1e-12*math.Max(norm3(x), norm3(y))
 	}
