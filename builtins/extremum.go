@@ -17,7 +17,7 @@ func extremumFuncs() []*runtime.Func {
 			CallEnv: derivBuiltin,
 			Help: &runtime.Help{
 				Signature: "deriv(f: function of one quantity, x: unit of f's argument[, scale: unit of x]) -> unit of f / unit of x",
-				Summary:   "The derivative of f at x, for a function of any one quantity (a gap, a radius, a current, a time) returning a quantity or a vector. scale is the largest step tried; it defaults to |x| and must be given at x = 0.",
+				Summary:   "The derivative of f at x, for a function of any one quantity (a gap, a radius, a current, a time) returning a quantity or a vector. scale is the largest step tried when differences are used (see Method); it defaults to |x| and must then be given at x = 0.",
 				Method:    "exact for a function of yours that the derivative flows through (forward-mode automatic differentiation: arithmetic, powers, conditions, the math and vector builtins, your other functions); the tests find it within 1e-14 of the derivatives of calculus, and its numerical error estimate is a running bound of the rounding (a few ulps). Otherwise (a builtin without a derivative rule, such as solve or maxwell_mutual, given a value that depends on x; the note says so) central differences with one Richardson step (the step search shared with emf and ddt), steps from 1e-12·scale up to scale, the first whose estimate agrees with its neighbours to 1e-6 of the function's rate of change; its estimate adds the change of the extrapolated value to the neighbouring steps and 3δ/h for an error δ in f's values (the noise the smaller steps show, at least 4 ulps); the tests find it 7 to 350 times the actual error. A jump, a kink or an infinite slope at x is an error giving both sides; the estimate is shown when it reaches the digits shown, or always after :numerr on",
 				Example:   "B(z) = mu0 * 2 A * (20 mm)^2 / (2 * ((20 mm)^2 + z^2)^1.5)\nderiv(B, 5 mm)",
 				Reference: "Burden & Faires, Numerical Analysis, 9th ed., 2011, §4.1 (three-point formulas) and §4.2 (Richardson's extrapolation)",
@@ -51,8 +51,6 @@ func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 			return nil, errorf("%s: the scale must be positive, not %s", fn, runtime.Format(s, 6))
 		}
 		scale = s.V
-	} else if scale == 0 {
-		return nil, errorf("%s: at x = 0 the step cannot follow x; give the scale over which f changes as a third argument, such as deriv(f, %s, %s)", fn, runtime.Format(x, 6), runtime.Format(runtime.Quantity{V: 1, D: x.D}, 6))
 	}
 	at := runtime.Format(x, 6)
 	dd, reason, err := tangentOf(env, f, []runtime.Value{x}, 0, [3]float64{1})
@@ -72,6 +70,10 @@ func derivBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 			}
 			return runtime.Quantity{V: t[0], D: dt}, nil
 		}
+	}
+	if scale == 0 {
+		// only differences need a step; the exact route did not go through
+		return nil, errorf("%s: at x = 0 the step cannot follow x; give the scale over which f changes as a third argument, such as deriv(f, %s, %s)", fn, runtime.Format(x, 6), runtime.Format(runtime.Quantity{V: 1, D: x.D}, 6))
 	}
 	if reason != "" {
 		noteDifferences(env, fn, f, reason)
