@@ -576,16 +576,21 @@ func tanMul(a, b Dual) (Dual, error) {
 	xn, _ := numbers(x.V)
 	st := s.T[0]
 	d := Dual{V: v}
-	var mag float64
 	for i := range d.T {
 		d.T[i] = st*xn[i] + sv*x.T[i]
-		mag = math.Max(mag, cmplx.Abs(st*xn[i])+cmplx.Abs(sv*x.T[i]))
 	}
 	c := isComplexValue(v)
 	as, ax := cmplx.Abs(sv), norm3(xn)
 	ast, axt := cmplx.Abs(st), norm3(x.T)
 	d.EV = s.EV*ax + as*x.EV + round(norm3(n), c)
-	d.ET = s.ET*ax + ast*x.EV + s.EV*axt + as*x.ET + round(2*math.Sqrt(3)*mag, c) + round(norm3(d.T), c)
+	d.ET = s.ET*ax + ast*x.EV + s.EV*axt + as*x.ET
+	// rounding: each of the two products (u of its size), then their sum
+	// (u of the result); with one product zero, that product alone
+	if st != 0 && axt != 0 {
+		d.ET += round(ast*ax+as*axt, c) + round(norm3(d.T), c)
+	} else {
+		d.ET += round(norm3(d.T), c)
+	}
 	return d, nil
 }
 
