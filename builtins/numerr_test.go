@@ -62,6 +62,11 @@ func TestNumericalErrorBounds(t *testing.T) {
 		{"deriv product", []string{"f(x) = sin(x)*exp(x)", "deriv(f, 1.2)"}, math.Exp(1.2) * (math.Sin(1.2) + math.Cos(1.2))},
 		{"deriv composition", []string{"f(x) = sin(exp(x))", "deriv(f, 0.4)"}, math.Cos(math.Exp(0.4)) * math.Exp(0.4)},
 		{"deriv in time", []string{"i(t) = 3 A * sin(2*pi*50 Hz * t)", "deriv(i, 1 ms) / 1 A*s"}, 3 * 2 * math.Pi * 50 * math.Cos(2*math.Pi*50*1e-3)},
+		// the same by differences: 0 times a builtin without a derivative
+		// rule (maxwell_mutual) leaves the values and stops the exact route
+		{"deriv sin at 0.3 by differences", []string{"f(x) = sin(x) + 0 * maxwell_mutual(1 m, 2 m, x * 1 m) / (1 H)", "deriv(f, 0.3)"}, math.Cos(0.3)},
+		{"deriv cube at 2 by differences", []string{"f(x) = x^3 + 0 * maxwell_mutual(1 m, 2 m, x * 1 m) / (1 H)", "deriv(f, 2)"}, 12},
+		{"deriv in time by differences", []string{"i(t) = 3 A * sin(2*pi*50 Hz * t) + 0 A * maxwell_mutual(1 m, 2 m, t * 1 m/s) / (1 H)", "deriv(i, 1 ms) / 1 A*s"}, 3 * 2 * math.Pi * 50 * math.Cos(2*math.Pi*50*1e-3)},
 		{"solve sqrt 2", []string{"g(x) = x^2", "solve(g, 2, 0, 2)"}, math.Sqrt2},
 		{"solve ln 3", []string{"g(x) = exp(x)", "solve(g, 3, 0, 5)"}, math.Log(3)},
 		{"solve cos fixed point", []string{"g(x) = cos(x) - x", "solve(g, 0, 0, 1)"}, 0.7390851332151607},
