@@ -98,6 +98,7 @@ func TestExactDerivClosedForms(t *testing.T) {
 			// dot: x + 2x² + 3 → 1 + 4x; |a × ẑ| = √(x² + x⁴) → (x + 2x³)/√(x² + x⁴)
 			[]float64{1 + 4*0.5 + (0.5+2*0.125)/math.Sqrt(0.25+0.0625)}, 3},
 		{"complex intermediate", []string{"f(x) = abs((1 + x) * exp(j * x))"}, "deriv(f, 0.5)", []float64{1}, 1}, // |e^{jx}| = 1
+		{"recursion ending on a constant tie", []string{"p(x, n) = n == 0 ? 1 : x * p(x, n - 1)", "q(x) = p(x, 4)"}, "deriv(q, 3)", []float64{108}, 108},
 		{"a smooth join", []string{"f(x) = x < 1 ? x^2 : 2*x - 1"}, "deriv(f, 1)", []float64{2}, 2},
 		{"a piecewise constant part", []string{"f(x) = floor(x) + x^2"}, "deriv(f, 2.5)", []float64{5}, 5},
 	}
@@ -284,6 +285,10 @@ func TestExactKinksAndJumps(t *testing.T) {
 			"deriv: f(x) has no derivative at 3: it jumps there (2 just before, 3 at the point, 3 just after)", 1},
 		{"sqrt at 0", "f(x) = sqrt(x)", "deriv(f, 0 m^2, 1 m^2)",
 			"deriv: f(x) has no derivative at 0 m^2: the slope of sqrt at 0 is infinite here", 1},
+		// sqrt(x²) = |x|: the slope of x² is 0 at 0 and sqrt's infinite,
+		// which the exact route cannot resolve; the differences find the kink
+		{"sqrt of a square at 0", "f(x) = sqrt(x^2)", "deriv(f, 0, 1)",
+			"deriv: f(x) has a kink at 0: its slope is -1 just before and 1 just after, so the derivative is not defined there", 1},
 		{"a kink in space", "K(p) = [abs(p.x), 0 m, 0 m]", "div(K, [0, 1, 0] m)",
 			"div: the field K(p) has a kink at this point along x: its derivative along x is [-1, 0, 0] on the − side and [1, 0, 0] on the + side", 1},
 	} {

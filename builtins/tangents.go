@@ -41,6 +41,10 @@ func smooth(fn *runtime.Func, df, d2f func(x float64) float64, bad func(x float6
 			return runtime.Dual{}, runtime.NoTangent("%s of %s", fn.Name, runtime.TypeName(args[0].V))
 		}
 		x, xt := q.V, real(args[0].T[0])
+		if xt == 0 && args[0].Var && bad != nil && bad(x) {
+			// an infinite slope times a zero one: sqrt(x²) at 0 has a kink
+			return runtime.Dual{}, runtime.NoTangentWhy("%s at %s, where its slope is infinite, of a value whose slope is 0 (infinity times 0)", fn.Name, runtime.FormatNumber(x, 6))
+		}
 		if xt == 0 {
 			return runtime.Dual{V: v, EV: args[0].EV*math.Abs(df(x)) + libAllow*u*math.Abs(r.V)}, nil
 		}
@@ -232,7 +236,7 @@ func hypotRule(fn *runtime.Func) runtime.TangentRule {
 		if err != nil {
 			return runtime.Dual{}, err
 		}
-		vec := runtime.Dual{T: [3]complex128{args[0].T[0], args[1].T[0]}, EV: math.Hypot(args[0].EV, args[1].EV), ET: math.Hypot(args[0].ET, args[1].ET)}
+		vec := runtime.Dual{T: [3]complex128{args[0].T[0], args[1].T[0]}, EV: math.Hypot(args[0].EV, args[1].EV), ET: math.Hypot(args[0].ET, args[1].ET), Var: args[0].Var || args[1].Var}
 		vec.V = runtime.Vector{V: [3]float64{args[0].V.(runtime.Quantity).V, args[1].V.(runtime.Quantity).V}}
 		d, err := absRule(&runtime.Func{Name: "hypot", Call: func(a []runtime.Value) (runtime.Value, error) { return v, nil }})([]runtime.Dual{vec}, side)
 		if err != nil {

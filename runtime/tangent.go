@@ -57,6 +57,9 @@ type Dual struct {
 	V      Value
 	T      [3]complex128
 	EV, ET float64
+	// Var marks a value that depends on the variable (its tangent may
+	// be zero at the point and not elsewhere: x² at 0).
+	Var bool
 }
 
 // TangentRule is a builtin's rule on Duals: the value (as its Call gives
@@ -73,9 +76,22 @@ var errOneSided = ErrOneSided
 
 // NoTangentError says that a derivative cannot flow through a part (a
 // builtin without a rule whose argument depends on the variable).
-type NoTangentError struct{ What string }
+type NoTangentError struct {
+	What string // the part without a rule
+	Why  string // or the whole reason
+}
 
-func (e *NoTangentError) Error() string { return e.What + " has no derivative rule" }
+func (e *NoTangentError) Error() string {
+	if e.Why != "" {
+		return e.Why
+	}
+	return e.What + " has no derivative rule"
+}
+
+// NoTangentWhy is a *NoTangentError with its whole reason.
+func NoTangentWhy(format string, args ...any) error {
+	return &NoTangentError{Why: fmt.Sprintf(format, args...)}
+}
 
 // InfiniteSlopeError is a derivative that is infinite at the point
 // (sqrt or a fractional power at 0).
@@ -122,6 +138,7 @@ func (f *Func) Derivative(env Env, args []Value, i int, dir [3]float64) (Dual, e
 	for k, a := range args {
 		in[k] = Dual{V: normalize(a)}
 	}
+	in[i].Var = true
 	switch in[i].V.(type) {
 	case Quantity, Complex:
 		in[i].T[0] = complex(dir[0], 0)
@@ -252,8 +269,8 @@ func sub3(a, b [3]complex128) [3]complex128 {
 	return [3]complex128{a[0] - b[0], a[1] - b[1], a[2] - b[2]}
 }
 
-// IsConst reports a Dual whose tangent is zero.
-func (d Dual) IsConst() bool { return d.T == [3]complex128{} }
+// IsConst reports a Dual that does not depend on the variable.
+func (d Dual) IsConst() bool { return !d.Var }
 
 // NumbersOf gives the numbers of a numeric value, for tangent rules.
 func NumbersOf(v Value) ([3]complex128, bool) { return numbers(v) }
@@ -394,12 +411,23 @@ func (w *tanWalk) call(name string, argNodes []ast.Node) (Dual, error) {
 		if err != nil {
 			return Dual{}, err
 		}
-		return Dual{V: v, T: [3]complex128{x.T[i]}, EV: x.EV, ET: x.ET}, nil
+		return Dual{V: v, T: [3]complex128{x.T[i]}, EV: x.EV, ET: x.ET, Var: x.Var}, nil
 	}
 	args, err := w.evalAll(argNodes)
 	if err != nil {
 		return Dual{}, err
 	}
+	d, err := w.apply(name, args)
+	if err == nil {
+		for _, a := range args {
+			d.Var = d.Var || a.Var
+		}
+	}
+	return d, err
+}
+
+// apply is an engine function or operator on evaluated arguments.
+func (w *tanWalk) apply(name string, args []Dual) (Dual, error) {
 	switch name {
 	case fnCall:
 		return w.callValue(args)
@@ -650,6 +678,9 @@ func tanPow(a, b Dual) (Dual, error) {
 		} else {
 			x, pr := real(av), real(p)
 			if x == 0 && pr < 1 {
+				if a.T[0] == 0 {
+					return Dual{}, NoTangentWhy("a power below 1 of a value at 0 whose slope is 0 (infinity times 0)")
+				}
 				return Dual{}, &InfiniteSlopeError{What: "a power below 1 at 0"}
 			}
 			dp = complex(pr*math.Pow(x, pr-1), 0)
@@ -731,11 +762,16 @@ func tanCompare(name string, a, b Dual, side int) (Dual, error) {
 	if err != nil {
 		return Dual{}, err
 	}
-	if a.T == b.T {
-		return Dual{V: v}, nil
-	}
 	x, okx := a.V.(Quantity)
 	y, oky := b.V.(Quantity)
+	if a.T == b.T {
+		if okx && oky && x.V == y.V && (a.Var || b.Var) {
+			// equal values moving alike: which side is larger near the
+			// point is a question of higher order
+			return Dual{}, NoTangentWhy("a comparison of two equal values with equal slopes, whose order nearby is of higher order")
+		}
+		return Dual{V: v}, nil
+	}
 	if !okx || !oky {
 		if n1, ok := numbers(a.V); ok {
 			if n2, _ := numbers(b.V); n1 == n2 {
