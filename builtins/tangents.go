@@ -104,6 +104,11 @@ func steps(fn *runtime.Func, jumpAt func(x float64) bool) runtime.TangentRule {
 		}
 		q, ok := args[0].V.(runtime.Quantity)
 		xt := real(args[0].T[0])
+		if ok && xt == 0 && args[0].Var && jumpAt(q.V) {
+			// at a jump, moving with zero slope: which side it goes to is
+			// a question of higher order (floor(-x^2) at 0)
+			return runtime.Dual{}, runtime.NoTangentWhy("%s at a jump, of a value whose slope is 0", fn.Name)
+		}
 		if !ok || xt == 0 || !jumpAt(q.V) {
 			return runtime.Dual{V: v}, nil
 		}
