@@ -231,7 +231,9 @@ func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, 
 	if err != nil {
 		return runtime.Quantity{}, 0, fieldErr(fn, err)
 	}
-	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, withFieldRounding(est, v), nil
+	// the rounding of the field's values is charged on the integral's
+	// scale, so that a result near zero from cancellation keeps it
+	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, withFieldRounding(est, math.Max(math.Abs(v), scale)), nil
 }
 
 func calculusFuncs() []*runtime.Func {
@@ -423,9 +425,15 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 		return nil, fieldErr(fn, err)
 	}
 	scale := scaleOf(eval, pts) * s.S.Area
-	v, err := em.SurfaceIntegral(s.S, eval, control(env, fn, em.DefaultTol), scale)
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	v, err := em.SurfaceIntegral(s.S, eval, tol, scale)
 	if err != nil {
 		return nil, fieldErr(fn, err)
+	}
+	if env != nil {
+		env.NumericalError(withFieldRounding(est, math.Max(math.Abs(v), scale))) // the 2-D quadrature's estimate and the field's rounding on the integral's scale
 	}
 	return runtime.Quantity{V: v, D: f.dim.Mul(dimArea)}, nil
 }

@@ -80,9 +80,15 @@ func inductanceFuncs() []*runtime.Func {
 			if err := charge(env, "inductance", inductanceCost(p)); err != nil {
 				return nil, err
 			}
-			l, err := em.SelfInductanceWith(p, a, em.SelfOptions{Tol: control(env, "inductance", em.DefaultTol), Current: mode})
+			tol := control(env, "inductance", em.DefaultTol)
+			var est float64
+			tol.Est = &est
+			l, err := em.SelfInductanceWith(p, a, em.SelfOptions{Tol: tol, Current: mode})
 			if err != nil {
 				return nil, fieldErr("inductance", err)
+			}
+			if env != nil {
+				env.NumericalError(withFieldRounding(est, l)) // the quadratures' estimates, the ring series' truncation and the closed forms' rounding
 			}
 			return runtime.Quantity{V: l, D: dimHenry}, nil
 		}),
@@ -102,19 +108,28 @@ func inductanceFuncs() []*runtime.Func {
 				return nil, err
 			}
 			tol := control(env, "coupling", em.DefaultTol)
+			var eM, eL1, eL2 float64
+			tol.Est = &eM
 			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, fieldErr("coupling", err)
 			}
+			tol.Est = &eL1
 			l1, err := em.SelfInductance(p1, a1, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 1)", err)
 			}
+			tol.Est = &eL2
 			l2, err := em.SelfInductance(p2, a2, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 2)", err)
 			}
-			return runtime.Num(m / math.Sqrt(l1*l2)), nil
+			k := m / math.Sqrt(l1*l2)
+			if env != nil {
+				// first order in the three estimates: δk = δM/√(L1L2) + |k|(δL1/2L1 + δL2/2L2)
+				env.NumericalError(withFieldRounding(eM, m)/math.Sqrt(l1*l2) + math.Abs(k)*(withFieldRounding(eL1, l1)/(2*l1)+withFieldRounding(eL2, l2)/(2*l2)))
+			}
+			return runtime.Num(k), nil
 		}),
 		{
 			Name: "force", Params: []string{"source", "path", "current", "t"}, MinArgs: 3, MaxArgs: 4,
