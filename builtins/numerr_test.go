@@ -124,6 +124,10 @@ func TestNumericalErrorBounds(t *testing.T) {
 		// prism, integrated by hand); outside and inside the box
 		{"e_at of a box, outside", []string{"e_at(dbdt_box([0, 0, 0] m, [10, 0, 0] mm, [0, 10, 0] mm, [0, 0, 10] mm, [0, 0, 50] T/s), [20, 5, 5] mm).y / 1 V/m"}, -50 * boxGx([3]float64{0.02, 0.005, 0.005}, [3]float64{0, 0, 0}, [3]float64{0.01, 0.01, 0.01}) / (4 * math.Pi)},
 		{"e_at of a box, inside", []string{"e_at(dbdt_box([0, 0, 0] m, [10, 0, 0] mm, [0, 10, 0] mm, [0, 0, 10] mm, [0, 0, 50] T/s), [3, 4, 6] mm).y / 1 V/m"}, -50 * boxGx([3]float64{0.003, 0.004, 0.006}, [3]float64{0, 0, 0}, [3]float64{0.01, 0.01, 0.01}) / (4 * math.Pi)},
+		// the EMF phasor of a 2 A peak, 10 kHz ring current in a coaxial
+		// loop (made of two arcs, so the general route): |−jωMI| = ωMI,
+		// M by Maxwell's formula
+		{"emf phasor", []string{"src = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), polar(2 A, 30 deg))", "loop = join(arc([0, 0, 12] mm, [0, 0, 1], [18, 0, 12] mm, pi), arc([0, 0, 12] mm, [0, 0, 1], [-18, 0, 12] mm, pi))", "abs(emf(src, loop, 10 kHz)) / 1 V"}, 2 * math.Pi * 1e4 * 2 * maxwellM(0.025, 0.018, 0.012)},
 		{"Stokes", []string{"F(p) = [-p.y, p.x, 0 m]", "line_integral(F, circle([0, 0, 0] m, [0, 0, 1], 0.3 m)) / 1 m^2"}, 2 * math.Pi * 0.09},
 	}
 	for _, c := range cases {
@@ -214,13 +218,20 @@ func TestNumericalErrorCarried(t *testing.T) {
 		{[]string{"f(x) = x^3", "d = deriv(f, 2)", "3 * d"}, 3 * b},
 		{[]string{"f(x) = x^3", "d = deriv(f, 2)", "d - d"}, 0},
 		{[]string{"f(x) = x^3", "deriv(f, 2) - deriv(f, 2)"}, 2 * b},
+		// through a builtin whose argument carries it: sqrt moves by
+		// b/(2√12) (first order), and a user function too
+		{[]string{"f(x) = x^3", "d = deriv(f, 2)", "sqrt(d)"}, b / (2 * math.Sqrt(12))},
+		{[]string{"f(x) = x^3", "sqrt(deriv(f, 2))"}, b / (2 * math.Sqrt(12))},
+		{[]string{"f(x) = x^3", "g(x) = 2*x + 1", "g(deriv(f, 2))"}, 2 * b},
 	} {
 		r := numRun(t, c.lines...)
 		got := 0.0
 		if r.NumErr != nil {
 			got = r.NumErr[0]
 		}
-		if math.Abs(got-c.want) > 1e-12*c.want {
+		// the replay's change of a square root is first order only: its
+		// curvature changes it by about b/12 relative
+		if math.Abs(got-c.want) > 1e-4*c.want+1e-12 {
 			t.Errorf("%v: bound %g, want %g", c.lines, got, c.want)
 		}
 	}
