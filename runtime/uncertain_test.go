@@ -180,6 +180,25 @@ func TestSensitivityTable(t *testing.T) {
 	}
 }
 
+// TestSensitivityCorrelated: y = V/I with r(V, I) = 0.5: u(y)² =
+// (c_V u_V)² + (c_I u_I)² + 2 c_V u_V c_I u_I r (GUM §5.2.2, eq. (16)), by
+// hand 0.25 + 0.0625 − 0.125 = 0.1875 Ω²; the correlation row's share is
+// −0.125/0.1875 = −66.7 %, and with the inputs' 133 % and 33.3 % the
+// shares add up to 100 %. Tolerance 3e-6 relative: V/I is not linear in
+// I, and the central difference's (u²/6)·|y‴/y′| = (u_I/I)² = 1e-6 of c_I.
+func TestSensitivityCorrelated(t *testing.T) {
+	r := uncRun(t, "V = 5 V ± 0.01 V", "I = 20 mA ± 0.02 mA", "correlate(V, I, 0.5)", "sensitivity(V / I)")
+	tab := r.Value.(*runtime.Sensitivity)
+	if math.Abs(tab.U*tab.U/0.1875-1) > 3e-6 || math.Abs(tab.Corr/-0.125-1) > 3e-6 {
+		t.Errorf("u² = %g Ω² (want 0.1875), correlation terms %g Ω² (want −0.125)", tab.U*tab.U, tab.Corr)
+	}
+	for _, want := range []string{"133 %", "33.3 %", "(correlations)", "-66.7 %"} {
+		if !strings.Contains(r.Text, want) {
+			t.Errorf("table lacks %q:\n%s", want, r.Text)
+		}
+	}
+}
+
 // TestCentralDifferenceError: for y = x³ the central difference over
 // x ± u gives c·u = 3x²u + u³, the derivative's 3x²u plus exactly the
 // error term (u²/6)·y‴·u the help states (Taylor's theorem; y‴ = 6).
