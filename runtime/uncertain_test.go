@@ -211,6 +211,30 @@ func TestCentralDifferenceError(t *testing.T) {
 	}
 }
 
+// TestMonteCarloAdaptive: the adaptive procedure of JCGM 101:2008 §7.9.4
+// on y = x with x Gaussian, u = 2.0 (δ = 0.05, half a unit in u's second
+// digit, §7.9.2): it stops at a whole number of batches of 10⁴, at least
+// two, says it is stable, and then the mean, standard deviation and
+// interval ends are within 2δ of the exact Gaussian's 0, 2 and ±1.96·2
+// (the stopping rule makes twice each one's standard deviation ≤ δ, so 2δ
+// is four of them). The same run replayed gives the same trial count.
+func TestMonteCarloAdaptive(t *testing.T) {
+	r := uncRun(t, "x = 0 ± 2", "monte_carlo(x, \"adaptive\")")
+	mc := r.Value.(*runtime.MonteCarlo)
+	d := 0.05
+	if mc.Trials%10000 != 0 || mc.Trials < 20000 || !mc.Stable || !strings.Contains(r.Text, "adaptive") {
+		t.Fatalf("trials %d, stable %v:\n%s", mc.Trials, mc.Stable, r.Text)
+	}
+	t.Logf("stopped after %d trials", mc.Trials)
+	if math.Abs(mc.Mean) > 2*d || math.Abs(mc.SD-2) > 2*d || math.Abs(mc.Low+1.96*2) > 2*d || math.Abs(mc.High-1.96*2) > 2*d {
+		t.Errorf("mean %g, sd %g, interval [%g, %g]", mc.Mean, mc.SD, mc.Low, mc.High)
+	}
+	r2 := uncRun(t, "x = 0 ± 2", "monte_carlo(x, \"adaptive\")")
+	if r2.Value.(*runtime.MonteCarlo).Trials != mc.Trials {
+		t.Errorf("replay stopped after %d trials, first run %d", r2.Value.(*runtime.MonteCarlo).Trials, mc.Trials)
+	}
+}
+
 // TestMonteCarloLinear: for y = 2a + 3b with Gaussian inputs the output is
 // Gaussian with the first-order u exactly (JCGM 101:2008 §9.2, the linear
 // additive model, where first order and Monte Carlo must agree). With
