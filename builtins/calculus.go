@@ -383,6 +383,13 @@ func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, close
 	return lineIntegralOf(env, fn, f, p, t, hasT)
 }
 
+// reportNumErr reports the error bound of a number a builtin returns.
+func reportNumErr(env runtime.Env, bound float64) {
+	if env != nil {
+		env.NumericalError(bound)
+	}
+}
+
 // reportEst reports a builtin's error estimate to the session and passes
 // its value on.
 func reportEst(env runtime.Env) func(v runtime.Value, est float64, err error) (runtime.Value, error) {

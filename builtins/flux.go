@@ -323,7 +323,13 @@ func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	}
 	size := math.Max(loop.Size(), loop.Length())
 	scale := vmax * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
-	e, err := em.MotionalEMF(loop, vel, bf, control(env, fn, em.DefaultTol), scale)
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	e, err := em.MotionalEMF(loop, vel, bf, tol, scale)
+	if err == nil && env != nil {
+		env.NumericalError(withFieldRounding(est, math.Max(math.Abs(e), scale))) // the quadrature's estimate and the fields' rounding on the integral's scale
+	}
 	if err != nil {
 		var ae *argError
 		if errors.As(err, &ae) {

@@ -170,9 +170,17 @@ func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	if err := charge(env, fn, fieldCost(srcs)*nodes(p)); err != nil {
 		return nil, err
 	}
-	f, err := em.Force(srcs, p, i2, control(env, fn, em.DefaultTol))
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	f, err := em.Force(srcs, p, i2, tol)
 	if err != nil {
 		return nil, fieldErr(fn, err)
+	}
+	if env != nil {
+		// a bound on the vector's size bounds each component
+		b := withFieldRounding(est, r3.Norm(f))
+		env.NumericalError(b, b, b)
 	}
 	// a uniform field adds I ∮ dl × B = I (∮dl) × B: zero for a closed path
 	if ub := src.uniformB(); ub != (em.Vec{}) {

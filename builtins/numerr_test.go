@@ -128,6 +128,23 @@ func TestNumericalErrorBounds(t *testing.T) {
 		// loop (made of two arcs, so the general route): |−jωMI| = ωMI,
 		// M by Maxwell's formula
 		{"emf phasor", []string{"src = source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), polar(2 A, 30 deg))", "loop = join(arc([0, 0, 12] mm, [0, 0, 1], [18, 0, 12] mm, pi), arc([0, 0, 12] mm, [0, 0, 1], [-18, 0, 12] mm, pi))", "abs(emf(src, loop, 10 kHz)) / 1 V"}, 2 * math.Pi * 1e4 * 2 * maxwellM(0.025, 0.018, 0.012)},
+		// a rectangle beside a long wire (corner 10 mm from it, sides
+		// 30 mm away from it and 50 mm along it), its sides a = 10 mm and
+		// b = 40 mm from the wire, h = 50 mm long: the force on its two parallel
+		// sides, μ0·I1·I2·h/(2π)·(1/a − 1/b) (the perpendicular sides'
+		// forces cancel; Ampère's force law, any text), and the EMF when
+		// it moves away from the wire at v, μ0·I·h·v/(2π)·(1/a − 1/b)
+		// (motional EMF, (v × B)·dl on the parallel sides)
+		{"force on a loop beside a long wire", []string{"w = infinite_wire([0, 0, 0] m, [0, 0, 1], 4 A)", "norm(force(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm), 3 A)) / 1 N"}, 1.25663706212e-6 * 4 * 3 * 0.05 / (2 * math.Pi) * (1/0.01 - 1/0.04)},
+		{"motional EMF beside a long wire", []string{"w = infinite_wire([0, 0, 0] m, [0, 0, 1], 4 A)", "abs(motional_emf(w, rectangle([10, 0, 0] mm, [30, 0, 0] mm, [0, 0, 50] mm), [2, 0, 0] m/s)) / 1 V"}, 1.25663706212e-6 * 4 * 0.05 * 2 / (2 * math.Pi) * (1/0.01 - 1/0.04)},
+		// two rings of two arcs each, 5 mm and 15 mm above a plate of
+		// μr = 1000: M = M12 + k·M(ring 1, image of ring 2), k = (μr −
+		// 1)/(μr + 1), the image 15 mm below the face (the method of
+		// images for a permeable half space, e.g. Hammond, Applied
+		// Electromagnetism, 1971, from memory), each M by Maxwell's
+		// formula; and a ring's inductance beside its image
+		{"mutual near a plate", []string{"r1 = join(arc([0, 0, 5] mm, [0, 0, 1], [20, 0, 5] mm, pi), arc([0, 0, 5] mm, [0, 0, 1], [-20, 0, 5] mm, pi))", "r2 = circle([0, 0, 15] mm, [0, 0, 1], 15 mm)", "mutual_near_plate(r1, r2, [0, 0, 0] m, [0, 0, 1], 1000) / 1 H"}, maxwellM(0.02, 0.015, 0.01) + 999.0/1001*maxwellM(0.02, 0.015, 0.02)},
+		{"inductance near a plate", []string{"r = circle([0, 0, 5] mm, [0, 0, 1], 20 mm)", "inductance_near_plate(r, 0.3 mm, [0, 0, 0] m, [0, 0, 1], 1000) / 1 H"}, ringL(0.02, 0.0003) + 999.0/1001*maxwellM(0.02, 0.02, 0.01)},
 		{"Stokes", []string{"F(p) = [-p.y, p.x, 0 m]", "line_integral(F, circle([0, 0, 0] m, [0, 0, 1], 0.3 m)) / 1 m^2"}, 2 * math.Pi * 0.09},
 	}
 	for _, c := range cases {
