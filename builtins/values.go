@@ -287,6 +287,10 @@ type Table struct {
 
 func (t *Table) Kind() string { return "a table" }
 
+// ColumnNumErr gives each column's numerical error bound (nil: none), for
+// the report.
+func (t *Table) ColumnNumErr() []float64 { return t.NumErr }
+
 // CycleColumns implements runtime.CycleColumns.
 func (t *Table) CycleColumns() []bool { return t.Cyc }
 
@@ -340,7 +344,7 @@ func (t *Table) Show(digits int) string {
 		foot := make([]string, len(t.Cols))
 		for j, e := range t.NumErr {
 			if e > 0 {
-				foot[j] = "≤ " + runtime.FormatNumber(roundUp2(e/scales[j]), 2)
+				foot[j] = "≤ " + runtime.FormatNumber(RoundUp2(e/scales[j]), 2)
 			}
 		}
 		if foot[0] == "" {
@@ -375,9 +379,9 @@ func (t *Table) Show(digits int) string {
 	return b.String()
 }
 
-// roundUp2 rounds a bound up to two significant digits, so that the
+// RoundUp2 rounds a bound up to two significant digits, so that the
 // bound shown is still a bound.
-func roundUp2(x float64) float64 {
+func RoundUp2(x float64) float64 {
 	if x <= 0 || math.IsInf(x, 0) || math.IsNaN(x) {
 		return x
 	}
