@@ -559,22 +559,38 @@ var fieldTol = Tol{Rel: 1e-12, Abs: 1e-30}
 // numericB integrates Biot–Savart along the exact primitive; stop, if not
 // nil, may end the integral early with its error.
 func numericB(p Prim, x Vec, stop func() error) (Vec, error) {
-	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
+	return numericAlong(p, x, biotKernel(p), stop)
+}
+
+// biotKernel is the integrand of B along p: μ0/4π · dl × r/|r|³.
+func biotKernel(p Prim) func(r Vec, n, t float64) Vec {
+	return func(r Vec, n float64, t float64) Vec {
 		return r3.Scale(k0/(n*n*n), r3.Cross(p.Tangent(t), r))
-	}, stop)
+	}
+}
+
+// potKernel is the integrand of A along p: μ0/4π · dl/|r|.
+func potKernel(p Prim) func(r Vec, n, t float64) Vec {
+	return func(r Vec, n float64, t float64) Vec {
+		return r3.Scale(k0/n, p.Tangent(t))
+	}
 }
 
 // numericA integrates μ0/4π ∫ dl/|x − r'| along the exact primitive.
 func numericA(p Prim, x Vec, stop func() error) (Vec, error) {
-	return numericAlong(p, x, func(r Vec, n float64, t float64) Vec {
-		return r3.Scale(k0/n, p.Tangent(t))
-	}, stop)
+	return numericAlong(p, x, potKernel(p), stop)
 }
 
 // numericAlong integrates kernel(x − r(t), |x − r(t)|, t) over the
 // primitive by adaptive quadrature per quarter turn; a sample on the wire
 // itself means the point is on the wire.
 func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec, stop func() error) (Vec, error) {
+	v, _, err := numericAlongEst(p, x, kernel, stop)
+	return v, err
+}
+
+// numericAlongEst is numericAlong with the quadrature's error estimate.
+func numericAlongEst(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec, stop func() error) (Vec, float64, error) {
 	var bad bool
 	f := func(t float64) Vec {
 		r := r3.Sub(x, p.Point(t))
@@ -587,14 +603,14 @@ func numericAlong(p Prim, x Vec, kernel func(r Vec, n, t float64) Vec, stop func
 	}
 	tol := fieldTol
 	tol.Stop = stop
-	v, _, err := IntegrateVecBreaks(f, primBreaks(p), tol)
+	v, est, err := IntegrateVecBreaks(f, primBreaks(p), tol)
 	if bad {
-		return Vec{}, ErrOnWire
+		return Vec{}, 0, ErrOnWire
 	}
 	if err = acceptLoose(err); err != nil {
-		return Vec{}, err
+		return Vec{}, 0, err
 	}
-	return v, nil
+	return v, est, nil
 }
 
 // primBreaks splits an arc or helix into quarter turns for quadrature.
