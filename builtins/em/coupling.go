@@ -336,12 +336,40 @@ func MaxwellMutual(a, b, d float64) float64 {
 // negative for d > 0 (aiding circles pull together). K and E are the
 // complete integrals of parameter m = k²; 1 − k² is formed without
 // cancellation.
+//
+// For m < 1/2 (circles apart by more than about their radii) the bracket
+// is 3πm²/16 + O(m³) out of terms of O(1), and kept only ε/m² of itself
+// (the sign was lost beyond about 10⁴ radii). There the derivative comes
+// from MaxwellMutual's series instead, M = μ0√(ab)·√m·f(m),
+// f = (π/2) Σn≥1 c_n² n/(n+1) mⁿ, c_n = (2n − 1)!!/(2n)!!, and
+// dm/dd = −2m d/D:
+//
+//	dM/dd = μ0√(ab) (f/2 + m f′)/√m · dm/dd
+//	      = −(2μ0 a b d/D^(3/2)) · (π/2) Σn≥1 c_n² n(2n + 1)/(n + 1) mⁿ,
+//
+// every term positive (its first, 3m/8·π/2·…, gives the same 3πm²/16 as
+// the bracket). The terms fall like mⁿ (c_n² ~ 1/(πn)); they are summed
+// until one is below 1e-17 of the sum.
 func MaxwellMutualDd(a, b, d float64) float64 {
 	den := (a+b)*(a+b) + d*d
 	m := 4 * a * b / den
 	mc := ((a-b)*(a-b) + d*d) / den
 	if mc == 0 {
 		return 0 // touching circles: the field is singular; callers keep them apart
+	}
+	if m < 0.5 {
+		cn, mn, g := 1.0, m, 0.0
+		for n := 1; n < 200; n++ {
+			fn := float64(n)
+			cn *= (2*fn - 1) / (2 * fn)
+			term := cn * cn * fn * (2*fn + 1) / (fn + 1) * mn
+			g += term
+			if term < 1e-17*g {
+				break
+			}
+			mn *= m
+		}
+		return -2 * Mu0 * a * b * d / (den * math.Sqrt(den)) * math.Pi / 2 * g
 	}
 	kk := mathext.CompleteK(m)
 	ee := mathext.CompleteE(m)
