@@ -117,7 +117,15 @@ func FluxThroughLoop(srcs []Source, loop Path, tol Tol) (float64, error) {
 		imax = math.Max(imax, math.Abs(s.I))
 	}
 	scale := Mu0 * imax * loop.Size()
-	return lineIntegral(loop, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
+	v, err := lineIntegral(loop, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
+	if err == nil && tol.Est != nil {
+		r, err := integrandRounding(FieldA, srcs, loop, tol.Stop)
+		if err != nil {
+			return 0, err
+		}
+		tol.addEst(r)
+	}
+	return v, err
 }
 
 // ErrOpenPath is returned where a closed path is needed.
@@ -454,6 +462,13 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 			return 0, errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
 		}
 		return 0, err
+	}
+	if tol.Est != nil {
+		r, err := integrandRounding(FieldA, []Source{{Path: p1, I: 1}}, Path{Prims: rest}, tol.Stop)
+		if err != nil {
+			return 0, err
+		}
+		tol.addEst(r)
 	}
 	return sum + v, nil
 }

@@ -1,6 +1,7 @@
 package em
 
 import (
+	"errors"
 	"math"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -133,4 +134,33 @@ func primFieldEst(which Which, p Prim, x Vec, stop func() error) (v Vec, rel, es
 		v, est, err = numericAlongEst(p, x, kernel, stop)
 		return v, closedRel * eps, est, err
 	}
+}
+
+// integrandRounding estimates the rounding that the field values under a
+// line integral along path carry, which the quadrature's own estimate
+// cannot see: FieldErrorBound at up to 45 points spread over the path's
+// pieces, the largest times the path's length. It matters where the
+// sources' pieces cancel along the path (outside a toroidal winding, or
+// near a pair of opposed turns), where it can be the whole integral.
+func integrandRounding(which Which, srcs []Source, path Path, stop func() error) (float64, error) {
+	n := len(path.Prims)
+	if n == 0 {
+		return 0, nil
+	}
+	step := max(1, n/15)
+	var worst float64
+	for i := 0; i < n; i += step {
+		p := path.Prims[i]
+		for _, t := range []float64{0.1, 0.5, 0.9} {
+			b, _, err := FieldErrorBound(which, srcs, p.Point(t), stop)
+			if errors.Is(err, ErrOnWire) {
+				continue // a sample on a wire of the sources: the integral reports it if it is
+			}
+			if err != nil {
+				return 0, err
+			}
+			worst = math.Max(worst, b)
+		}
+	}
+	return worst * path.Length(), nil
 }
