@@ -229,7 +229,7 @@ func boxGx(x0, lo, hi [3]float64) float64 {
 }
 
 // opposedM is M(a, b, d) − M(a, b, d − δ) for small δ by its Taylor
-// series, δM' − δ²M''/2, with M' and M'' of maxwellM by fourth-order
+// series, δM' − δ²M”/2, with M' and M” of maxwellM by fourth-order
 // central differences at the step h = 1e-3·d (truncation about (h/d)⁴ =
 // 1e-12 of each, rounding about 1e-16·d/h = 1e-13 of M').
 func opposedM(a, b, d, delta float64) float64 {
