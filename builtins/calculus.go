@@ -234,7 +234,9 @@ func lineIntegralOf(env runtime.Env, fn string, f *Field, p em.Path, t float64, 
 	if err != nil {
 		return runtime.Quantity{}, 0, fieldErr(fn, err)
 	}
-	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, withFieldRounding(est, v), nil
+	// the rounding of the field's values is charged on the integral's
+	// scale, so that a result near zero from cancellation keeps it
+	return runtime.Quantity{V: v, D: f.dim.Mul(dimLength)}, withFieldRounding(est, math.Max(math.Abs(v), scale)), nil
 }
 
 func calculusFuncs() []*runtime.Func {
@@ -384,6 +386,13 @@ func lineIntegralBuiltin(env runtime.Env, fn string, args []runtime.Value, close
 	return lineIntegralOf(env, fn, f, p, t, hasT)
 }
 
+// reportNumErr reports the error bound of a number a builtin returns.
+func reportNumErr(env runtime.Env, bound float64) {
+	if env != nil {
+		env.NumericalError(bound)
+	}
+}
+
 // reportEst reports a builtin's error estimate to the session and passes
 // its value on.
 func reportEst(env runtime.Env) func(v runtime.Value, est float64, err error) (runtime.Value, error) {
@@ -426,9 +435,15 @@ func surfaceFluxBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, e
 		return nil, fieldErr(fn, err)
 	}
 	scale := scaleOf(eval, pts) * s.S.Area
-	v, err := em.SurfaceIntegral(s.S, eval, control(env, fn, em.DefaultTol), scale)
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	v, err := em.SurfaceIntegral(s.S, eval, tol, scale)
 	if err != nil {
 		return nil, fieldErr(fn, err)
+	}
+	if env != nil {
+		env.NumericalError(withFieldRounding(est, math.Max(math.Abs(v), scale))) // the 2-D quadrature's estimate and the field's rounding on the integral's scale
 	}
 	return runtime.Quantity{V: v, D: f.dim.Mul(dimArea)}, nil
 }

@@ -25,9 +25,12 @@ func fluxFuncs() []*runtime.Func {
 					if len(args) > 2 {
 						return nil, errorf("flux: the source's currents are phasors, so its flux is a phasor too and takes no time; leave the time out")
 					}
-					phi, err := fluxPhasor(env, "flux", src, args[1])
+					phi, bound, err := fluxPhasor(env, "flux", src, args[1])
 					if err != nil {
 						return nil, err
+					}
+					if env != nil {
+						env.NumericalError(bound, bound) // real and imaginary parts
 					}
 					return runtime.Complex{V: phi, D: dimWeber}, nil
 				}
@@ -259,9 +262,12 @@ func emfBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 		return nil, errorf("%s: the loop is not closed (its end is not its start); for a coil model it with rings() or join the helix to its leads; for an open wire moving in a field use motional_emf", fn)
 	}
 	if phasor {
-		phi, err := fluxPhasor(env, fn, src, &Path{P: loop})
+		phi, bound, err := fluxPhasor(env, fn, src, &Path{P: loop})
 		if err != nil {
 			return nil, err
+		}
+		if env != nil {
+			env.NumericalError(omega*bound, omega*bound) // real and imaginary parts
 		}
 		// e^{jωt} time dependence: EMF = −dΦ/dt = −jωΦ
 		return runtime.Complex{V: complex(0, -omega) * phi, D: dimVolt}, nil
@@ -342,7 +348,13 @@ func motionalEMF(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
 	}
 	size := math.Max(loop.Size(), loop.Length())
 	scale := vmax * (em.Mu0*imax/math.Max(size, 1e-300) + r3.Norm(ub)) * size
-	e, err := em.MotionalEMF(loop, vel, bf, control(env, fn, em.DefaultTol), scale)
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	e, err := em.MotionalEMF(loop, vel, bf, tol, scale)
+	if err == nil && env != nil {
+		env.NumericalError(withFieldRounding(est, math.Max(math.Abs(e), scale))) // the quadrature's estimate and the fields' rounding on the integral's scale
+	}
 	if err != nil {
 		var ae *argError
 		if errors.As(err, &ae) {

@@ -60,7 +60,7 @@ func inductanceFuncs() []*runtime.Func {
 		fncEnv("inductance", []string{"path", "wire_radius", "current"}, 2, 3, &runtime.Help{
 			Signature: `inductance(path, wire_radius: length[, current: "uniform" or "surface"]) -> H`,
 			Summary:   `Self-inductance of a path of round wire; for an open path, e.g. a coil without its leads, the partial self-inductance. "uniform" (the default): current spread evenly over the wire, the low-frequency value with the internal inductance μ0ℓ/8π; "surface": all current on the wire's surface, the limit when the skin depth is much smaller than the wire radius (no internal inductance). Between the two, take "uniform" and correct the internal part with internal_inductance or ac_factor (wire losses).`,
-			Method:    "sum over the path's pieces: a straight piece exactly (Neumann's volume integral as the mean over the wire's section, no thin-wire error; uniform current: μ0ℓ/2π[ln(2ℓ/a) − 3/4 + 128a/45πℓ − …]); a whole circle by its expansion μ0R[(1 + a²/8R²) ln(8R/a) − 7/4 + a²/24R²] (surface current: μ0R[ln(8R/a) − 2]); arcs and helices by the reduced kernel 1/√(|r−r'|² + a²) within half a turn plus μ0ℓ/8π (none for surface current); straight pieces that meet by the section-mean kernel, other pieces that meet by the reduced kernel, all other pairs by the exact kernel (coaxial rings by Maxwell's formula). Straight wire: exact to rounding (1e-13 against an independent quadrature); uniform-current ring: within (a/R)⁴ ln(8R/a)/100 (5e-7 μ0R at a/R = 0.1); bends and helices: O((a/R)²); a corner between straight pieces: O(a). Pieces in parallel on all cores; the work is estimated before it starts and refused beyond the work budget (:budget)",
+			Method:    "sum over the path's pieces: a straight piece exactly (Neumann's volume integral as the mean over the wire's section, no thin-wire error; uniform current: μ0ℓ/2π[ln(2ℓ/a) − 3/4 + 128a/45πℓ − …]); a whole circle by its expansion μ0R[(1 + a²/8R²) ln(8R/a) − 7/4 + a²/24R²] (surface current: μ0R[ln(8R/a) − 2]); arcs and helices by the reduced kernel 1/√(|r−r'|² + a²) within half a turn plus μ0ℓ/8π (none for surface current); straight pieces that meet by the section-mean kernel, other pieces that meet by the reduced kernel, all other pairs by the exact kernel (coaxial rings by Maxwell's formula). Straight wire: exact to rounding (1e-13 against an independent quadrature); uniform-current ring: within (a/R)⁴ ln(8R/a)/100 (5e-7 μ0R at a/R = 0.1); bends and helices: O((a/R)²); a corner between straight pieces: O(a). Pieces in parallel on all cores; the result carries its numerical error (the quadratures' estimates, the ring series' truncation, the closed forms' rounding; not the thin-wire model's error at bends); the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "inductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm)\ninductance(circle([0, 0, 0] m, [0, 0, 1], 50 mm), 0.5 mm, \"surface\")",
 			Reference: refInductance + "; straight wire: Rosa, Bull. Bureau of Standards 4 (1908), made exact by the chord-length densities of the section (Kendall & Moran, Geometrical Probability, 1963); ring: Wien (1894), Rosa & Grover, Bull. Bureau of Standards 8 (1912)",
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
@@ -80,9 +80,15 @@ func inductanceFuncs() []*runtime.Func {
 			if err := charge(env, "inductance", inductanceCost(p)); err != nil {
 				return nil, err
 			}
-			l, err := em.SelfInductanceWith(p, a, em.SelfOptions{Tol: control(env, "inductance", em.DefaultTol), Current: mode})
+			tol := control(env, "inductance", em.DefaultTol)
+			var est float64
+			tol.Est = &est
+			l, err := em.SelfInductanceWith(p, a, em.SelfOptions{Tol: tol, Current: mode})
 			if err != nil {
 				return nil, fieldErr("inductance", err)
+			}
+			if env != nil {
+				env.NumericalError(withFieldRounding(est, l)) // the quadratures' estimates, the ring series' truncation and the closed forms' rounding
 			}
 			return runtime.Quantity{V: l, D: dimHenry}, nil
 		}),
@@ -102,19 +108,28 @@ func inductanceFuncs() []*runtime.Func {
 				return nil, err
 			}
 			tol := control(env, "coupling", em.DefaultTol)
+			var eM, eL1, eL2 float64
+			tol.Est = &eM
 			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, fieldErr("coupling", err)
 			}
+			tol.Est = &eL1
 			l1, err := em.SelfInductance(p1, a1, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 1)", err)
 			}
+			tol.Est = &eL2
 			l2, err := em.SelfInductance(p2, a2, tol)
 			if err != nil {
 				return nil, fieldErr("coupling (path 2)", err)
 			}
-			return runtime.Num(m / math.Sqrt(l1*l2)), nil
+			k := m / math.Sqrt(l1*l2)
+			if env != nil {
+				// first order in the three estimates: δk = δM/√(L1L2) + |k|(δL1/2L1 + δL2/2L2)
+				env.NumericalError(withFieldRounding(eM, m)/math.Sqrt(l1*l2) + math.Abs(k)*(withFieldRounding(eL1, l1)/(2*l1)+withFieldRounding(eL2, l2)/(2*l2)))
+			}
+			return runtime.Num(k), nil
 		}),
 		{
 			Name: "force", Params: []string{"source", "path", "current", "t"}, MinArgs: 3, MaxArgs: 4,
@@ -155,9 +170,17 @@ func forceBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error) 
 	if err := charge(env, fn, fieldCost(srcs)*nodes(p)); err != nil {
 		return nil, err
 	}
-	f, err := em.Force(srcs, p, i2, control(env, fn, em.DefaultTol))
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	f, err := em.Force(srcs, p, i2, tol)
 	if err != nil {
 		return nil, fieldErr(fn, err)
+	}
+	if env != nil {
+		// a bound on the vector's size bounds each component
+		b := withFieldRounding(est, r3.Norm(f))
+		env.NumericalError(b, b, b)
 	}
 	// a uniform field adds I ∮ dl × B = I (∮dl) × B: zero for a closed path
 	if ub := src.uniformB(); ub != (em.Vec{}) {

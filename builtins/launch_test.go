@@ -33,10 +33,13 @@ func launchSession(t *testing.T) *runtime.Session {
 // (mutual, a route that shares no code with the launcher's Maxwell
 // formula). Tolerance 1e-6 of the bank's energy: the integrator runs at
 // relative 1e-8, Neumann's integral at 1e-10, and the energies are sums
-// of terms up to the bank's energy.
+// of terms up to the bank's energy. The table's numerical error bounds,
+// carried into the balance, must also cover its error.
 func TestRingLaunchEnergy(t *testing.T) {
 	s := launchSession(t)
-	cols, rows := tableCols(t, eval(t, s, "ring_launch(coil, ring, L1, 0.05 ohm, L2, 0.4 mohm, 1 mF, 100 V, 4 g, 3 ms, 13)"))
+	res := eval(t, s, "ring_launch(coil, ring, L1, 0.05 ohm, L2, 0.4 mohm, 1 mF, 100 V, 4 g, 3 ms, 13)")
+	ne := res.(*builtins.Table).NumErr
+	cols, rows := tableCols(t, res)
 	l1 := eval(t, s, "L1").(runtime.Quantity).V
 	l2 := eval(t, s, "L2").(runtime.Quantity).V
 	w0 := 0.5 * 1e-3 * 100 * 100
@@ -50,6 +53,15 @@ func TestRingLaunchEnergy(t *testing.T) {
 		w := 0.5*1e-3*vc*vc + 0.5*l1*i1*i1 + 0.5*l2*i2*i2 + m*i1*i2 +
 			r[cols["heat coil"]] + r[cols["heat ring"]] + 0.5*0.004*v*v + 0.004*9.80665*z
 		worst = math.Max(worst, math.Abs(w-w0)/w0)
+		// the table's numerical error bounds, carried to first order
+		// into the balance (the mutual's own 1e-10 added), must cover
+		// its error
+		bound := 1e-3*math.Abs(vc)*ne[cols["V bank"]] + (l1*math.Abs(i1)+math.Abs(m*i2))*ne[cols["I coil"]] +
+			(l2*math.Abs(i2)+math.Abs(m*i1))*ne[cols["I ring"]] + ne[cols["heat coil"]] + ne[cols["heat ring"]] +
+			0.004*math.Abs(v)*ne[cols["v"]] + 0.004*9.80665*ne[cols["z"]] + 1e-10*math.Abs(m*i1*i2)
+		if math.Abs(w-w0) > bound {
+			t.Errorf("t = %g s: energy balance off by %.3g J, beyond the table's numerical error bound %.3g J", r[0], w-w0, bound)
+		}
 		if math.Abs(w-w0) > 1e-6*w0 {
 			t.Errorf("t = %g s: energy %.9g J, bank had %g J (off by %.2g)", r[0], w, w0, (w-w0)/w0)
 		}

@@ -247,17 +247,22 @@ func magnetFuncs() []*runtime.Func {
 				return nil, err
 			}
 			tol := control(env, fn, em.DefaultTol)
+			var eL, eM float64
+			tol.Est = &eL
 			l, err := em.SelfInductance(path, a, tol)
 			if err != nil {
 				return nil, fieldErr(fn, err)
 			}
 			if k == 0 {
+				reportNumErr(env, withFieldRounding(eL, l))
 				return runtime.Quantity{V: l, D: dimHenry}, nil
 			}
+			tol.Est = &eM
 			m, err := em.Mutual(path, img, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, imageErr(fn, err, "the path touches the face (its image meets it); keep the wire at least its radius away")
 			}
+			reportNumErr(env, withFieldRounding(eL, l)+math.Abs(k)*withFieldRounding(eM, m))
 			return runtime.Quantity{V: l + k*m, D: dimHenry}, nil
 		}),
 		fncEnv("mutual_near_plate", []string{"path1", "path2", "point", "normal", "mu_r"}, 5, 5, &runtime.Help{
@@ -283,17 +288,22 @@ func magnetFuncs() []*runtime.Func {
 				return nil, err
 			}
 			tol := control(env, fn, em.DefaultTol)
+			var e1, e2 float64
+			tol.Est = &e1
 			m, err := em.Mutual(p1, p2, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, fieldErr(fn, err)
 			}
 			if k == 0 {
+				reportNumErr(env, withFieldRounding(e1, m))
 				return runtime.Quantity{V: m, D: dimHenry}, nil
 			}
+			tol.Est = &e2
 			mi, err := em.Mutual(p1, img, em.MutualOptions{Tol: tol})
 			if err != nil {
 				return nil, imageErr(fn, err, "a path touches the face (the image of path 2 meets path 1); keep the wires off the face")
 			}
+			reportNumErr(env, withFieldRounding(e1, m)+math.Abs(k)*withFieldRounding(e2, mi))
 			return runtime.Quantity{V: m + k*mi, D: dimHenry}, nil
 		}),
 	}

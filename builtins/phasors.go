@@ -2,6 +2,7 @@ package builtins
 
 import (
 	"math"
+	"math/cmplx"
 
 	"loopwise/builtins/em"
 	"loopwise/runtime"
@@ -64,26 +65,33 @@ func angularFrequency(fn string, args []runtime.Value, i int) (omega float64, ok
 
 // fluxPhasor is Σ Φₖ·Iₖ over the terms of a phasor source, through a
 // closed path or a surface.
-func fluxPhasor(env runtime.Env, fn string, src *Source, target runtime.Value) (complex128, error) {
+//
+// It also returns a bound on the phasor's numerical error (its modulus,
+// so on each part): each term's quadrature estimate and rounding times
+// the term's |I|.
+func fluxPhasor(env runtime.Env, fn string, src *Source, target runtime.Value) (complex128, float64, error) {
 	if len(src.uniform) > 0 {
-		return 0, errorf("%s: a uniform field is static, so it has no part in a phasor at a frequency; leave it out of this source", fn)
+		return 0, 0, errorf("%s: a uniform field is static, so it has no part in a phasor at a frequency; leave it out of this source", fn)
 	}
 	var sum complex128
+	var bound float64
 	for _, term := range src.terms {
 		i, err := phasorOf(fn, term.current)
 		if err != nil {
-			return 0, err
+			return 0, 0, err
 		}
 		if i == 0 {
 			continue
 		}
-		phi1, err := fluxOf(env, fn, []em.Source{term.em(1)}, em.Vec{}, target)
+		var est float64
+		phi1, err := fluxOfEst(env, fn, []em.Source{term.em(1)}, em.Vec{}, target, &est)
 		if err != nil {
-			return 0, err
+			return 0, 0, err
 		}
 		sum += complex(phi1, 0) * i
+		bound += withFieldRounding(est, phi1) * cmplx.Abs(i)
 	}
-	return sum, nil
+	return sum, bound, nil
 }
 
 // fieldPhasor is Σ Fₖ·Iₖ at one point over the terms of a phasor source,

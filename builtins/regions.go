@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"loopwise/builtins/em"
 	"loopwise/runtime"
 )
@@ -212,7 +214,27 @@ func efieldBuiltin(env runtime.Env, args []runtime.Value) (runtime.Value, error)
 		}
 		f = inducedField(v)
 	case *Region:
-		f = regionField(v)
+		// the point directly, so that the cubature's error estimate
+		// reaches the session
+		r := readArgs(fn, args)
+		x := r.point(1)
+		r.time(2) // checked as for sources; a region's ∂B/∂t does not change
+		if r.err != nil {
+			return nil, r.err
+		}
+		tol := control(env, fn, regionTol)
+		tol.Progress = nil
+		var est float64
+		tol.Est = &est
+		e, err := em.RegionE(v.R, x, tol)
+		if err != nil {
+			return nil, fieldErr(fn, err)
+		}
+		if env != nil {
+			b := withFieldRounding(est, r3.Norm(e)) // a bound on the vector's size bounds each component
+			env.NumericalError(b, b, b)
+		}
+		return fromVec(e, dimEfield), nil
 	default:
 		return nil, errorf("%s: the first argument must be a source or a region, not %s", fn, runtime.TypeName(args[0]))
 	}

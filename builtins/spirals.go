@@ -82,9 +82,15 @@ func spiralFuncs() []*runtime.Func {
 		if err := charge(env, fn, traceCost(p)); err != nil {
 			return nil, err
 		}
-		l, err := em.TraceInductance(p, w, t, control(env, fn, em.Tol{Rel: 1e-8}))
+		tol := control(env, fn, em.Tol{Rel: 1e-8})
+		var est float64
+		tol.Est = &est
+		l, err := em.TraceInductance(p, w, t, tol)
 		if err != nil {
 			return nil, fieldErr(fn, err)
+		}
+		if env != nil {
+			env.NumericalError(withFieldRounding(est, l)) // the quadratures' estimates and the closed forms' rounding
 		}
 		return runtime.Quantity{V: l, D: dimHenry}, nil
 	}))

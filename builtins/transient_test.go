@@ -34,8 +34,20 @@ func tableCols(t *testing.T, v runtime.Value) (map[string]int, [][]float64) {
 // current: the integrator runs at relative 1e-8.
 func TestTransientClosedForms(t *testing.T) {
 	s := runtime.NewSession(builtins.Standard())
+	// the table's numerical error bound must cover the actual error in
+	// every row (a case of the same rule as TestNumericalErrorBounds)
+	var numErr []float64
 	check := func(what string, rows [][]float64, col int, sign float64, want func(t float64) float64) {
 		t.Helper()
+		if numErr == nil {
+			t.Fatalf("%s: the table carries no numerical error", what)
+		}
+		for _, r := range rows {
+			if d := math.Abs(sign*r[col] - want(r[0])); d > numErr[col] {
+				t.Errorf("%s at t = %g s: error %.3g exceeds the table's numerical error bound %.3g", what, r[0], d, numErr[col])
+				break
+			}
+		}
 		peak := 0.0
 		for _, r := range rows {
 			peak = math.Max(peak, math.Abs(want(r[0])))
@@ -51,7 +63,9 @@ func TestTransientClosedForms(t *testing.T) {
 		}
 	}
 	// RL step: 12 V onto 3 ohm and 6 mH (τ = 2 ms), over 5τ
-	cols, rows := tableCols(t, eval(t, s, `transient(circuit(voltage_source("V1", "a", "0", 12 V), resistor("R1", "a", "b", 3 ohm), inductor("L1", "b", "0", 6 mH)), 10 ms, 101)`))
+	v := eval(t, s, `transient(circuit(voltage_source("V1", "a", "0", 12 V), resistor("R1", "a", "b", 3 ohm), inductor("L1", "b", "0", 6 mH)), 10 ms, 101)`)
+	numErr = v.(*builtins.Table).NumErr
+	cols, rows := tableCols(t, v)
 	check("RL step", rows, cols["I L1"], 1, func(t float64) float64 { return 4 * (1 - math.Exp(-t/2e-3)) })
 
 	// series RLC discharge, C = 100 uF charged to 50 V, L = 200 uH
@@ -75,7 +89,9 @@ func TestTransientClosedForms(t *testing.T) {
 			s1, s2 := -a+d, -a-d
 			want = func(t float64) float64 { return V0 / (L * (s1 - s2)) * (math.Exp(s1*t) - math.Exp(s2*t)) }
 		}
-		cols, rows := tableCols(t, eval(t, s, `transient(circuit(capacitor("C1", "a", "0", 100 uF, 50 V), resistor("R1", "a", "b", `+c.R+`), inductor("L1", "b", "0", 200 uH)), 3 ms, 151)`))
+		v := eval(t, s, `transient(circuit(capacitor("C1", "a", "0", 100 uF, 50 V), resistor("R1", "a", "b", `+c.R+`), inductor("L1", "b", "0", 200 uH)), 3 ms, 151)`)
+		numErr = v.(*builtins.Table).NumErr
+		cols, rows := tableCols(t, v)
 		// the current leaves the capacitor's + plate into R1: I R1 > 0
 		check(c.name, rows, cols["I R1"], 1, want)
 	}

@@ -280,9 +280,16 @@ type Table struct {
 	// runtime.Quantity.Cyc); it may be shorter than Cols.
 	Cyc  []bool
 	Rows [][]float64
+	// NumErr, when set, bounds each column's numerical error (absolute,
+	// SI units, over all rows); Show writes it under the table.
+	NumErr []float64
 }
 
 func (t *Table) Kind() string { return "a table" }
+
+// ColumnNumErr gives each column's numerical error bound (nil: none), for
+// the report.
+func (t *Table) ColumnNumErr() []float64 { return t.NumErr }
 
 // CycleColumns implements runtime.CycleColumns.
 func (t *Table) CycleColumns() []bool { return t.Cyc }
@@ -332,6 +339,19 @@ func (t *Table) Show(digits int) string {
 			cells[i+1][j] = runtime.FormatNumber(x/scales[j], digits)
 		}
 	}
+	if len(t.NumErr) == len(t.Cols) {
+		// a last row: each column's bound, in the column's unit
+		foot := make([]string, len(t.Cols))
+		for j, e := range t.NumErr {
+			if e > 0 {
+				foot[j] = "≤ " + runtime.FormatNumber(RoundUp2(e/scales[j]), 2)
+			}
+		}
+		if foot[0] == "" {
+			foot[0] = "num. error"
+		}
+		cells = append(cells, foot)
+	}
 	width := make([]int, len(t.Cols))
 	for _, row := range cells {
 		for j, c := range row {
@@ -357,6 +377,16 @@ func (t *Table) Show(digits int) string {
 		}
 	}
 	return b.String()
+}
+
+// RoundUp2 rounds a bound up to two significant digits, so that the
+// bound shown is still a bound.
+func RoundUp2(x float64) float64 {
+	if x <= 0 || math.IsInf(x, 0) || math.IsNaN(x) {
+		return x
+	}
+	p := math.Pow(10, math.Floor(math.Log10(x))-1)
+	return math.Ceil(x/p) * p
 }
 
 func (t *Table) Summary(digits int) string {

@@ -82,7 +82,10 @@ func coilQ(env runtime.Env, fn string, p em.Path, d, f, rho float64, factor func
 	if err := charge(env, fn, inductanceCost(p)); err != nil {
 		return nil, err
 	}
-	l, err := em.SelfInductance(p, d/2, control(env, fn, em.DefaultTol))
+	tol := control(env, fn, em.DefaultTol)
+	var est float64
+	tol.Est = &est
+	l, err := em.SelfInductance(p, d/2, tol)
 	if err != nil {
 		return nil, fieldErr(fn, err)
 	}
@@ -93,7 +96,10 @@ func coilQ(env runtime.Env, fn string, p em.Path, d, f, rho float64, factor func
 	lInt := VacuumPermeability * length / (8 * math.Pi)
 	l -= lInt * (1 - wire.InductanceRatio(d/2/delta))
 	rdc := rho * length / (math.Pi * d * d / 4)
-	return runtime.Num(2 * math.Pi * f * l / (rdc * factor(delta))), nil
+	// Q is proportional to L: L's bound carries over in proportion
+	q := 2 * math.Pi * f * l / (rdc * factor(delta))
+	reportNumErr(env, math.Abs(q)*withFieldRounding(est, l)/math.Abs(l))
+	return runtime.Num(q), nil
 }
 
 func wireLossFuncs() []*runtime.Func {

@@ -533,7 +533,9 @@ func (s *Session) callFunc(p ...any) (any, error) {
 		}
 	}
 	if s.depth == 0 && s.num.replay != nil {
-		return s.replayCall(f) // a replay for the numerical error (numerr.go)
+		if v, ok, err := s.replayCall(f, args); ok {
+			return v, err // a replay for the numerical error (numerr.go)
+		}
 	}
 	s.depth++
 	defer func() { s.depth-- }()
@@ -541,10 +543,10 @@ func (s *Session) callFunc(p ...any) (any, error) {
 		s.tooDeep = true
 		return nil, evalErr("calls nest deeper than %d (a function that calls itself without end?)", maxDepth)
 	}
-	if s.depth == 1 && s.unc.cur == nil {
+	if s.depth == 1 && s.unc.cur == nil && s.num.replay == nil {
 		// a direct call of the statement: recorded for the numerical error
 		k := len(s.num.calls)
-		s.num.calls = append(s.num.calls, numCall{f: f})
+		s.num.calls = append(s.num.calls, numCall{f: f, args: args})
 		prev := s.num.cur
 		s.num.cur = k
 		v, err := f.Invoke(s, args)

@@ -65,6 +65,9 @@ type MonteCarlo struct {
 	Centres, Freq []float64 // histogram: bin centres, counts
 	Normal        []float64 // counts the first-order Gaussian expects
 	Outside       int       // values beyond the histogram's span
+	// Adaptive: the trials were chosen by JCGM 101 §7.9.4; Stable: the
+	// procedure met its tolerance within MaxTrials
+	Adaptive, Stable bool
 }
 
 func (m *MonteCarlo) Kind() string { return "a Monte Carlo result" }
@@ -79,7 +82,14 @@ func (m *MonteCarlo) Summary(digits int) string {
 	if !m.Agree {
 		verdict = fmt.Sprintf("first order %s DISAGREES: its 95 %% interval [%s, %s] differs from this one by more than %s; the result is not linear enough over the inputs' spread for first order, use this interval", fo, m.q(m.Y-1.96*m.U), m.q(m.Y+1.96*m.U), m.q(m.Delta))
 	}
-	return fmt.Sprintf("Monte Carlo of %s, %d trials (seed %d): %s, 95 %% interval [%s, %s]; %s", m.Target, m.Trials, m.Seed, mu, m.q(m.Low), m.q(m.High), verdict)
+	how := ""
+	switch {
+	case m.Adaptive && m.Stable:
+		how = ", adaptive: mean, u and interval ends stable to their last digit"
+	case m.Adaptive:
+		how = fmt.Sprintf(", adaptive: NOT stable to u's last digit after %d trials, the most allowed", MaxTrials)
+	}
+	return fmt.Sprintf("Monte Carlo of %s, %d trials (seed %d%s): %s, 95 %% interval [%s, %s]; %s", m.Target, m.Trials, m.Seed, how, mu, m.q(m.Low), m.q(m.High), verdict)
 }
 
 // Show is the summary and the histogram.
@@ -123,8 +133,10 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 	if len(args) < 2 || len(args) > 3 {
 		return nil, true, whole("monte_carlo takes an expression and a number of trials (and a seed): monte_carlo(M, 10000)")
 	}
-	// the trial count and seed are plain numbers
+	// the trial count and seed are plain numbers; the count may be
+	// "adaptive"
 	nums := make([]float64, len(args)-1)
+	adaptive := false
 	for i, a := range args[1:] {
 		sub := call.sub(a)
 		p, err := s.compile(sub, sub.Expr, sub.ExprOff, nil, nil)
@@ -134,6 +146,14 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 		v, err := s.run(p)
 		if err != nil {
 			return nil, true, s.stopped(sub, err)
+		}
+		if str, ok := v.(string); ok && i == 0 {
+			if str != "adaptive" {
+				return nil, true, sub.Errorf(sub.ExprOff, max(1, utf8.RuneCountInString(a.text)), "the number of trials is a whole number or \"adaptive\", not %q", str)
+			}
+			adaptive = true
+			nums[i] = adaptiveBatch
+			continue
 		}
 		q, ok := v.(Quantity)
 		if !ok || !q.D.IsZero() || q.V != math.Trunc(q.V) || q.V < 0 {
@@ -168,17 +188,75 @@ func (s *Session) monteCarloOf(st *lang.Statement) (*Result, bool, error) {
 		return nil, true, err
 	}
 	u := s.combined(res.Contributions)[0]
-	ys, err := s.trials(target, trials, seed)
+	var ys []float64
+	stable := true
+	if adaptive {
+		ys, stable, err = s.adaptiveTrials(target, seed)
+	} else {
+		ys, err = s.trials(target, 0, trials, seed)
+	}
 	if err != nil {
 		return nil, true, s.stopped(inner, err)
 	}
 	mc := summarise(ys, q, u)
-	mc.Target, mc.Trials, mc.Seed = strings.TrimSpace(inner.Expr), trials, seed
+	mc.Target, mc.Trials, mc.Seed = strings.TrimSpace(inner.Expr), len(ys), seed
+	mc.Adaptive, mc.Stable = adaptive, stable
 	return &Result{Stmt: st, Value: mc}, true, nil
 }
 
-// trials runs the chain and the target once per trial.
-func (s *Session) trials(target *program, n int, seed uint64) ([]float64, error) {
+// adaptiveBatch is the batch size of the adaptive procedure: M =
+// max(J, 10⁴) with J = 100/(1 − p) = 2000 for the 95 % interval (JCGM 101
+// §7.9.4 a)).
+const adaptiveBatch = 10_000
+
+// adaptiveTrials is JCGM 101 §7.9.4: batches of adaptiveBatch trials until
+// twice the standard deviation of each of the batch means of y, u(y) and
+// the interval's ends (the standard deviation of the h batch values over
+// √h) is within δ, half a unit in the last of the two significant digits
+// of u(y) from all trials so far (§7.9.2). It stops at MaxTrials and then
+// reports stable false.
+func (s *Session) adaptiveTrials(target *program, seed uint64) (ys []float64, stable bool, err error) {
+	var means, sds, lows, highs []float64
+	for h := 0; (h+1)*adaptiveBatch <= MaxTrials; h++ {
+		batch, err := s.trials(target, h*adaptiveBatch, adaptiveBatch, seed)
+		if err != nil {
+			return nil, false, err
+		}
+		ys = append(ys, batch...)
+		st := summarise(batch, Quantity{}, 0)
+		means, sds = append(means, st.Mean), append(sds, st.SD)
+		lows, highs = append(lows, st.Low), append(highs, st.High)
+		if h == 0 {
+			continue
+		}
+		delta := halfLastDigit(sdOf(ys))
+		worst := 0.0
+		for _, v := range [][]float64{means, sds, lows, highs} {
+			worst = math.Max(worst, sdOf(v)/math.Sqrt(float64(len(v))))
+		}
+		if 2*worst <= delta {
+			return ys, true, nil
+		}
+	}
+	return ys, false, nil
+}
+
+// sdOf is the sample standard deviation of x.
+func sdOf(x []float64) float64 {
+	var mu, ss float64
+	for _, v := range x {
+		mu += v
+	}
+	mu /= float64(len(x))
+	for _, v := range x {
+		ss += (v - mu) * (v - mu)
+	}
+	return math.Sqrt(ss / float64(len(x)-1))
+}
+
+// trials runs the chain and the target once per trial, for the trials
+// first to first+n-1 (each seeded by its number).
+func (s *Session) trials(target *program, first, n int, seed uint64) ([]float64, error) {
 	k := len(s.unc.inputs)
 	z, tmp := make([]float64, k), make([]float64, k)
 	ys := make([]float64, n)
@@ -187,7 +265,8 @@ func (s *Session) trials(target *program, n int, seed uint64) ([]float64, error)
 		return nil, err
 	}
 	defer func() { s.unc.cur, s.unc.env, s.unc.z = nil, nil, nil }()
-	for t := range n {
+	for k := range n {
+		t := first + k
 		rng := rand.New(rand.NewPCG(seed, uint64(t)))
 		for i := range z {
 			z[i] = rng.NormFloat64()
@@ -219,7 +298,7 @@ func (s *Session) trials(target *program, n int, seed uint64) ([]float64, error)
 		if !ok {
 			return nil, fmt.Errorf("trial %d gave %s", t+1, TypeName(v))
 		}
-		ys[t] = q.V
+		ys[k] = q.V
 	}
 	return ys, nil
 }
@@ -290,18 +369,7 @@ func endSpread(ys []float64) float64 {
 		los = append(los, b[max(0, int(math.Round(0.025*float64(m)))-1)])
 		his = append(his, b[min(m-1, int(math.Round(0.975*float64(m)))-1)])
 	}
-	sd := func(x []float64) float64 {
-		var mu, ss float64
-		for _, v := range x {
-			mu += v
-		}
-		mu /= float64(len(x))
-		for _, v := range x {
-			ss += (v - mu) * (v - mu)
-		}
-		return math.Sqrt(ss / float64(len(x)-1))
-	}
-	return math.Max(sd(los), sd(his)) / math.Sqrt(h)
+	return math.Max(sdOf(los), sdOf(his)) / math.Sqrt(h)
 }
 
 // halfLastDigit is δ of JCGM 101 §7.9.2: half a unit in the last of the

@@ -2,6 +2,7 @@ package runtime
 
 import (
 	"math"
+	"reflect"
 	"sort"
 )
 
@@ -24,9 +25,10 @@ import (
 
 // numCall is one direct call of the running statement.
 type numCall struct {
-	f   *Func
-	val Value
-	err []float64 // per component; nil: no estimate reported
+	f    *Func
+	args []Value
+	val  Value
+	err  []float64 // per component; nil: no estimate reported
 }
 
 // numState is the session's bookkeeping for numerical error.
@@ -179,16 +181,23 @@ func (s *Session) numericalBound(p *program, v Value) ([]float64, bool) {
 }
 
 // replayCall answers a direct call during a replay: the recorded value,
-// moved when it is the call being moved.
-func (s *Session) replayCall(f *Func) (Value, error) {
+// moved when it is the call being moved, when the call's arguments are
+// those recorded. A call whose arguments moved (sqrt of a moved value,
+// abs of a moved call) is computed again: ok false tells the caller to
+// call it. The count of direct calls advances either way.
+func (s *Session) replayCall(f *Func, args []Value) (v Value, ok bool, err error) {
 	rp := s.num.replay
 	k := rp.next
 	rp.next++
 	if k >= len(s.num.calls) || s.num.calls[k].f != f {
 		rp.mismatch = true
-		return nil, evalErr("the replay took another path")
+		return nil, true, evalErr("the replay took another path")
 	}
-	v := s.num.calls[k].val
+	c := s.num.calls[k]
+	if k != rp.move && !sameValues(args, c.args) {
+		return nil, false, nil
+	}
+	v = c.val
 	if k == rp.move {
 		for i, d := range rp.delta {
 			if d != 0 {
@@ -196,7 +205,30 @@ func (s *Session) replayCall(f *Func) (Value, error) {
 			}
 		}
 	}
-	return v, nil
+	return v, true, nil
+}
+
+// sameValues reports whether two argument lists are the same values: by
+// value for numbers, vectors and other comparable values, and otherwise
+// (values holding slices or maps) never, so that such a call is
+// computed again rather than answered wrongly.
+func sameValues(a, b []Value) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] == nil || b[i] == nil {
+			if a[i] != b[i] {
+				return false
+			}
+			continue
+		}
+		ta, tb := reflect.TypeOf(a[i]), reflect.TypeOf(b[i])
+		if ta != tb || !ta.Comparable() || a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // setNumErr keeps the bound a name carries (nil: none).

@@ -19,6 +19,9 @@ type Sensitivity struct {
 	Y      Quantity // its estimate
 	U      float64  // its combined standard uncertainty
 	Rows   []Contribution
+	// Corr is the correlation terms' part of u(y)², Σ_{i≠j} c_i·u_i·c_j·u_j·r_ij
+	// (GUM §5.2.2, eq. (16)); 0 for independent inputs.
+	Corr float64
 }
 
 func (t *Sensitivity) Kind() string { return "a sensitivity table" }
@@ -40,6 +43,11 @@ func (t *Sensitivity) Show(digits int) string {
 			c = Format(Quantity{V: r.CU[0] / in.U, D: t.Y.D.Div(in.Value.D)}, min(digits, 4))
 		}
 		cells = append(cells, []string{in.Label, est, c, Format(Quantity{V: r.CU[0], D: t.Y.D}, min(digits, 3)), t.share(r)})
+	}
+	if t.Corr != 0 && t.U > 0 {
+		// the correlation terms' share, so that the shares add up to
+		// 100 %; negative where correlation lowers u(y)
+		cells = append(cells, []string{"(correlations)", "", "", "", FormatNumber(100*t.Corr/(t.U*t.U), 3) + " %"})
 	}
 	width := make([]int, len(cells[0]))
 	for _, row := range cells {
@@ -131,7 +139,14 @@ func (s *Session) sensitivityOf(st *lang.Statement) (*Result, bool, error) {
 	if math.IsNaN(u) {
 		u = 0
 	}
-	t := &Sensitivity{Target: strings.TrimSpace(inner.Expr), Y: q, U: u, Rows: res.Contributions}
+	var own float64
+	for _, c := range res.Contributions {
+		own += c.CU[0] * c.CU[0]
+	}
+	t := &Sensitivity{Target: strings.TrimSpace(inner.Expr), Y: q, U: u, Rows: res.Contributions, Corr: u*u - own}
+	if math.Abs(t.Corr) <= 1e-12*own {
+		t.Corr = 0 // rounding of independent inputs' sum
+	}
 	return &Result{Stmt: st, Value: t}, true, nil
 }
 
@@ -163,8 +178,8 @@ func sessionFuncs() []*Func {
 		{Name: "sensitivity", Params: []string{"expression"}, MinArgs: 1, MaxArgs: 1, Call: whole("sensitivity"), Help: &Help{
 			Family:    "uncertainty",
 			Signature: "sensitivity(expression: a number that reads uncertain values) -> table",
-			Summary:   "Which tolerance matters: for each uncertain input (a value entered as 12 mm ± 0.1 mm) the expression reads, directly or through names, paths and functions, its estimate ± u, the sensitivity coefficient c = ∂y/∂x, the contribution c·u and its share of the variance (c·u)²/u(y)². Write it as a statement of its own.",
-			Method:    "Every statement that reads uncertain inputs is also evaluated with each input moved to x − u and x + u, the others at their estimates; c·u = (y(x + u) − y(x − u))/2, a central difference of the actual computation (exact for a result linear or quadratic in x, otherwise within (u²/6)·|y‴/y′| of the derivative at x), and u(y) = √Σ(c·u)². Inputs are independent; one input read twice is one input, so x − x has no uncertainty. Each input costs two more evaluations of every statement that reads it.",
+			Summary:   "Which tolerance matters: for each uncertain input (a value entered as 12 mm ± 0.1 mm) the expression reads, directly or through names, paths and functions, its estimate ± u, the sensitivity coefficient c = ∂y/∂x, the contribution c·u and its share of the variance (c·u)²/u(y)²; with correlated inputs (correlate) a last row gives the correlation terms' share, so that the shares add up to 100 %. Write it as a statement of its own.",
+			Method:    "Every statement that reads uncertain inputs is also evaluated with each input moved to x − u and x + u, the others at their estimates; c·u = (y(x + u) − y(x − u))/2, a central difference of the actual computation (exact for a result linear or quadratic in x, otherwise within (u²/6)·|y‴/y′| of the derivative at x), and u(y) = √Σ(c·u)² for independent inputs (with correlate, plus the terms 2·c_i·u_i·c_j·u_j·r_ij). One input read twice is one input, so x − x has no uncertainty. Each input costs two more evaluations of every statement that reads it.",
 			Example:   "I = 2 A ± 2 %\nR = 5 ohm ± 0.05 ohm\nP = I^2 * R\nsensitivity(P)",
 			Reference: "JCGM 100:2008 (GUM) §5.1.2 eq. (10), §5.1.3; central differences with the step u as in J. Kragten, Analyst 119 (1994) 2161",
 		}},
@@ -178,10 +193,10 @@ func sessionFuncs() []*Func {
 		}},
 		{Name: "monte_carlo", Params: []string{"expression", "trials", "seed"}, MinArgs: 2, MaxArgs: 3, Call: whole("monte_carlo"), Help: &Help{
 			Family:    "uncertainty",
-			Signature: "monte_carlo(expression: a number that reads uncertain values, trials: 1000 to 1000000[, seed: whole number, default 1]) -> table",
+			Signature: "monte_carlo(expression: a number that reads uncertain values, trials: 1000 to 1000000 or \"adaptive\"[, seed: whole number, default 1]) -> table",
 			Summary:   "The distribution of a result when the inputs are drawn at random: its mean ± standard deviation, the 95 % coverage interval, and whether the first-order result (y ± u) agrees with it — where it does not, the result is too far from linear over the inputs' spread and the Monte Carlo interval is the one to use. The table is a histogram of the middle 99.8 % (y, count, and the count the first-order Gaussian expects): plot(table, \"y\", \"count\", \"normal\") draws it. Write it as a statement of its own.",
-			Method:    "Each input gets the Gaussian distribution of its estimate and standard uncertainty; a trial draws all of them (PCG generator seeded by seed and the trial number, so replay is exact) and re-runs the assignments made since the first uncertain input, then the expression. The interval is the probabilistically symmetric one from the sorted results. First order agrees when both ends of y ± 1.96u are within the tolerance of the Monte Carlo ends: half a unit in u's second significant digit, or twice the ends' own Monte Carlo standard error (from ten batches) when the trials cannot resolve that. Every trial costs a re-run of those statements: the work budget applies.",
-			Example:   "x = 1 ± 0.5\nmonte_carlo(exp(x), 2000)",
+			Method:    "Each input gets the Gaussian distribution of its estimate and standard uncertainty; a trial draws all of them (PCG generator seeded by seed and the trial number, so replay is exact) and re-runs the assignments made since the first uncertain input, then the expression. The interval is the probabilistically symmetric one from the sorted results. First order agrees when both ends of y ± 1.96u are within the tolerance of the Monte Carlo ends: half a unit in u's second significant digit, or twice the ends' own Monte Carlo standard error (from ten batches) when the trials cannot resolve that. With \"adaptive\", batches of 10⁴ trials run until twice the standard deviation of the batch values of the mean, u and both interval ends (over √h for h batches) is within half a unit in u's second significant digit, at least two batches and at most 10⁶ trials (the result says whether it got there). Every trial costs a re-run of those statements: the work budget applies.",
+			Example:   "x = 1 ± 0.5\nmonte_carlo(exp(x), 2000)\nmonte_carlo(exp(x), \"adaptive\")",
 			Reference: "JCGM 101:2008 (GUM Supplement 1) §6.4.7, §7.7, §7.9, §8",
 		}},
 	}

@@ -180,6 +180,25 @@ func TestSensitivityTable(t *testing.T) {
 	}
 }
 
+// TestSensitivityCorrelated: y = V/I with r(V, I) = 0.5: u(y)² =
+// (c_V u_V)² + (c_I u_I)² + 2 c_V u_V c_I u_I r (GUM §5.2.2, eq. (16)), by
+// hand 0.25 + 0.0625 − 0.125 = 0.1875 Ω²; the correlation row's share is
+// −0.125/0.1875 = −66.7 %, and with the inputs' 133 % and 33.3 % the
+// shares add up to 100 %. Tolerance 3e-6 relative: V/I is not linear in
+// I, and the central difference's (u²/6)·|y‴/y′| = (u_I/I)² = 1e-6 of c_I.
+func TestSensitivityCorrelated(t *testing.T) {
+	r := uncRun(t, "V = 5 V ± 0.01 V", "I = 20 mA ± 0.02 mA", "correlate(V, I, 0.5)", "sensitivity(V / I)")
+	tab := r.Value.(*runtime.Sensitivity)
+	if math.Abs(tab.U*tab.U/0.1875-1) > 3e-6 || math.Abs(tab.Corr/-0.125-1) > 3e-6 {
+		t.Errorf("u² = %g Ω² (want 0.1875), correlation terms %g Ω² (want −0.125)", tab.U*tab.U, tab.Corr)
+	}
+	for _, want := range []string{"133 %", "33.3 %", "(correlations)", "-66.7 %"} {
+		if !strings.Contains(r.Text, want) {
+			t.Errorf("table lacks %q:\n%s", want, r.Text)
+		}
+	}
+}
+
 // TestCentralDifferenceError: for y = x³ the central difference over
 // x ± u gives c·u = 3x²u + u³, the derivative's 3x²u plus exactly the
 // error term (u²/6)·y‴·u the help states (Taylor's theorem; y‴ = 6).
@@ -189,6 +208,30 @@ func TestCentralDifferenceError(t *testing.T) {
 	want := 3*4*0.1 + 0.001
 	if got := r.Contributions[0].CU[0]; math.Abs(got/want-1) > 1e-12 {
 		t.Errorf("c·u = %.15g, want 3x²u + u³ = %.15g", got, want)
+	}
+}
+
+// TestMonteCarloAdaptive: the adaptive procedure of JCGM 101:2008 §7.9.4
+// on y = x with x Gaussian, u = 2.0 (δ = 0.05, half a unit in u's second
+// digit, §7.9.2): it stops at a whole number of batches of 10⁴, at least
+// two, says it is stable, and then the mean, standard deviation and
+// interval ends are within 2δ of the exact Gaussian's 0, 2 and ±1.96·2
+// (the stopping rule makes twice each one's standard deviation ≤ δ, so 2δ
+// is four of them). The same run replayed gives the same trial count.
+func TestMonteCarloAdaptive(t *testing.T) {
+	r := uncRun(t, "x = 0 ± 2", "monte_carlo(x, \"adaptive\")")
+	mc := r.Value.(*runtime.MonteCarlo)
+	d := 0.05
+	if mc.Trials%10000 != 0 || mc.Trials < 20000 || !mc.Stable || !strings.Contains(r.Text, "adaptive") {
+		t.Fatalf("trials %d, stable %v:\n%s", mc.Trials, mc.Stable, r.Text)
+	}
+	t.Logf("stopped after %d trials", mc.Trials)
+	if math.Abs(mc.Mean) > 2*d || math.Abs(mc.SD-2) > 2*d || math.Abs(mc.Low+1.96*2) > 2*d || math.Abs(mc.High-1.96*2) > 2*d {
+		t.Errorf("mean %g, sd %g, interval [%g, %g]", mc.Mean, mc.SD, mc.Low, mc.High)
+	}
+	r2 := uncRun(t, "x = 0 ± 2", "monte_carlo(x, \"adaptive\")")
+	if r2.Value.(*runtime.MonteCarlo).Trials != mc.Trials {
+		t.Errorf("replay stopped after %d trials, first run %d", r2.Value.(*runtime.MonteCarlo).Trials, mc.Trials)
 	}
 }
 

@@ -36,3 +36,13 @@ func logAVX2(dst, src *float64, n int)
 
 //go:noescape
 func logAVX512(dst, src *float64, n int)
+
+// log1pAVX2 and log1pAVX512 set dst[i] = log1p(src[i]) (src[i] ≥ 0) by
+// the log1p the kernels use, for n values (a multiple of 4, respectively
+// 8), so that it can be tested alone.
+//
+//go:noescape
+func log1pAVX2(dst, src *float64, n int)
+
+//go:noescape
+func log1pAVX512(dst, src *float64, n int)

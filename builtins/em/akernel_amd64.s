@@ -19,6 +19,16 @@
 // Muller, Elementary Functions, 3rd ed., Birkhäuser, 2016, ch. 11 (range
 // reduction). Its error is below 1 ulp in fdlibm; TestVectorLog measures
 // it against math.Log.
+//
+// The kernels take log1p(x), x = 2L/(R1 + R2 − L), not the logarithm of
+// the ratio 1 + x: far from a segment x ≈ L/R, and the rounding of 1 + x
+// would cost ε/x of the result. Their log1p is the logarithm of u = 1 + x
+// rounded, with f = m − 1 replaced by x itself where u < √2 (there k = 0
+// and m = u, so f = x exactly, and the rest of the method is that of
+// fdlibm's s_log1p.c for k = 0): below x = √2 − 1 the error is the
+// logarithm's. Above, the rounding of u adds at most 2^-53/(u ln u) ≤
+// 2.1·2^-53 of the result, which falls as x grows. TestVectorLog1p
+// measures it against math.Log1p.
 
 #include "textflag.h"
 
@@ -190,8 +200,11 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 
 // LOG4: Y3 = ln Y0 (AVX2 with FMA). Clobbers Y1, Y2, Y4–Y8.
 // Subnormal x is scaled by 2^52 first; +Inf and NaN give themselves,
-// x < 0 NaN and ±0 −Inf, as math.Log.
-#define LOG4 \
+// x < 0 NaN and ±0 −Inf, as math.Log. LOG4A reduces (k in Y3, f = m − 1
+// in Y4), LOG4B finishes.
+#define LOG4 LOG4A; LOG4B
+
+#define LOG4A \
 	VCMPPD      $0x11, minnorm<>(SB), Y0, Y1; \
 	VMULPD      two52<>(SB), Y0, Y2; \
 	VBLENDVPD   Y1, Y2, Y0, Y2; \
@@ -207,7 +220,9 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 	VBLENDVPD   Y5, Y6, Y4, Y4; \
 	VANDPD      one<>(SB), Y5, Y5; \
 	VADDPD      Y5, Y3, Y3; \
-	VSUBPD      one<>(SB), Y4, Y4; \
+	VSUBPD      one<>(SB), Y4, Y4
+
+#define LOG4B \
 	VADDPD      two<>(SB), Y4, Y5; \
 	VDIVPD      Y5, Y4, Y5; \
 	VMULPD      Y5, Y5, Y6; \
@@ -242,14 +257,19 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 // LOG8: Z15 = ln Z0 (AVX-512F). Clobbers Z1–Z5, Z9, Z11–Z14, K5.
 // VGETEXPPD/VGETMANTPD take subnormals, +Inf and NaN as they are;
 // VGETMANTPD gives NaN for x < 0 ($8: mantissa in [1, 2), NaN if
-// negative); ±0 is set to −Inf at the end, as math.Log.
-#define LOG8 \
+// negative); ±0 is set to −Inf at the end, as math.Log. LOG8A reduces
+// (k in Z1, f = m − 1 in Z3), LOG8B finishes.
+#define LOG8 LOG8A; LOG8B
+
+#define LOG8A \
 	VGETEXPPD        Z0, Z1; \
 	VGETMANTPD       $8, Z0, Z2; \
 	VCMPPD.BCST      $0x1d, sqrt2<>(SB), Z2, K5; \
 	VMULPD.BCST      half<>(SB), Z2, K5, Z2; \
 	VADDPD.BCST      one<>(SB), Z1, K5, Z1; \
-	VSUBPD.BCST      one<>(SB), Z2, Z3; \
+	VSUBPD.BCST      one<>(SB), Z2, Z3
+
+#define LOG8B \
 	VADDPD.BCST      two<>(SB), Z3, Z4; \
 	VDIVPD           Z4, Z3, Z4; \
 	VMULPD           Z4, Z4, Z5; \
@@ -277,6 +297,26 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 	VCMPPD           $0x00, Z14, Z0, K5; \
 	VBROADCASTSD     neginf<>(SB), K5, Z15
 
+// LOG1P4: Y3 = log1p(Y0) for Y0 ≥ 0 (AVX2 with FMA), as described at the
+// top. Clobbers Y0 (1 + x), Y1, Y2, Y4–Y8 (x is kept in Y7, which LOG4A
+// leaves alone).
+#define LOG1P4 \
+	VMOVAPD   Y0, Y7; \
+	VADDPD    one<>(SB), Y0, Y0; \
+	LOG4A; \
+	VCMPPD    $0x11, sqrt2<>(SB), Y0, Y5; \
+	VBLENDVPD Y5, Y7, Y4, Y4; \
+	LOG4B
+
+// LOG1P8: Z15 = log1p(Z16) for Z16 ≥ 0 (AVX-512F), as described at the
+// top. Sets Z0 to 1 + x; clobbers Z1–Z5, Z9, Z11–Z14, K5, K6.
+#define LOG1P8 \
+	VADDPD.BCST      one<>(SB), Z16, Z0; \
+	LOG8A; \
+	VCMPPD.BCST      $0x11, sqrt2<>(SB), Z0, K6; \
+	VMOVAPD          Z16, K6, Z3; \
+	LOG8B
+
 // The rows of a block (akernel.go, aBlocks), 8 lanes of 8 bytes: ax 0,
 // ay 64, az 128, bx 192, by 256, bz 320, ex 384, ey 448, ez 512, l 576,
 // ki (μ0/4π·I) 640; a block is 704 bytes.
@@ -284,9 +324,10 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 // PRE4: for the four segments at SI (half a block) and the lane numbers
 // in Y0, with x, y, z in Y13–Y15 and lo, hi at 0(SP), 32(SP): the
 // near-line mask (bits in BX), the mask of lanes to add in Y9 (in range,
-// not near the line), and in Y0 the argument of the logarithm,
-// q = (R1 + R2 + L)²/(2 t), t = R1R2 + r1·r2 (when r1·r2 < 0 as
-// L²|r1 × ê|²/(R1R2 − r1·r2), as segmentsAScalar).
+// not near the line), and in Y0 the argument of log1p,
+// x = L(R1 + R2 + L)/t, t = R1R2 + r1·r2 (when r1·r2 < 0 as
+// L²|r1 × ê|²/(R1R2 − r1·r2), as segmentsAScalar: x is then
+// (R1 + R2 + L)(R1R2 − r1·r2)/(L|r1 × ê|²)).
 #define PRE4 \
 	VCMPPD    $0x1d, 0(SP), Y0, Y1; \
 	VCMPPD    $0x11, 32(SP), Y0, Y9; \
@@ -343,23 +384,20 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 	VMOVMSKPD Y2, BX; \
 	VANDNPD   Y9, Y1, Y9; \
 	VMULPD    Y7, Y6, Y6; \
-	VADDPD    576(SI), Y0, Y0; \
-	VMULPD    Y0, Y0, Y0; \
+	VMOVUPD   576(SI), Y5; \
+	VADDPD    Y5, Y0, Y0; \
 	VXORPD    Y1, Y1, Y1; \
 	VCMPPD    $0x1d, Y1, Y3, Y1; \
 	VSUBPD    Y3, Y6, Y2; \
 	VMULPD    Y2, Y0, Y2; \
-	VMOVUPD   576(SI), Y5; \
-	VMULPD    Y5, Y5, Y5; \
+	VMULPD    Y5, Y0, Y0; \
 	VMULPD    Y4, Y5, Y5; \
-	VADDPD    Y5, Y5, Y5; \
 	VADDPD    Y3, Y6, Y7; \
-	VADDPD    Y7, Y7, Y7; \
 	VBLENDVPD Y1, Y0, Y2, Y2; \
 	VBLENDVPD Y1, Y7, Y5, Y5; \
 	VDIVPD    Y5, Y2, Y0
 
-// POST4: w = ki·ln q (Y3) added, times ê, to the sums Y10–Y12 in the
+// POST4: w = ki·log1p x (Y3) added, times ê, to the sums Y10–Y12 in the
 // lanes of Y9.
 #define POST4 \
 	VMULPD      640(SI), Y3, Y3; \
@@ -375,7 +413,7 @@ GLOBL iota<>(SB), RODATA|NOPTR, $64
 	VUNPCKHPD    X0, X0, X1; \
 	VADDSD       X1, X0, X0
 
-// The AVX-512 kernel does PRE4, LOG4 and POST4 on eight lanes, with masks
+// The AVX-512 kernel does PRE4, LOG1P4 and POST4 on eight lanes, with masks
 // in K registers: K1 the lanes in range, K2 those near their line, K3
 // those to add. Constant registers: x, y, z Z31–Z29, lo Z28, hi Z27, the
 // lane numbers Z26, 8 in Z25, the sums Z22–Z24, 0 in Z21.
@@ -430,6 +468,46 @@ log8done:
 	VZEROUPPER
 	RET
 
+// func log1pAVX2(dst, src *float64, n int)
+TEXT ·log1pAVX2(SB), NOSPLIT, $0-24
+	MOVQ dst+0(FP), DI
+	MOVQ src+8(FP), SI
+	MOVQ n+16(FP), CX
+	XORQ AX, AX
+
+log1p4loop:
+	CMPQ    AX, CX
+	JGE     log1p4done
+	VMOVUPD (SI)(AX*8), Y0
+	LOG1P4
+	VMOVUPD Y3, (DI)(AX*8)
+	ADDQ    $4, AX
+	JMP     log1p4loop
+
+log1p4done:
+	VZEROUPPER
+	RET
+
+// func log1pAVX512(dst, src *float64, n int)
+TEXT ·log1pAVX512(SB), NOSPLIT, $0-24
+	MOVQ dst+0(FP), DI
+	MOVQ src+8(FP), SI
+	MOVQ n+16(FP), CX
+	XORQ AX, AX
+
+log1p8loop:
+	CMPQ    AX, CX
+	JGE     log1p8done
+	VMOVUPD (SI)(AX*8), Z16
+	LOG1P8
+	VMOVUPD Z15, (DI)(AX*8)
+	ADDQ    $8, AX
+	JMP     log1p8loop
+
+log1p8done:
+	VZEROUPPER
+	RET
+
 // func aKernelAVX2(p *float64, nb int, lo, hi, first, x, y, z float64) (sx, sy, sz float64, done int, flags uint64)
 TEXT ·aKernelAVX2(SB), NOSPLIT, $96-104
 	MOVQ         p+0(FP), DI
@@ -456,14 +534,14 @@ k4loop:
 	MOVQ    DI, SI
 	VMOVUPD 64(SP), Y0
 	PRE4
-	LOG4
+	LOG1P4
 	POST4
 	MOVQ    BX, R8
 	LEAQ    32(DI), SI
 	VMOVUPD 64(SP), Y0
 	VADDPD  four<>(SB), Y0, Y0
 	PRE4
-	LOG4
+	LOG1P4
 	POST4
 	SHLQ    $4, BX
 	ORQ     BX, R8
@@ -566,7 +644,7 @@ k8loop:
 	VCMPPD      $0x12, Z15, Z13, K1, K2
 	KANDNW      K1, K2, K3
 
-	// q = (R1 + R2 + L)²/(2t)
+	// x = L(R1 + R2 + L)/t
 	VMULPD  Z12, Z11, Z15
 	VMULPD  Z3, Z0, Z16
 	VMULPD  Z4, Z1, Z17
@@ -574,20 +652,17 @@ k8loop:
 	VMULPD  Z5, Z2, Z17
 	VADDPD  Z17, Z16, Z16
 	VADDPD  Z9, Z14, Z14
-	VMULPD  Z14, Z14, Z17
+	VMULPD  Z9, Z14, Z17
 	VCMPPD  $0x1d, Z21, Z16, K4
 	VSUBPD  Z16, Z15, Z18
-	VMULPD  Z18, Z17, Z18
-	VMULPD  Z9, Z9, Z19
-	VMULPD  Z13, Z19, Z19
-	VADDPD  Z19, Z19, Z19
+	VMULPD  Z18, Z14, Z18
+	VMULPD  Z13, Z9, Z19
 	VADDPD  Z16, Z15, Z20
-	VADDPD  Z20, Z20, Z20
 	VMOVAPD Z17, K4, Z18
 	VMOVAPD Z20, K4, Z19
-	VDIVPD  Z19, Z18, Z0
+	VDIVPD  Z19, Z18, Z16
 
-	LOG8
+	LOG1P8
 
 	VMULPD      Z10, Z15, Z15
 	VFMADD231PD Z6, Z15, K3, Z22

@@ -35,11 +35,11 @@ func forAKernels(t *testing.T, f func(t *testing.T, k *aKernel)) {
 }
 
 // akTermSum is Σ|terms| of segmentsA at x: Σ |I|·μ0/4π·(1 + |ln q|) over
-// the segments not skipped, q the argument of the logarithm (|SegmentA| =
-// μ0/4π·|ln q|). The kernels compute R1, R2, r1·r2, |r1 × ê|² and so t
-// with the same operations as the scalar loop; they differ in forming q
-// (one division instead of two: a few ε relative in q, a few ε absolute in
-// ln q), in the logarithm (≤ 2 ulp, TestVectorLog), in FMA for w·ê, and
+// the segments not skipped, q = 1 + x the ratio whose logarithm is taken
+// (|SegmentA| = μ0/4π·|ln q|). The kernels compute R1, R2, r1·r2,
+// |r1 × ê|² and so t with the same operations as the scalar loop; they
+// differ in forming x (one division instead of two: a few ε relative in
+// x, no more in log1p x), in log1p (≤ 4 ulp, TestVectorLog1p), in FMA for w·ê, and
 // in the order of summation (lanes apart, then together: at most n ε of
 // the sum of |terms| for n terms).
 func akTermSum(c *compiledSources, x Vec, skip []bool) float64 {

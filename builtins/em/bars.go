@@ -109,11 +109,12 @@ func arcSelfGMD(p Prim, g float64, tol Tol) (float64, error) {
 	}
 	var sum float64
 	for i := 0; i+1 < len(pts); i++ {
-		v, _, err := Integrate(kern, pts[i], pts[i+1], tol.with(tol.Rel, tol.Rel*R*1e-3))
+		v, e, err := Integrate(kern, pts[i], pts[i+1], tol.with(tol.Rel, tol.Rel*R*1e-3))
 		if err = loose(err); err != nil {
 			return 0, err
 		}
 		sum += v
+		tol.addEst(k0 * e)
 	}
 	return k0 * sum, nil
 }
@@ -151,16 +152,27 @@ func pairNeumann(p, q Prim, tol Tol) (float64, error) {
 		}
 		return r3.Dot(a, p.Tangent(t))
 	}
+	// innerMax is the largest error estimate of an inner integral (arcs):
+	// the inner errors add at most innerMax·(length of the parameter
+	// range) to the outer integral
+	var innerMax float64
 	if q.Kind == Arc {
 		inner := tol.with(tol.Rel*0.1, 0)
+		inner.Est = nil
 		f = func(t float64) float64 {
 			if ferr != nil {
 				return 0
 			}
-			v, err := arcAlong(q, p.Point(t), p.Tangent(t), inner)
+			var e float64
+			in := inner
+			if tol.Est != nil {
+				in.Est = &e
+			}
+			v, err := arcAlong(q, p.Point(t), p.Tangent(t), in)
 			if err != nil {
 				ferr = err
 			}
+			innerMax = math.Max(innerMax, e)
 			return v
 		}
 	}
@@ -187,7 +199,7 @@ func pairNeumann(p, q Prim, tol Tol) (float64, error) {
 	abs := tol.Rel * k0 * math.Min(p.Length(), q.Length()) / float64(len(br))
 	var sum float64
 	for k := 0; k+1 < len(br); k++ {
-		v, _, err := Integrate(f, br[k], br[k+1], tol.with(tol.Rel, abs))
+		v, e, err := Integrate(f, br[k], br[k+1], tol.with(tol.Rel, abs))
 		if ferr != nil {
 			return 0, ferr
 		}
@@ -199,7 +211,10 @@ func pairNeumann(p, q Prim, tol Tol) (float64, error) {
 			return 0, err
 		}
 		sum += v
+		tol.addEst(e)
 	}
+	// the parameter runs over [0, 1]; the closed-form potentials' rounding
+	tol.addEst(innerMax + closedFormRounding*sum)
 	return sum, nil
 }
 
@@ -260,8 +275,13 @@ func TraceInductance(path Path, w, t float64, tol Tol) (float64, error) {
 	rowTol.Progress = progress
 	// row i holds piece i's self term and its mutual terms with the pieces
 	// after it; sumRows adds the rows in a fixed order
-	return sumRows(n, rowTol, func() func(i int) (float64, error) {
-		return func(i int) (float64, error) { return traceRow(path.Prims, i, w, t, g, tol) }
+	tol.Est = nil // each row adds to its own slot (sumRows)
+	return sumRows(n, rowTol, func() func(i int, est *float64) (float64, error) {
+		return func(i int, est *float64) (float64, error) {
+			rt := tol
+			rt.Est = est
+			return traceRow(path.Prims, i, w, t, g, rt)
+		}
 	})
 }
 
@@ -278,14 +298,20 @@ func traceRow(prims []Prim, i int, w, t, g float64, tol Tol) (float64, error) {
 			return 0, err
 		}
 	}
-	var mut float64
+	tol.addEst(closedFormRounding * self)
+	// the mutual terms count twice, and so do their estimates
+	var mut, mutEst float64
+	mt := tol
+	if tol.Est != nil {
+		mt.Est = &mutEst
+	}
 	for j := i + 1; j < len(prims); j++ {
 		if j%64 == 0 {
 			if err := tol.stopped(); err != nil {
 				return 0, err
 			}
 		}
-		m, err := pairMutual(p, prims[j], tol)
+		m, err := pairMutual(p, prims[j], mt)
 		if errors.Is(err, ErrOnWire) {
 			return 0, fmt.Errorf("pieces %d and %d of the trace cross or overlap", i+1, j+1)
 		}
@@ -293,7 +319,9 @@ func traceRow(prims []Prim, i int, w, t, g float64, tol Tol) (float64, error) {
 			return 0, err
 		}
 		mut += m
+		mt.addEst(closedFormRounding * m)
 	}
+	tol.addEst(2 * mutEst)
 	return self + 2*mut, nil
 }
 
@@ -384,10 +412,11 @@ func arcAlong(q Prim, x, tan Vec, tol Tol) (float64, error) {
 		}
 		// the integral is of order one or more (times R, the scale of
 		// tan): an absolute floor of a tenth of the relative accuracy
-		v, _, err := Integrate(f, pts[i], pts[i+1], tol.with(tol.Rel, tol.Rel*0.1*R/float64(len(pts))))
+		v, e, err := Integrate(f, pts[i], pts[i+1], tol.with(tol.Rel, tol.Rel*0.1*R/float64(len(pts))))
 		if bad {
 			return 0, ErrOnWire
 		}
+		tol.addEst(k0 * e)
 		// a sample of the outer integral close to a joint can stop short
 		// of the tolerance, where rounding of φ − φ0 matters; 1e-6 of it
 		// (1e-3 within 1e-6·R of the joint, where the outer integral

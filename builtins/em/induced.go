@@ -220,11 +220,12 @@ func solenoidAxialE(base, e1, e2, n Vec, R, L, bdot float64, x Vec, tol Tol) (Ve
 	for comp := 0; comp < 2; comp++ {
 		for i := 1; i < len(us); i++ {
 			for j := 1; j < len(vs); j++ {
-				val, _, err := Integrate2(func(u, v float64) float64 { return f(u, v, comp) }, us[i-1], us[i], vs[j-1], vs[j], t)
+				val, e, err := Integrate2(func(u, v float64) float64 { return f(u, v, comp) }, us[i-1], us[i], vs[j-1], vs[j], t)
 				if err != nil {
 					return Vec{}, err
 				}
 				out[comp] += val
+				tol.addEst(e) // summed over both components: a bound on each
 			}
 		}
 	}
@@ -584,6 +585,9 @@ func RegionE(r Region, x Vec, tol Tol) (Vec, error) {
 	}
 	if errors.Is(err, ErrNoConvergence) {
 		return e, &QuadError{Vec: e, Estimate: est, Target: target, Evals: evals}
+	}
+	if err == nil {
+		tol.addEst(est)
 	}
 	return e, err
 }

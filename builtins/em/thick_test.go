@@ -259,3 +259,45 @@ func TestThickStefan(t *testing.T) {
 		}
 	}
 }
+
+// TestThickEstimate: the error estimates of ThickCoilSelfEst and
+// ThickCoilMutualEst (the change from a lower-order rule) must bound the
+// actual error, taken against thFine (twice the order, the grading a
+// thousand times deeper; TestThickConverged and TestThickSuperposition
+// show it converged well below the default rule's error), and must not be
+// absurdly large: at most 1e-6 of the value (the default rule's 1e-9,
+// with the lower order's room). The shapes are those of
+// TestThickConverged plus a long solenoid-like coil and a flat pancake.
+func TestThickEstimate(t *testing.T) {
+	for _, s := range [][3]float64{
+		{0.01, 0.02, 0.01}, {0.01, 0.011, 0.05}, {0.05, 0.06, 0.001},
+		{0.001, 0.05, 0.01}, {0.01, 0.0100001, 0.02}, {0.01, 0.03, 0.3},
+		{0.02, 0.0205, 0.4}, {0.005, 0.08, 0.0005},
+	} {
+		v, est, err := ThickCoilSelfEst(s[0], s[1], s[2])
+		if err != nil {
+			t.Fatal(err)
+		}
+		actual := math.Abs(v - thFine.self(s[0], s[1], s[2]))
+		t.Logf("self %v: actual %.2g, estimate %.2g (rel %.2g)", s, actual/v, est/v, est/v)
+		if actual > est || est > 1e-6*math.Abs(v) {
+			t.Errorf("self %v: actual error %.3g, estimate %.3g", s, actual, est)
+		}
+	}
+	for _, p := range [][2]Section{
+		{{0.01, 0.02, 0, 0.01}, {0.01, 0.02, 0.01, 0.02}},
+		{{0.01, 0.015, 0, 0.01}, {0.015, 0.02, 0, 0.01}},
+		{{0.01, 0.015, 0, 0.02}, {0.012, 0.02, 0.021, 0.03}},
+		{{0.01, 0.011, 0, 0.001}, {0.03, 0.04, 0.2, 0.25}},
+	} {
+		v, est, err := ThickCoilMutualEst(p[0], p[1])
+		if err != nil {
+			t.Fatal(err)
+		}
+		actual := math.Abs(v - thFine.mutual(p[0], p[1]))
+		t.Logf("mutual %v: actual %.2g, estimate %.2g (rel)", p, actual/v, est/v)
+		if actual > est || est > 1e-6*math.Abs(v) {
+			t.Errorf("mutual %v: actual error %.3g, estimate %.3g", p, actual, est)
+		}
+	}
+}

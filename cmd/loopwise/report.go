@@ -13,6 +13,7 @@ import (
 
 	"github.com/yuin/goldmark"
 
+	"loopwise/builtins"
 	"loopwise/runtime"
 )
 
@@ -282,7 +283,8 @@ type statementView struct {
 type tableView struct {
 	Head []string
 	Rows [][]string
-	More int // rows not shown
+	More int      // rows not shown
+	Foot []string // each column's numerical error bound, or nil
 }
 
 func stmtView(r runtime.StatementResult, digits int) statementView {
@@ -371,6 +373,24 @@ func tableOf(t runtime.Tabular, digits int) *tableView {
 		}
 		tv.Rows = append(tv.Rows, cells)
 	}
+	if ne, ok := t.(interface{ ColumnNumErr() []float64 }); ok && len(ne.ColumnNumErr()) == len(cols) {
+		// the columns' numerical error bounds, as the prompt shows them
+		var cells []string
+		if labels != nil {
+			cells = append(cells, "")
+		}
+		for j, e := range ne.ColumnNumErr() {
+			c := ""
+			if e > 0 {
+				c = "≤ " + runtime.FormatNumber(builtins.RoundUp2(e/scales[j]), 2)
+			}
+			if j == 0 && c == "" {
+				c = "num. error"
+			}
+			cells = append(cells, c)
+		}
+		tv.Foot = cells
+	}
 	return tv
 }
 
@@ -438,7 +458,9 @@ var stmtTmpl = template.Must(template.New("stmt").Funcs(funcs).Parse(`<div class
 {{- range .Rows}}
 <tr>{{range .}}<td>{{.}}</td>{{end}}</tr>
 {{- end}}
-</tbody></table></div>
+</tbody>
+{{- with .Foot}}<tfoot><tr>{{range .}}<td>{{.}}</td>{{end}}</tr></tfoot>{{end}}
+</table></div>
 {{- if .More}}<p class="more">and {{.More}} more rows</p>{{end}}
 {{- if $.SVG}}</details>{{end}}
 {{- end}}

@@ -386,3 +386,12 @@ func TestReportNumericalError(t *testing.T) {
 		t.Errorf("page lacks the estimate:\n%s", page)
 	}
 }
+
+// TestReportTableNumericalError: a transient's table carries each
+// column's numerical error bound to the page, as its last row.
+func TestReportTableNumericalError(t *testing.T) {
+	page, _, _ := writeReport(t, "# N\n\n```lw\ntransient(circuit(voltage_source(\"V1\", \"a\", \"0\", 12 V), resistor(\"R1\", \"a\", \"b\", 3 ohm), inductor(\"L1\", \"b\", \"0\", 6 mH)), 10 ms, 5)\n```\n")
+	if !strings.Contains(page, "<tfoot><tr><td>num. error</td><td>≤ ") {
+		t.Errorf("page lacks the table's numerical error row:\n%s", page)
+	}
+}
