@@ -126,3 +126,25 @@ func BenchmarkSegmentAGoSum(b *testing.B) {
 		b.Fatal("NaN")
 	}
 }
+
+// BenchmarkHelixLayersInductance times the inductance of four coaxial
+// helices of five turns, 0.5 mm apart in radius (a small multilayer
+// winding): the helices' potentials are integrals along them, so this is
+// the numerical-integral route of a winding.
+func BenchmarkHelixLayersInductance(b *testing.B) {
+	var prims []Prim
+	for k := 0; k < 4; k++ {
+		h, err := NewHelix(Vec{Z: -0.0025}, Vec{Z: 1}, 0.01+0.0005*float64(k), 0.0025, 5)
+		if err != nil {
+			b.Fatal(err)
+		}
+		prims = append(prims, h)
+	}
+	p := Path{Prims: prims}
+	b.ResetTimer()
+	for range b.N {
+		if _, err := SelfInductance(p, 0.0002, Tol{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
