@@ -48,9 +48,10 @@ var ErrShapeJacobian = errors.New("em: FieldJacobian takes thin-wire paths only;
 //
 // est_p the largest of the three columns' quadrature estimates, S_p the
 // integral of the norm bound of the columns' integrand (μ0/4π ∫ 4|dl'|/n³
-// for B, ∫ |dl'|/n² for A), and ρ_p = 64ε + 32ε(|x| + |x'|max)/dmin the
-// relative rounding of the integrand: r = x − x' carries about
-// 4ε(|x| + |x'|) of absolute error and the kernels, homogeneous of degree
+// for B, ∫ |dl'|/n² for A), and ρ_p = 64ε + 32ε(|x − o| + |x' − o|max)/dmin
+// the relative rounding of the integrand: r = (x − o) − (x' − o), o the
+// piece's start or centre, carries about 4ε(|x − o| + |x' − o|) of
+// absolute error and the kernels, homogeneous of degree
 // −3 and −2 in r, change by about 3 to 5 times its relative error (8
 // taken); the last sum
 // is the rounding of adding n terms (Higham, Accuracy and Stability of
@@ -99,10 +100,19 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 		return cols, 0, 0, 0, ErrOnWire
 	}
 	br, dmin, reach := jacobianBreaks(p, x)
+	// r = (x − o) − (x'(t) − o) with o the piece's own origin (a
+	// segment's start, an arc's centre), so that its rounding is that of
+	// the piece's size and the point's distance, not of their place
+	o := p.A
+	if p.Kind != Segment {
+		o = p.C
+	}
+	xo := r3.Sub(x, o)
+	at := func(t float64) Vec { return r3.Sub(xo, offsetPoint(p, t)) }
 	bad := false
 	// the norm bound of every column's integrand, divided by μ0/4π
 	bnd := func(t float64) float64 {
-		r := r3.Sub(x, p.Point(t))
+		r := at(t)
 		n := r3.Norm(r)
 		if n == 0 {
 			bad = true
@@ -135,7 +145,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 	for j := range cols {
 		e := axes[j]
 		f := func(t float64) Vec {
-			r := r3.Sub(x, p.Point(t))
+			r := at(t)
 			n := r3.Norm(r)
 			if n == 0 {
 				bad = true
@@ -163,7 +173,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 		cols[j] = v
 		est = math.Max(est, e2)
 	}
-	rho = 64*eps + 32*eps*(r3.Norm(x)+reach)/dmin
+	rho = 64*eps + 32*eps*(r3.Norm(xo)+reach)/dmin
 	return cols, est, scale, rho, nil
 }
 
@@ -181,13 +191,28 @@ func onWire(p Prim, x Vec) bool {
 	return errors.Is(err, ErrOnWire)
 }
 
+// offsetPoint is p.Point(t) − o, o the segment's start or the arc's or
+// helix's centre, computed without o.
+func offsetPoint(p Prim, t float64) Vec {
+	if p.Kind == Segment {
+		return r3.Scale(t, r3.Sub(p.B, p.A))
+	}
+	phi := t * p.Span
+	s, c := math.Sincos(phi)
+	q := r3.Add(r3.Scale(p.R*c, p.U), r3.Scale(p.R*s, p.V))
+	if p.Kind == Helix {
+		q = r3.Add(q, r3.Scale(p.Pitch*phi, p.N))
+	}
+	return q
+}
+
 // jacobianBreaks returns p's quarter-turn breaks with the parameters
 // nearest x added (the foot of the perpendicular on a segment; the
 // azimuths of x on an arc or on each turn of a helix), a lower bound on
 // the distance from x to p (half of the least distance at those
 // parameters and the ends: on a helix the azimuth is only near the
-// nearest point), and the largest |x'| over p's points, for the rounding
-// of r.
+// nearest point), and the largest |x' − o| over p's points (o as in
+// offsetPoint), for the rounding of r.
 func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 	br = primBreaks(p)
 	var cand []float64
@@ -197,7 +222,7 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 		if l2 := r3.Dot(d, d); l2 > 0 {
 			cand = append(cand, r3.Dot(r3.Sub(x, p.A), d)/l2)
 		}
-		reach = math.Max(r3.Norm(p.A), r3.Norm(p.B))
+		reach = r3.Norm(d)
 	default:
 		w := r3.Sub(x, p.C)
 		psi := math.Atan2(r3.Dot(w, p.V), r3.Dot(w, p.U))
@@ -207,7 +232,7 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 				cand = append(cand, (psi+2*math.Pi*k)/p.Span)
 			}
 		}
-		reach = r3.Norm(p.C) + p.R + math.Abs(p.Pitch*p.Span)
+		reach = p.R + math.Abs(p.Pitch*p.Span)
 	}
 	dmin = math.Min(r3.Norm(r3.Sub(x, p.Start())), r3.Norm(r3.Sub(x, p.End())))
 	for _, t := range cand {
