@@ -252,7 +252,7 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 // JacobianWeight is about the cost of FieldJacobian for path p in
 // elementary evaluations (10 ns each, runtime.EvalsPerSecond): 2500 a
 // segment and 3000 a quarter turn of an arc or helix. BenchmarkFieldJacobian,
-// one run on a loaded two-core machine (load about 5): 25 µs a segment,
+// one run on a loaded two-core machine (load about 5): 25–43 µs a segment,
 // 100 µs a ring, 62 µs an arc of 2.5 rad, 320 µs a helix of 5 turns.
 func JacobianWeight(p Path) float64 {
 	w := 0.0
