@@ -48,12 +48,16 @@ var ErrShapeJacobian = errors.New("em: FieldJacobian takes thin-wire paths only;
 //
 // est_p the largest of the three columns' quadrature estimates, S_p the
 // integral of the norm bound of the columns' integrand (μ0/4π ∫ 4|dl'|/n³
-// for B, ∫ |dl'|/n² for A), and ρ_p = 64ε + 32ε(|x − o| + |x' − o|max)/dmin
-// the relative rounding of the integrand: r = (x − o) − (x' − o), o the
-// piece's start or centre, carries about 4ε(|x − o| + |x' − o|) of
-// absolute error and the kernels, homogeneous of degree
-// −3 and −2 in r, change by about 3 to 5 times its relative error (8
-// taken); the last sum
+// for B, ∫ |dl'|/n² for A), and
+//
+//	ρ_p = 64ε + 32ε(|x0| + |x| + |x'(t0)|)/dmin
+//
+// the relative rounding of the integrand: r is formed as x0 − Δ with
+// x0 = x − x'(t0) at the parameter t0 nearest x and Δ from t − t0 itself
+// (jacobianStep), so r carries about 4ε(|x| + |x'(t0)|) from x0 and 4ε of
+// |Δ| ≤ |x0| + |r| from Δ; the kernels, homogeneous of degree −3 and −2
+// in r, change by about 3 to 6 times its relative error (8 taken); 64ε
+// for the rest of the integrand. The last sum
 // is the rounding of adding n terms (Higham, Accuracy and Stability of
 // Numerical Algorithms, 2nd ed., 2002, eq. 4.4).
 func FieldJacobian(which Which, srcs []Source, x Vec, tol Tol) (J [3]Vec, bound float64, err error) {
@@ -99,16 +103,17 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 	if onWire(p, x) {
 		return cols, 0, 0, 0, ErrOnWire
 	}
-	br, dmin, reach := jacobianBreaks(p, x)
-	// r = (x − o) − (x'(t) − o) with o the piece's own origin (a
-	// segment's start, an arc's centre), so that its rounding is that of
-	// the piece's size and the point's distance, not of their place
-	o := p.A
-	if p.Kind != Segment {
-		o = p.C
+	br, t0, dmin := jacobianBreaks(p, x)
+	// the integrals run over u = t − t0, t0 the parameter nearest x, and
+	// r = (x − x'(t0)) − (x'(t0 + u) − x'(t0)) with the second difference
+	// formed from u itself (jacobianStep): near the peak r keeps its
+	// relative digits, however long the piece or far its place
+	p0 := p.Point(t0)
+	x0 := r3.Sub(x, p0)
+	for i := range br {
+		br[i] -= t0
 	}
-	xo := r3.Sub(x, o)
-	at := func(t float64) Vec { return r3.Sub(xo, offsetPoint(p, t)) }
+	at := func(u float64) Vec { return r3.Sub(x0, jacobianStep(p, t0, u)) }
 	bad := false
 	// the norm bound of every column's integrand, divided by μ0/4π
 	bnd := func(t float64) float64 {
@@ -118,7 +123,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 			bad = true
 			return 0
 		}
-		tl := r3.Norm(p.Tangent(t))
+		tl := r3.Norm(p.Tangent(t0 + t))
 		if which == FieldB {
 			return 4 * tl / (n * n * n)
 		}
@@ -151,7 +156,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 				bad = true
 				return Vec{}
 			}
-			T := p.Tangent(t)
+			T := p.Tangent(t0 + t)
 			rj := r3.Dot(r, e)
 			if which == FieldB {
 				n3 := n * n * n
@@ -173,7 +178,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 		cols[j] = v
 		est = math.Max(est, e2)
 	}
-	rho = 64*eps + 32*eps*(r3.Norm(xo)+reach)/dmin
+	rho = 64*eps + 32*eps*(r3.Norm(x0)+r3.Norm(x)+r3.Norm(p0))/dmin
 	return cols, est, scale, rho, nil
 }
 
@@ -191,29 +196,32 @@ func onWire(p Prim, x Vec) bool {
 	return errors.Is(err, ErrOnWire)
 }
 
-// offsetPoint is p.Point(t) − o, o the segment's start or the arc's or
-// helix's centre, computed without o.
-func offsetPoint(p Prim, t float64) Vec {
+// jacobianStep is p.Point(t0 + u) − p.Point(t0), formed from u so that
+// it keeps its relative digits for small u: u·(B − A) on a segment, and
+// on an arc or helix R(cos(φ0 + δ) − cos φ0) = −2R sin(φ0 + δ/2) sin(δ/2)
+// (and the like for sin), plus the pitch's advance, with δ = u·Span.
+func jacobianStep(p Prim, t0, u float64) Vec {
 	if p.Kind == Segment {
-		return r3.Scale(t, r3.Sub(p.B, p.A))
+		return r3.Scale(u, r3.Sub(p.B, p.A))
 	}
-	phi := t * p.Span
-	s, c := math.Sincos(phi)
-	q := r3.Add(r3.Scale(p.R*c, p.U), r3.Scale(p.R*s, p.V))
+	d := u * p.Span
+	h := math.Sin(d / 2)
+	sm, cm := math.Sincos(t0*p.Span + d/2)
+	q := r3.Add(r3.Scale(-2*p.R*sm*h, p.U), r3.Scale(2*p.R*cm*h, p.V))
 	if p.Kind == Helix {
-		q = r3.Add(q, r3.Scale(p.Pitch*phi, p.N))
+		q = r3.Add(q, r3.Scale(p.Pitch*d, p.N))
 	}
 	return q
 }
 
 // jacobianBreaks returns p's quarter-turn breaks with the parameters
 // nearest x added (the foot of the perpendicular on a segment; the
-// azimuths of x on an arc or on each turn of a helix), a lower bound on
-// the distance from x to p (half of the least distance at those
-// parameters and the ends: on a helix the azimuth is only near the
-// nearest point), and the largest |x' − o| over p's points (o as in
-// offsetPoint), for the rounding of r.
-func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
+// azimuths of x on an arc or on each turn of a helix; the ends), each
+// with breaks graded geometrically away from it, the one of those
+// parameters nearest x, and a lower bound on the distance from x to p
+// (half of the least distance at those parameters on a helix, where the
+// azimuth is only near the nearest point).
+func jacobianBreaks(p Prim, x Vec) (br []float64, t0, dmin float64) {
 	br = primBreaks(p)
 	var cand []float64
 	switch p.Kind {
@@ -222,7 +230,6 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 		if l2 := r3.Dot(d, d); l2 > 0 {
 			cand = append(cand, r3.Dot(r3.Sub(x, p.A), d)/l2)
 		}
-		reach = r3.Norm(d)
 	default:
 		w := r3.Sub(x, p.C)
 		psi := math.Atan2(r3.Dot(w, p.V), r3.Dot(w, p.U))
@@ -232,13 +239,30 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 				cand = append(cand, (psi+2*math.Pi*k)/p.Span)
 			}
 		}
-		reach = p.R + math.Abs(p.Pitch*p.Span)
 	}
-	dmin = math.Min(r3.Norm(r3.Sub(x, p.Start())), r3.Norm(r3.Sub(x, p.End())))
+	dmin = math.Inf(1)
+	cand = append(cand, 0, 1)
 	for _, t := range cand {
-		if t > 0 && t < 1 {
-			br = append(br, t)
-			dmin = math.Min(dmin, r3.Norm(r3.Sub(x, p.Point(t))))
+		if t < 0 || t > 1 {
+			continue
+		}
+		dk := r3.Norm(r3.Sub(x, p.Point(t)))
+		if dk < dmin {
+			dmin, t0 = dk, t
+		}
+		br = append(br, t)
+		// the kernels' peak at t is about dk/|x'′| wide in t: breaks at
+		// t ± w·4^k, so the rule's nodes see it however narrow it is (a
+		// rule whose nodes all lie far from a narrow peak would miss it
+		// and report a small error estimate)
+		if tl := r3.Norm(p.Tangent(t)); tl > 0 {
+			for w := dk / tl; w < 1; w *= 4 {
+				for _, u := range []float64{t - w, t + w} {
+					if u > 0 && u < 1 {
+						br = append(br, u)
+					}
+				}
+			}
 		}
 	}
 	slices.Sort(br)
@@ -246,7 +270,7 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, dmin, reach float64) {
 	if p.Kind != Segment && p.Kind != Arc {
 		dmin /= 2
 	}
-	return br, dmin, reach
+	return br, t0, dmin
 }
 
 // JacobianWeight is about the cost of FieldJacobian for path p in
