@@ -275,16 +275,17 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, t0, dmin float64) {
 
 // JacobianWeight is about the cost of FieldJacobian for path p in
 // elementary evaluations (10 ns each, runtime.EvalsPerSecond): 2500 a
-// segment and 3000 a quarter turn of an arc or helix. BenchmarkFieldJacobian,
-// one run on a loaded two-core machine (load about 5): 25–43 µs a segment,
-// 100 µs a ring, 62 µs an arc of 2.5 rad, 320 µs a helix of 5 turns.
+// segment and 4500 a quarter turn of an arc or helix.
+// BenchmarkFieldJacobian, one run on a two-core machine under load about
+// 2: 23 µs a segment, 180 µs a ring, 65 µs an arc of 2.5 rad, 0.41 ms a
+// helix of 5 turns, at one point each.
 func JacobianWeight(p Path) float64 {
 	w := 0.0
 	for _, q := range p.Prims {
 		if q.Kind == Segment {
 			w += 2500
 		} else {
-			w += 3000 * float64(len(primBreaks(q))-1)
+			w += 4500 * float64(len(primBreaks(q))-1)
 		}
 	}
 	return w
