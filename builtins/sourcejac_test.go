@@ -163,3 +163,32 @@ func TestSessionJacobianFallbacks(t *testing.T) {
 		}
 	}
 }
+
+// TestSessionJacobianMirror: a ring before a permeable plate (its image
+// carries (μr − 1)/(μr + 1) of the current): curl A against b_at (B = ∇ ×
+// A, as above; the image enters both through the same term), within 1e-12
+// of |B| and the reported bounds; a point behind the plate is refused as
+// b_at refuses it.
+func TestSessionJacobianMirror(t *testing.T) {
+	ev := jacSession(t, "m = mirror(source(circle([0, 0, 5] mm, [0, 0, 1], 20 mm), 1 A), [0, 0, 0] m, [0, 0, 1], 1000)")
+	for _, p := range []string{"[3, 4, 2] mm", "[-15, 7, 12] mm", "[0, 0, 0.5] mm"} {
+		r := ev("curl(a_field(m), " + p + ")")
+		b := ev("b_at(m, " + p + ")")
+		c, bv := comps(t, r.Value), comps(t, b.Value)
+		nb := math.Sqrt(bv[0]*bv[0] + bv[1]*bv[1] + bv[2]*bv[2])
+		for i := range c {
+			d := math.Abs(c[i] - bv[i])
+			if d > 1e-12*nb || d > numErrOr(r, i, 0)+numErrOr(b, i, 128*0x1p-53*nb) {
+				t.Errorf("at %s: curl A = %v, B = %v (numerical error %v)", p, c, bv, r.NumErr)
+			}
+		}
+	}
+	s := runtime.NewSession(builtins.Standard())
+	if _, err := s.Eval(lang.Pos{Line: 1, Col: 1}, "m = mirror(source(circle([0, 0, 5] mm, [0, 0, 1], 20 mm), 1 A), [0, 0, 0] m, [0, 0, 1], 1000)"); err != nil {
+		t.Fatal(err)
+	}
+	_, err := s.Eval(lang.Pos{Line: 2, Col: 1}, "div(b_field(m), [0, 0, -2] mm)")
+	if err == nil || !strings.Contains(err.Error(), "behind the permeable plate") {
+		t.Errorf("behind the plate: %v", err)
+	}
+}
