@@ -259,7 +259,7 @@ func sourceJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, 
 	var parts []part
 	w := 0.0
 	for _, term := range src.terms {
-		w += em.JacobianWeight(term.path)
+		w += em.JacobianWeight(term.path, x)
 		if induced == nil {
 			i, err := currentAt(env, fn, term.current, t, hasT)
 			if err != nil {
