@@ -185,6 +185,11 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 	for i := range br {
 		br[i] -= t0
 	}
+	// a long helix has thousands of breaks: allow each piece a few
+	// bisections on top of the default budget
+	if m := 100 * len(br); tol.MaxEval == 0 && m > quadDefaultMaxEval {
+		tol.MaxEval = m
+	}
 	at := func(u float64) Vec { return r3.Sub(x0, jacobianStep(p, t0, u)) }
 	bad := false
 	// the norm bound of every column's integrand, divided by μ0/4π
@@ -295,6 +300,7 @@ func jacobianStep(p Prim, t0, u float64) Vec {
 // azimuth is only near the nearest point).
 func jacobianBreaks(p Prim, x Vec) (br []float64, t0, dmin float64) {
 	br = primBreaks(p)
+	q := 1 / float64(len(br)-1) // the quarter turns' width in t
 	var cand []float64
 	switch p.Kind {
 	case Segment:
@@ -324,11 +330,11 @@ func jacobianBreaks(p Prim, x Vec) (br []float64, t0, dmin float64) {
 		}
 		br = append(br, t)
 		// the kernels' peak at t is about dk/|x'′| wide in t: breaks at
-		// t ± w·4^k, so the rule's nodes see it however narrow it is (a
-		// rule whose nodes all lie far from a narrow peak would miss it
-		// and report a small error estimate)
+		// t ± w·4^k up to a quarter turn's width, so the rule's nodes see
+		// it however narrow it is (a rule whose nodes all lie far from a
+		// narrow peak would miss it and report a small error estimate)
 		if tl := r3.Norm(p.Tangent(t)); tl > 0 {
-			for w := dk / tl; w < 1; w *= 4 {
+			for w := dk / tl; w < q; w *= 4 {
 				for _, u := range []float64{t - w, t + w} {
 					if u > 0 && u < 1 {
 						br = append(br, u)

@@ -383,3 +383,44 @@ func TestSegmentJacobianClosed(t *testing.T) {
 	}
 	t.Logf("%d cases, closed form against quadrature at most %.2g of the terms' size", used, worst)
 }
+
+// TestJacobianLongHelix: a helix of 1000 turns (thousands of breaks) at
+// points between its turns, 10 µm to 1 mm inside the winding and outside
+// it: curl A against B (Jackson 1999, eq. 5.27, from memory; B by the
+// helix's own Biot–Savart quadrature) within the bounds, and inside the
+// winding within 1e-11 of |B| (outside, B is that of the axial advance,
+// about 3e-3 of the field inside, left from turns that cancel, so only the
+// bounds apply there); div B within 3 bounds (Jackson 1999, eq. 5.22).
+func TestJacobianLongHelix(t *testing.T) {
+	h, err := NewHelix(Vec{Z: -0.1}, Vec{Z: 1}, 0.01, 0.2, 1000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	srcs := []Source{{Path: Path{Prims: []Prim{h}}, I: 1}}
+	for i, x := range []Vec{{X: 0.00999, Z: 0.0001}, {X: 0.009, Z: 0.0001}, {X: 0.003, Y: 0.002, Z: 0.005}, {X: 0.0102, Y: 0.0003, Z: -0.05}} {
+		ja, ba, err := FieldJacobian(FieldA, srcs, x, Tol{})
+		if err != nil {
+			t.Fatalf("%v: %v", x, err)
+		}
+		jb, bb, err := FieldJacobian(FieldB, srcs, x, Tol{})
+		if err != nil {
+			t.Fatalf("%v: %v", x, err)
+		}
+		b, err := FieldAt(FieldB, srcs, x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		eb, _, err := FieldErrorBound(FieldB, srcs, x, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d := r3.Sub(curlOf(ja), b)
+		if maxAbs(d) > 2*ba+eb || (i < 3 && r3.Norm(d) > 1e-11*r3.Norm(b)) {
+			t.Errorf("%v: curl A − B = %v (|B| %g, bounds %g + %g)", x, d, r3.Norm(b), 2*ba, eb)
+		}
+		if div := jb[0].X + jb[1].Y + jb[2].Z; math.Abs(div) > 3*bb {
+			t.Errorf("%v: div B = %g beyond 3 × %g", x, div, bb)
+		}
+		t.Logf("%v: |curl A − B|/|B| = %.2g, bound %.2g", x, r3.Norm(d)/r3.Norm(b), 2*ba/r3.Norm(b))
+	}
+}
