@@ -424,3 +424,54 @@ func TestJacobianLongHelix(t *testing.T) {
 		t.Logf("%v: |curl A − B|/|B| = %.2g, bound %.2g", x, r3.Norm(d)/r3.Norm(b), 2*ba/r3.Norm(b))
 	}
 }
+
+// TestFieldJacobianRobust: random pieces and points from 1e-12 to 1e6 of
+// the piece's size away, on and off its lines and axes: FieldJacobian
+// returns finite entries and a finite bound, or an error; never a panic.
+// Where it answers, div B must lie within 3 bounds (Jackson 1999, eq.
+// 5.22): a wrong answer with a small bound would show there.
+func TestFieldJacobianRobust(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 4))
+	rv := func() Vec { return r3.Unit(Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()}) }
+	answered := 0
+	for k := 0; k < 300; k++ {
+		var p Prim
+		var err error
+		c := r3.Scale(rng.Float64(), rv())
+		switch k % 3 {
+		case 0:
+			p, err = NewSegment(c, r3.Add(c, r3.Scale(0.01+rng.Float64(), rv())))
+		case 1:
+			p, err = NewCircle(c, rv(), 0.01+rng.Float64())
+		default:
+			p, err = NewHelix(c, rv(), 0.01+rng.Float64(), 0.01+rng.Float64(), 0.5+20*rng.Float64())
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		size := p.Length()
+		base := p.Point(rng.Float64())
+		if k%5 == 0 {
+			base = c // the centre, on an axis
+		}
+		x := r3.Add(base, r3.Scale(size*math.Pow(10, -12+18*rng.Float64()), rv()))
+		srcs := []Source{{Path: Path{Prims: []Prim{p}}, I: 1}}
+		j, bound, err := FieldJacobian(FieldB, srcs, x, Tol{})
+		if err != nil {
+			continue
+		}
+		answered++
+		for _, v := range j {
+			if math.IsNaN(v.X+v.Y+v.Z) || math.IsInf(v.X+v.Y+v.Z, 0) {
+				t.Fatalf("%v at %v: %v", p, x, j)
+			}
+		}
+		if math.IsNaN(bound) || math.IsInf(bound, 0) {
+			t.Fatalf("%v at %v: bound %g", p, x, bound)
+		}
+		if div := j[0].X + j[1].Y + j[2].Z; math.Abs(div) > 3*bound {
+			t.Errorf("kind %d at distance %g: div B = %g beyond 3 × %g (|J| %g)", p.Kind, r3.Norm(r3.Sub(x, base)), div, bound, r3.Norm(j[0]))
+		}
+	}
+	t.Logf("%d of 300 answered", answered)
+}
