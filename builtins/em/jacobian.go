@@ -54,11 +54,12 @@ var ErrShapeJacobian = errors.New("em: FieldJacobian takes thin-wire paths only;
 // integral of the norm bound of the columns' integrand (μ0/4π ∫ 4|dl'|/n³
 // for B, ∫ |dl'|/n² for A), and
 //
-//	ρ_p = 64ε + 32ε(|x0| + |x| + |x'(t0)|)/dmin
+//	ρ_p = 64ε + 32ε(|x0| + |x − o| + |x'(t0) − o|)/dmin
 //
 // the relative rounding of the integrand: r is formed as x0 − Δ with
-// x0 = x − x'(t0) at the parameter t0 nearest x and Δ from t − t0 itself
-// (jacobianStep), so r carries about 4ε(|x| + |x'(t0)|) from x0 and 4ε of
+// x0 = (x − o) − (x'(t0) − o) at the parameter t0 nearest x, o the
+// piece's start or centre, and Δ from t − t0 itself (jacobianStep), so r
+// carries about 4ε(|x − o| + |x'(t0) − o|) from x0 and 4ε of
 // |Δ| ≤ |x0| + |r| from Δ; the kernels, homogeneous of degree −3 and −2
 // in r, change by about 3 to 6 times its relative error (8 taken); 64ε
 // for the rest of the integrand. The last sum
@@ -180,8 +181,18 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 	// r = (x − x'(t0)) − (x'(t0 + u) − x'(t0)) with the second difference
 	// formed from u itself (jacobianStep): near the peak r keeps its
 	// relative digits, however long the piece or far its place
-	p0 := p.Point(t0)
-	x0 := r3.Sub(x, p0)
+	// x − x'(t0) as (x − o) − (x'(t0) − o), o the segment's start or the
+	// arc's centre: its rounding is that of the piece's size and the
+	// distance, not of the piece's place
+	o := p.A
+	if p.Kind != Segment {
+		o = p.C
+	}
+	xo, p0 := r3.Sub(x, o), jacobianStep(p, 0, t0)
+	if p.Kind != Segment {
+		p0 = r3.Add(p0, r3.Scale(p.R, p.U)) // jacobianStep is from x'(0) = o + R·U
+	}
+	x0 := r3.Sub(xo, p0)
 	for i := range br {
 		br[i] -= t0
 	}
@@ -255,7 +266,7 @@ func primJacobian(which Which, p Prim, x Vec, tol Tol) (cols [3]Vec, est, scale,
 		cols[j] = v
 		est = math.Max(est, e2)
 	}
-	rho = 64*eps + 32*eps*(r3.Norm(x0)+r3.Norm(x)+r3.Norm(p0))/dmin
+	rho = 64*eps + 32*eps*(r3.Norm(x0)+r3.Norm(xo)+r3.Norm(p0))/dmin
 	return cols, est, scale, rho, nil
 }
 
