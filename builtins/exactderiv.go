@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"loopwise/builtins/em"
 	"loopwise/runtime"
 )
@@ -219,4 +221,132 @@ func exactSourceDdt(env runtime.Env, fn string, f *Field, x em.Vec, t float64) (
 		env.NumericalError(bound, bound, bound)
 	}
 	return fromVec(after, d), true, nil
+}
+
+// inducedSource is the source of E = −∂A/∂t made by e_field of a source
+// (inducedField: sym "E" with the source in of, no src), or nil.
+func inducedSource(f *Field) *Source {
+	if f.src == nil && f.sym == "E" && f.of != nil {
+		return f.of
+	}
+	return nil
+}
+
+// sourceJacobian fills j (column k: ∂F/∂x_k) for B or A of a source and
+// for E = −Σ A_k·dI_k/dt of one: the thin-wire paths exactly
+// (em.FieldJacobian: the derivatives of the kernels integrated along each
+// piece), a uniform field exactly (B: zero; A = ½B×r: ½B×e_k), and shapes
+// (magnets, dipoles, infinite wires, ideal solenoids) by step differences,
+// noted. It reports the bound as the numerical error (curl adds two
+// partials, div three) when no part was by differences. ok is false for
+// fields that are not of a source.
+func sourceJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, x em.Vec, j *[3]em.Vec) (bool, error) {
+	src, which := f.src, f.which
+	induced := inducedSource(f)
+	switch {
+	case induced != nil:
+		src, which = induced, em.FieldA
+	case src == nil || (which != em.FieldB && which != em.FieldA):
+		return false, nil
+	}
+	t, hasT := readArgs(fn, args).time(2)
+	// per term: the source carrying the factor its per-ampere field is
+	// multiplied by (I at t, or −dI/dt), and that factor's error estimate
+	type part struct {
+		term    sourceTerm
+		k, kErr float64
+	}
+	var parts []part
+	w := 0.0
+	for _, term := range src.terms {
+		w += em.JacobianWeight(term.path, x)
+		if induced == nil {
+			i, err := currentAt(env, fn, term.current, t, hasT)
+			if err != nil {
+				return false, err
+			}
+			parts = append(parts, part{term: term, k: i})
+			continue
+		}
+		cf, ok := term.current.(*runtime.Func)
+		if !ok {
+			continue // a constant current induces nothing
+		}
+		if !hasT {
+			return false, errorf("%s: the source's current %s depends on time; give the time as the last argument", fn, cf.Signature())
+		}
+		didt, est, err := derivativeEst(env, fn, cf, t)
+		if err != nil {
+			return false, err
+		}
+		parts = append(parts, part{term: term, k: -didt, kErr: est})
+	}
+	if err := charge(env, fn, w); err != nil {
+		return false, err
+	}
+	tol := control(env, fn, em.JacobianTol)
+	tol.Progress = nil
+	var out [3]em.Vec
+	var bound float64
+	var shapes []em.Source
+	var shapeDesc []string
+	for _, p := range parts {
+		s := p.term.em(1) // per ampere, the term's factor included
+		if s.Shape != nil {
+			shapes = append(shapes, em.Source{Shape: s.Shape, I: p.k * s.I, Plate: s.Plate})
+			d := "a shape"
+			if p.term.desc != nil {
+				d = p.term.desc(6)
+			}
+			shapeDesc = append(shapeDesc, d)
+			s.Shape = nil
+		}
+		if len(s.Path.Prims) == 0 || s.I == 0 || p.k == 0 {
+			continue
+		}
+		jp, b, err := em.FieldJacobian(which, []em.Source{s}, x, tol)
+		if err != nil {
+			return false, err
+		}
+		var big float64
+		for c := range out {
+			out[c] = r3.Add(out[c], r3.Scale(p.k, jp[c]))
+			big = math.Max(big, r3.Norm(jp[c]))
+		}
+		// the field's rounding and quadrature, and the factor's estimate
+		bound += math.Abs(p.k)*b + p.kErr*big
+	}
+	if induced == nil {
+		if ub := src.uniformB(); which == em.FieldA && ub != (em.Vec{}) {
+			axes := [3]em.Vec{{X: 1}, {Y: 1}, {Z: 1}}
+			for c := range out {
+				out[c] = r3.Add(out[c], r3.Scale(0.5, r3.Cross(ub, axes[c])))
+			}
+			bound += 0x1p-52 * r3.Norm(ub)
+		}
+	}
+	if len(shapes) > 0 {
+		ev := em.NewEvaluator(which, shapes)
+		if env != nil {
+			ev.SetStop(env.Err)
+		}
+		js, err := em.Jacobian(ev.At, x)
+		if err != nil {
+			return false, err
+		}
+		for c := range out {
+			out[c] = r3.Add(out[c], js[c])
+		}
+		for _, d := range shapeDesc {
+			runtime.AddNote(env, fmt.Sprintf("%s: the derivative of the field of %s is by step differences, not exact (a magnet, dipole, infinite wire or ideal solenoid); no numerical error estimate is given", fn, lineOf(d)))
+		}
+	} else if env != nil {
+		if fn == "div" {
+			env.NumericalError(3 * bound)
+		} else {
+			env.NumericalError(2*bound, 2*bound, 2*bound)
+		}
+	}
+	*j = out
+	return true, nil
 }
