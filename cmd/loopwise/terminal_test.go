@@ -245,6 +245,7 @@ func TestPromptRestoreAfterKill(t *testing.T) {
 	tm.expect(`\n\[1, 2, 3\] m\n`)
 	tm.send("extra = 5 A\r")
 	tm.expect(`extra = 5 A\n`)
+	tm.expect(`lw> `) // the journal is written before the next prompt
 	if j := journals(t, state); len(j) != 1 {
 		t.Fatalf("after restoring, journals %v, want only the new one", j)
 	}
