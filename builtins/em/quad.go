@@ -310,9 +310,19 @@ const quadRecompute = 64
 // cannot be split, or rounding prevents progress (quadRoundoffLimit).
 func quadAdapt[T quadPiece](h quadHeap[T], evals, maxEval, splitCost int, tol Tol,
 	split func(T) (T, T, bool, error), less func(x, y T) int) (r3.Vec, float64, int, float64, error) {
+	target := func(v r3.Vec) float64 { return math.Max(tol.Abs, tol.Rel*r3.Norm(v)) }
+	// the sums are always taken in position order (less), so the result
+	// does not depend on the heap's order; pieces given in that order that
+	// meet the tolerance at once (most integrals along a path's pieces)
+	// need neither the heap nor a sort
+	if slices.IsSortedFunc(h, less) {
+		val, est := quadSums(h)
+		if t := target(val); est <= t {
+			return val, est, evals, t, nil
+		}
+	}
 	heap.Init(&h)
 	val, est := quadSums(h)
-	target := func(v r3.Vec) float64 { return math.Max(tol.Abs, tol.Rel*r3.Norm(v)) }
 	roundoff := 0
 	for iter := 1; ; iter++ {
 		if err := tol.stopped(); err != nil {
@@ -320,11 +330,11 @@ func quadAdapt[T quadPiece](h quadHeap[T], evals, maxEval, splitCost int, tol To
 		}
 		if est <= target(val) || iter%quadRecompute == 0 {
 			slices.SortFunc(h, less)
-			heap.Init(&h)
 			val, est = quadSums(h)
-			if est <= target(val) {
-				break
+			if t := target(val); est <= t {
+				return val, est, evals, t, nil
 			}
+			heap.Init(&h)
 		}
 		if evals+splitCost > maxEval {
 			break
