@@ -37,7 +37,17 @@ const (
 	// (1e8 pairs) takes about 6 s on two busy cores, about 120 ns a pair;
 	// 3000 rings about 1 s, about 220 ns a pair.
 	coaxialEvals = 20
+	// coaxialHelixEvals is the cost per integrand call of the single
+	// integral of two coaxial helices or arcs (a cosine, a root and an
+	// inverse hyperbolic sine: a few segment fields' worth).
+	coaxialHelixEvals = 4
 )
+
+// coaxialHelixCost is about the cost of the single integral of two
+// coaxial helical pieces: its calls follow the quarter turns of both.
+func coaxialHelixCost(p, q em.Prim) float64 {
+	return coaxialHelixEvals * (nodes(em.Path{Prims: []em.Prim{p}}) + nodes(em.Path{Prims: []em.Prim{q}}))
+}
 
 // fncEnv is fnc for a builtin that needs the session (budget, interrupt,
 // progress).
@@ -55,7 +65,22 @@ func mutualCost(p1, p2 em.Path) float64 {
 			c += coaxialEvals
 			continue
 		}
-		c += w * nodes(em.Path{Prims: []em.Prim{q}})
+		rest := w
+		if (len(p1.Prims) <= em.MaxCoaxialPieces || q.IsCircle()) && q.Kind != em.Segment {
+			// coaxial helical pairs by single integrals, the rest of
+			// path 1 along q
+			for _, p := range p1.Prims {
+				switch {
+				case em.CoaxialCircles(p, q):
+					c += coaxialEvals
+					rest -= primWeight(p)
+				case em.CoaxialHelical(p, q):
+					c += coaxialHelixCost(p, q)
+					rest -= primWeight(p)
+				}
+			}
+		}
+		c += math.Max(rest, 0) * nodes(em.Path{Prims: []em.Prim{q}})
 	}
 	return c
 }
@@ -71,9 +96,19 @@ func inductanceCost(p em.Path) float64 {
 	}
 	w := pathWeight(p)
 	c := pairEvals * n * n
-	for _, q := range p.Prims {
+	for i, q := range p.Prims {
 		qn := nodes(em.Path{Prims: []em.Prim{q}})
-		c += qn * (w - primWeight(q) + 3)
+		rest := w - primWeight(q)
+		if q.Kind != em.Segment {
+			// coaxial helical pieces take a single integral each
+			for j, r := range p.Prims {
+				if j != i && em.CoaxialHelical(q, r) {
+					rest -= primWeight(r)
+					c += coaxialHelixCost(q, r)
+				}
+			}
+		}
+		c += qn * (math.Max(rest, 0) + 3)
 		if q.Kind == em.Segment {
 			c += segmentJointEvals
 		}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"gonum.org/v1/gonum/mathext"
@@ -435,42 +436,103 @@ func Mutual(p1, p2 Path, opt MutualOptions) (float64, error) {
 	}
 	var sum float64
 	var rest []Prim
+	// pieces of path 2 coaxial with some pieces of path 1: those pairs by
+	// single integrals (coaxhelix.go), the rest of path 1's potential
+	// along them with those pieces masked
+	type maskedPiece struct {
+		q    Prim
+		skip []bool
+	}
+	var masked []maskedPiece
+	touch := errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
 	for _, q := range p2.Prims {
-		handled := false
 		if !opt.NoFastPath && len(p1.Prims) == 1 {
 			if a, b, d, ok := coaxialCircles(p1.Prims[0], q); ok {
 				if d == 0 && a == math.Abs(b) {
-					return 0, errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
+					return 0, touch
 				}
 				sum += math.Copysign(MaxwellMutual(a, math.Abs(b), d), b)
-				handled = true
+				continue
 			}
 		}
-		if !handled {
+		if opt.NoFastPath || (len(p1.Prims) > MaxCoaxialPieces && !q.IsCircle()) || q.Kind == Segment {
 			rest = append(rest, q)
+			continue
+		}
+		var skip []bool
+		for i, p := range p1.Prims {
+			if !CoaxialHelical(p, q) {
+				continue
+			}
+			m, _, err := coaxialHelicalWith([]Prim{p}, q, tol)
+			if errors.Is(err, ErrOnWire) {
+				return 0, touch
+			}
+			if err != nil {
+				return 0, err
+			}
+			sum += m
+			if skip == nil {
+				skip = make([]bool, len(p1.Prims))
+			}
+			skip[i] = true
+		}
+		switch {
+		case skip == nil:
+			rest = append(rest, q)
+		case !slices.Contains(skip, false):
+			// all of path 1 taken pair by pair
+		default:
+			masked = append(masked, maskedPiece{q, skip})
 		}
 	}
-	if len(rest) == 0 {
+	if len(rest) == 0 && len(masked) == 0 {
 		return sum, nil
 	}
 	c := compile([]Source{{Path: p1, I: 1}})
 	c.stop = tol.Stop
 	scale := Mu0 * math.Min(p1.Size(), p2.Size())
-	v, err := lineIntegral(Path{Prims: rest}, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
-	if err != nil {
+	wrap := func(err error) error {
 		if errors.Is(err, ErrOnWire) {
-			return 0, errors.New("the two paths touch: their mutual inductance is infinite for thin wires")
+			return touch
 		}
-		return 0, err
+		return err
 	}
-	if tol.Est != nil {
-		r, err := integrandRounding(FieldA, []Source{{Path: p1, I: 1}}, Path{Prims: rest}, tol.Stop)
+	if len(rest) > 0 {
+		v, err := lineIntegral(Path{Prims: rest}, func(x Vec) (Vec, error) { return c.at(FieldA, x) }, tol, scale)
 		if err != nil {
-			return 0, err
+			return 0, wrap(err)
 		}
-		tol.addEst(r)
+		sum += v
+		if tol.Est != nil {
+			r, err := integrandRounding(FieldA, []Source{{Path: p1, I: 1}}, Path{Prims: rest}, tol.Stop)
+			if err != nil {
+				return 0, err
+			}
+			tol.addEst(r)
+		}
 	}
-	return sum + v, nil
+	for _, mp := range masked {
+		v, err := lineIntegral(Path{Prims: []Prim{mp.q}}, func(x Vec) (Vec, error) { return c.atMasked(FieldA, x, mp.skip) }, tol, scale)
+		if err != nil {
+			return 0, wrap(err)
+		}
+		sum += v
+		if tol.Est != nil {
+			var others []Prim
+			for i, p := range p1.Prims {
+				if !mp.skip[i] {
+					others = append(others, p)
+				}
+			}
+			r, err := integrandRounding(FieldA, []Source{{Path: Path{Prims: others}, I: 1}}, Path{Prims: []Prim{mp.q}}, tol.Stop)
+			if err != nil {
+				return 0, err
+			}
+			tol.addEst(r)
+		}
+	}
+	return sum, nil
 }
 
 // Force returns the force on path 2 carrying i2 in the field of the
@@ -674,6 +736,20 @@ func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, mode WireCu
 			m := math.Copysign(MaxwellMutual(ca, math.Abs(cb), d), cb)
 			sum += m
 			tol.addEst(closedFormRounding * m)
+			skip[j] = true
+			continue
+		}
+		// coaxial helices and arcs (the layers of a winding): one integral
+		// each (coaxhelix.go) in place of the circulation of a numerically
+		// integrated potential
+		if m, ok, err := CoaxialHelicalMutual(p, q, tol); ok {
+			if errors.Is(err, ErrOnWire) {
+				return 0, errors.New("two pieces of the path cross or overlap; self-inductance needs a path that does not touch itself")
+			}
+			if err != nil {
+				return 0, err
+			}
+			sum += m
 			skip[j] = true
 			continue
 		}
