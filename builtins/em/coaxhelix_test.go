@@ -137,3 +137,34 @@ func TestCoaxialHelicalMixed(t *testing.T) {
 		t.Logf("rel %.2g", e)
 	}
 }
+
+// TestCoaxialHelicalManyTurns: two layers of 30 turns wound against each
+// other, 1.5 mm apart in radius (at 100 turns, one adaptive run over all
+// the turns stopped early on this pair; the integral now goes piece by
+// piece), against the general route. Tolerance 1e-8
+// relative, both asked for 1e-10.
+func TestCoaxialHelicalManyTurns(t *testing.T) {
+	c := 0.0005 / (2 * math.Pi)
+	p, err := NewHelix(Vec{Z: 0.0075}, Vec{Z: 1}, 0.01275, 0.015, 30)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.Pitch = -c // wound downwards from z = 7.5 mm
+	q, err := NewHelix(Vec{Z: -0.0075}, Vec{Z: 1}, 0.01425, 0.015, 30)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, ok, err := CoaxialHelicalMutual(p, q, Tol{Rel: 1e-10})
+	if !ok || err != nil {
+		t.Fatalf("ok %v err %v", ok, err)
+	}
+	want, err := Mutual(Path{Prims: []Prim{p}}, Path{Prims: []Prim{q}}, MutualOptions{Tol: Tol{Rel: 1e-10}, NoFastPath: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e := math.Abs(m/want - 1); e > 1e-8 {
+		t.Errorf("%.15g vs general route %.15g (rel %.2g)", m, want, e)
+	} else {
+		t.Logf("rel %.2g", e)
+	}
+}

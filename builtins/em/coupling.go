@@ -753,6 +753,26 @@ func selfInductanceTerm(prims []Prim, i int, touch []int, a float64, mode WireCu
 			skip[j] = true
 			continue
 		}
+		// a helix's potential is itself an integral along it; with a
+		// piece whose potential is in closed form, Neumann's symmetry
+		// lets the circulation run along the helix instead (one
+		// integral in place of one inside another)
+		if q.Kind == Helix && p.Kind != Helix {
+			pa := Path{Prims: []Prim{p}}
+			one := compile([]Source{{Path: pa, I: 1}})
+			one.stop = tol.Stop
+			m, err := lineIntegral(Path{Prims: []Prim{q}}, func(x Vec) (Vec, error) { return one.at(FieldA, x) }, tol, Mu0*q.Length())
+			if errors.Is(err, ErrOnWire) {
+				return 0, errors.New("two pieces of the path cross or overlap; self-inductance needs a path that does not touch itself")
+			}
+			if err != nil {
+				return 0, err
+			}
+			tol.addEst(closedFormRounding * m)
+			sum += m
+			skip[j] = true
+			continue
+		}
 		rest++
 	}
 	if rest == 0 {
