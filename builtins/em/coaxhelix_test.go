@@ -168,3 +168,44 @@ func TestCoaxialHelicalManyTurns(t *testing.T) {
 		t.Logf("rel %.2g", e)
 	}
 }
+
+// TestHelixPieceSymmetry: in a path of a helix and a straight piece that
+// do not touch, the self-inductance takes their mutual term as the
+// circulation along the helix of the straight piece's potential; it must
+// equal L_helix + L_piece + 2M with M the other way round (the helix's
+// numerically integrated potential along the piece: Neumann's integral is
+// symmetric). Tolerance 1e-9 relative, each asked for 1e-10.
+func TestHelixPieceSymmetry(t *testing.T) {
+	h, err := NewHelix(Vec{}, Vec{Z: 1}, 0.01, 0.01, 8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := NewSegment(Vec{X: 0.013, Z: -0.002}, Vec{X: 0.02, Y: 0.004, Z: 0.012})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tol := Tol{Rel: 1e-11}
+	a := 0.0002
+	both, err := SelfInductance(Path{Prims: []Prim{h, s}}, a, tol)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lh, err := SelfInductance(Path{Prims: []Prim{h}}, a, tol)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ls, err := SelfInductance(Path{Prims: []Prim{s}}, a, tol)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := Mutual(Path{Prims: []Prim{h}}, Path{Prims: []Prim{s}}, MutualOptions{Tol: tol})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := lh + ls + 2*m
+	if e := math.Abs(both/want - 1); e > 1e-9 {
+		t.Errorf("L = %.15g, L_h + L_s + 2M = %.15g (rel %.2g)", both, want, e)
+	} else {
+		t.Logf("rel %.2g (M is %.2g of L)", e, 2*m/both)
+	}
+}
