@@ -16,7 +16,7 @@ func inductanceFuncs() []*runtime.Func {
 		fncEnv("mutual", []string{"path1", "path2"}, 2, 2, &runtime.Help{
 			Signature: "mutual(path1, path2) -> H",
 			Summary:   "Mutual inductance of two paths (for open paths, e.g. coils without leads, the partial mutual inductance).",
-			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself; pairs of coaxial helices or arcs (the layers of a winding) take one integral each, the integral along one of them in closed form (agreeing with the general route within 1e-14 in the tests, about a thousand times faster for a four-layer winding); the work is estimated before it starts and refused beyond the work budget (:budget)",
+			Method:    "Neumann's double integral as ∮A₁·dl₂ with path 1's closed-form vector potential, adaptive Gauss–Kronrod asked for relative error 1e-10 (the tests find it within 1e-9 of Maxwell's formula); when path 1 is a single circle, the circles of path 2 coaxial with it take Maxwell's formula itself; pairs of coaxial helices or arcs (the layers of a winding) take one integral each, the integral along one of them in closed form (agreeing with the general route within 4e-14 in the tests, about a thousand times faster for a four-layer winding); the work is estimated before it starts and refused beyond the work budget (:budget)",
 			Example:   "mutual(circle([0, 0, 0] m, [0, 0, 1], 25 mm), circle([0, 0, 10] mm, [0, 0, 1], 20 mm))",
 			Reference: refInductance,
 		}, func(env runtime.Env, args []runtime.Value) (runtime.Value, error) {
