@@ -326,7 +326,7 @@ func calculusFuncs() []*runtime.Func {
 			Help: &runtime.Help{
 				Signature: "curl(field, point: position [m][, t: s]) -> vector [field unit/m]",
 				Summary:   "∇ × F at a point. (For B of a wire that is not a closed circuit the curl is not zero off the wire: an open piece of wire does not conserve current.)",
-				Method:    "for a field that is a function of yours, each partial derivative exact (forward-mode automatic differentiation, one pass per axis; within 1e-14 of the hand curl in the tests), with a rounding bound as its numerical error estimate; for B, A and E of sources, each partial derivative is the derivative of the Biot–Savart or vector-potential kernel integrated along every wire piece (adaptive Gauss–Kronrod asked for 1e-13 of the integral of the kernel derivative's size, split at quarter turns and at the point nearest the field point; a straight piece seen from the point under less than 120° by the closed form of that derivative; a uniform field exactly; E as −Σ (∂A/∂x per ampere)·dI/dt with dI/dt as in emf), with the quadratures' estimates and a rounding bound as the numerical error estimate: in the tests curl A agrees with B within 3e-15 of |B|, div B and curl B off the wires are within 2e-15 of the derivatives' size (differences gave 4e-12 to 5e-11), and the gradients of a ring on its axis and of a straight wire beside it are within 1e-13 of the derivatives worked by hand; for regions, magnets, dipoles, infinite wires and ideal solenoids (and functions the derivative cannot flow through; the note names them) central differences with one Richardson step: of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used, judged against the field's own rate of change (so a curl that is zero, as curl B off the wires, is an answer: below 1e-8 of |B|/distance near a 12-ring coil in the tests); a kink at the point (a region's boundary) is an error giving both one-sided derivatives; refuses on or very near wires",
+				Method:    "for a field that is a function of yours, each partial derivative exact (forward-mode automatic differentiation, one pass per axis; within 1e-14 of the hand curl in the tests), with a rounding bound as its numerical error estimate; for B, A and E of sources, each partial derivative is the derivative of the Biot–Savart or vector-potential kernel integrated along every wire piece (adaptive Gauss–Kronrod asked for 1e-13 of the integral of the kernel derivative's size, split at quarter turns and at the point nearest the field point; a straight piece seen from the point under less than 120° by the closed form of that derivative; a uniform field exactly; E as −Σ (∂A/∂x per ampere)·dI/dt with dI/dt as in emf), with the quadratures' estimates and a rounding bound as the numerical error estimate: in the tests curl A agrees with B within 3e-15 of |B|, div B and curl B off the wires are within 2e-15 of the derivatives' size (differences gave 4e-12 to 5e-11), and the gradients of a ring on its axis and of a straight wire beside it are within 1e-13 of the derivatives worked by hand; for regions, magnets, dipoles, infinite wires and ideal solenoids (and functions the derivative cannot flow through; the note names them) central differences with one Richardson step: of the steps 1 nm, 10 nm, … 1 m the one whose estimate agrees best with its neighbours is used, judged against the field's own rate of change (so a curl that is zero, as curl B off the wires, is an answer: below 1e-8 of |B|/distance near a 12-ring coil in the tests), with the change to the neighbouring steps plus the values' rounding over the step as its numerical error estimate (it covers curl and div of a magnet's B, zero outside it, by 360× and more in the tests); a kink at the point (a region's boundary) is an error giving both one-sided derivatives; refuses on or very near wires",
 				Example:   "F(p) = [-p.y, p.x, 0] * 1 T/m\ncurl(F, [1, 2, 3] m)",
 				Reference: refCalculus,
 			},
@@ -490,7 +490,17 @@ func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Valu
 		exact, err = sourceJacobian(env, fn, f, args, x, &j)
 	}
 	if err == nil && !exact {
-		j, err = em.Jacobian(eval, x)
+		// differences, with their own error estimate (a bound on each
+		// entry; curl adds two, div three)
+		var est float64
+		j, est, err = em.JacobianEst(eval, x)
+		if err == nil && env != nil {
+			if fn == "div" {
+				env.NumericalError(3 * est)
+			} else {
+				env.NumericalError(2*est, 2*est, 2*est)
+			}
+		}
 	}
 	if err != nil {
 		var ke *em.AxisKinkError

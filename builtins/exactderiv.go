@@ -330,17 +330,19 @@ func sourceJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, 
 		if env != nil {
 			ev.SetStop(env.Err)
 		}
-		js, err := em.Jacobian(ev.At, x)
+		js, est, err := em.JacobianEst(ev.At, x)
 		if err != nil {
 			return false, err
 		}
 		for c := range out {
 			out[c] = r3.Add(out[c], js[c])
 		}
+		bound += est
 		for _, d := range shapeDesc {
-			runtime.AddNote(env, fmt.Sprintf("%s: the derivative of the field of %s is by step differences, not exact (a magnet, dipole, infinite wire or ideal solenoid); no numerical error estimate is given", fn, lineOf(d)))
+			runtime.AddNote(env, fmt.Sprintf("%s: the derivative of the field of %s is by step differences, not exact (a magnet, dipole, infinite wire or ideal solenoid); its error estimate is the differences' own", fn, lineOf(d)))
 		}
-	} else if env != nil {
+	}
+	if env != nil {
 		if fn == "div" {
 			env.NumericalError(3 * bound)
 		} else {

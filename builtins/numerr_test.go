@@ -158,6 +158,12 @@ func TestNumericalErrorBounds(t *testing.T) {
 		// formula (gonum's elliptic integrals) by central differences
 		// (opposedM)
 		{"mutual of opposed rings", []string{"pair = join(circle([0, 0, 0] m, [0, 0, 1], 20 mm), circle([0, 0, 1e-8] m, [0, 0, -1], 20 mm))", "mutual(pair, circle([0, 0, 10] mm, [0, 0, 1], 15 mm)) / 1 H"}, opposedM(0.02, 0.015, 0.01, 1e-8)},
+		// curl and div of a magnet's B outside it by step differences:
+		// both are zero there (no current and no magnetic charge outside
+		// the material: Ampère's law and Gauss's law for B, Jackson §5.3,
+		// §5.9)
+		{"curl of a magnet's field (differences)", []string{"mag = magnet_cylinder([0, 0, 0] m, [0, 0, 1], 5 mm, 10 mm, 1.2 T)", "norm(curl(b_field(mag), [20, 0, 3] mm)) / 1 T/m"}, 0},
+		{"div of a magnet's field (differences)", []string{"mag = magnet_cylinder([0, 0, 0] m, [0, 0, 1], 5 mm, 10 mm, 1.2 T)", "div(b_field(mag), [20, 0, 3] mm) / 1 T/m"}, 0},
 		{"Stokes", []string{"F(p) = [-p.y, p.x, 0 m]", "line_integral(F, circle([0, 0, 0] m, [0, 0, 1], 0.3 m)) / 1 m^2"}, 2 * math.Pi * 0.09},
 	}
 	for _, c := range cases {

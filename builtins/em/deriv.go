@@ -276,6 +276,15 @@ func (st derivLadder) kink(p derivPlateau, floor float64) error {
 // symmetry is then not mistaken for noise). Errors: ErrNoPlateau (wrapped),
 // *AxisKinkError, or eval's own.
 func Jacobian(eval func(Vec) (Vec, error), x Vec) ([3]Vec, error) {
+	cols, _, err := JacobianEst(eval, x)
+	return cols, err
+}
+
+// JacobianEst is Jacobian with an error estimate: the largest over the
+// columns of the extrapolation's change to the neighbouring steps plus the
+// rounding of the field's values over the step (as DerivativeEst), a bound
+// on each entry.
+func JacobianEst(eval func(Vec) (Vec, error), x Vec) ([3]Vec, float64, error) {
 	var cols [3]Vec
 	var lads [3]derivLadder
 	var plats [3]derivPlateau
@@ -286,7 +295,7 @@ func Jacobian(eval func(Vec) (Vec, error), x Vec) ([3]Vec, error) {
 			return eval(r3.Add(x, r3.Scale(s, axes[j])))
 		}, 0, 1, -9)
 		if err != nil {
-			return cols, err
+			return cols, 0, err
 		}
 	}
 	// the largest scale of the columns that have a plateau on their own
@@ -299,15 +308,19 @@ func Jacobian(eval func(Vec) (Vec, error), x Vec) ([3]Vec, error) {
 	for j := 0; j < 3; j++ {
 		var err error
 		if plats[j], err = lads[j].plateau(false, floor); err != nil {
-			return cols, err
+			return cols, 0, err
 		}
 	}
 	for j := 0; j < 3; j++ {
 		var ke *KinkError
 		if errors.As(lads[j].kink(plats[j], floor), &ke) {
-			return cols, &AxisKinkError{Axis: j, KinkError: ke}
+			return cols, 0, &AxisKinkError{Axis: j, KinkError: ke}
 		}
 		cols[j] = plats[j].est
 	}
-	return cols, nil
+	var est float64
+	for j := 0; j < 3; j++ {
+		est = math.Max(est, lads[j].errorEstimate(plats[j]))
+	}
+	return cols, est, nil
 }
