@@ -391,16 +391,11 @@ func coaxialCircles(p, q Prim) (a, b, d float64, ok bool) {
 	if !p.IsCircle() || !q.IsCircle() {
 		return 0, 0, 0, false
 	}
-	if r3.Norm(r3.Cross(p.N, q.N)) > 1e-12 {
+	s, _, along, ok := coaxialHelical(p, q)
+	if !ok {
 		return 0, 0, 0, false
 	}
-	off := r3.Sub(q.C, p.C)
-	along := r3.Dot(off, p.N)
-	if r3.Norm(r3.Sub(off, r3.Scale(along, p.N))) > 1e-12*math.Max(p.R, q.R) {
-		return 0, 0, 0, false
-	}
-	sign := math.Copysign(1, r3.Dot(p.N, q.N))
-	return p.R, q.R * sign, math.Abs(along), true
+	return p.R, q.R * s, math.Abs(along), true
 }
 
 // CoaxialCircles reports whether p and q are full circles on one axis.
