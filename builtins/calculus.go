@@ -490,16 +490,11 @@ func diffBuiltin(env runtime.Env, fn string, args []runtime.Value) (runtime.Valu
 		exact, err = sourceJacobian(env, fn, f, args, x, &j)
 	}
 	if err == nil && !exact {
-		// differences, with their own error estimate (a bound on each
-		// entry; curl adds two, div three)
+		// differences, with their own error estimate
 		var est float64
 		j, est, err = em.JacobianEst(eval, x)
-		if err == nil && env != nil {
-			if fn == "div" {
-				env.NumericalError(3 * est)
-			} else {
-				env.NumericalError(2*est, 2*est, 2*est)
-			}
+		if err == nil {
+			reportDiffErr(env, fn, est)
 		}
 	}
 	if err != nil {

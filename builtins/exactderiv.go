@@ -103,14 +103,7 @@ func exactJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, j
 		j[k] = em.Vec{X: t[0], Y: t[1], Z: t[2]}
 		worst = math.Max(worst, d.ET)
 	}
-	if env != nil {
-		// curl and div add two or three partial derivatives
-		if fn == "div" {
-			env.NumericalError(3 * worst)
-		} else {
-			env.NumericalError(2*worst, 2*worst, 2*worst)
-		}
-	}
+	reportDiffErr(env, fn, worst)
 	return true, nil
 }
 
@@ -342,13 +335,21 @@ func sourceJacobian(env runtime.Env, fn string, f *Field, args []runtime.Value, 
 			runtime.AddNote(env, fmt.Sprintf("%s: the derivative of the field of %s is by step differences, not exact (a magnet, dipole, infinite wire or ideal solenoid); its error estimate is the differences' own", fn, lineOf(d)))
 		}
 	}
-	if env != nil {
-		if fn == "div" {
-			env.NumericalError(3 * bound)
-		} else {
-			env.NumericalError(2*bound, 2*bound, 2*bound)
-		}
-	}
+	reportDiffErr(env, fn, bound)
 	*j = out
 	return true, nil
+}
+
+// reportDiffErr reports the error of curl or div from a bound on each
+// entry of the Jacobian: a component of the curl adds two entries, div
+// three.
+func reportDiffErr(env runtime.Env, fn string, bound float64) {
+	if env == nil {
+		return
+	}
+	if fn == "div" {
+		env.NumericalError(3 * bound)
+	} else {
+		env.NumericalError(2*bound, 2*bound, 2*bound)
+	}
 }
