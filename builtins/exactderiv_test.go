@@ -11,22 +11,6 @@ import (
 	"loopwise/runtime"
 )
 
-// sessionRun evaluates lines in a fresh session and returns the last
-// result (failing on any error).
-func sessionRun(t *testing.T, lines ...string) *runtime.Result {
-	t.Helper()
-	s := runtime.NewSession(builtins.Standard())
-	var res *runtime.Result
-	for i, l := range lines {
-		r, err := s.Eval(lang.Pos{File: "d.lw", Line: i + 1, Col: 1}, l)
-		if err != nil {
-			t.Fatalf("%s: %v", l, err)
-		}
-		res = r
-	}
-	return res
-}
-
 // components of a quantity or vector result.
 func comps(t *testing.T, v runtime.Value) []float64 {
 	t.Helper()
@@ -105,7 +89,7 @@ func TestExactDerivClosedForms(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			lines := append(append([]string{}, c.defs...), c.call)
-			r := sessionRun(t, lines...)
+			r := numRun(t, lines...)
 			got := comps(t, r.Value)
 			if len(got) != len(c.want) {
 				t.Fatalf("got %d components, want %d", len(got), len(c.want))
@@ -180,9 +164,9 @@ func TestEMFExactRing(t *testing.T) {
 // ampere times the exact rate; the two share the closed form of A, so
 // they agree to a few roundings (bound 1e-14 relative).
 func TestInducedEExact(t *testing.T) {
-	r := sessionRun(t, "I(t) = 3 A * exp(-t/(2 ms))", "ring = circle([0, 0, 0] m, [0, 0, 1], 25 mm)",
+	r := numRun(t, "I(t) = 3 A * exp(-t/(2 ms))", "ring = circle([0, 0, 0] m, [0, 0, 1], 25 mm)",
 		"e_at(source(ring, I), [12, 5, 7] mm, 1 ms)")
-	a := sessionRun(t, "a_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 1 A), [12, 5, 7] mm)")
+	a := numRun(t, "a_at(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), 1 A), [12, 5, 7] mm)")
 	e, av := r.Value.(runtime.Vector), a.Value.(runtime.Vector)
 	didt := -3 / 2e-3 * math.Exp(-0.5)
 	for i := range e.V {
@@ -215,7 +199,7 @@ func TestExactCurlDiv(t *testing.T) {
 			"curl(H, [1, 2, 3] m, 2 ms)", []float64{0, 0, -2 * math.Cos(2*math.Pi*50*2e-3)}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			r := sessionRun(t, c.def, c.call)
+			r := numRun(t, c.def, c.call)
 			got := comps(t, r.Value)
 			for i := range c.want {
 				if math.Abs(got[i]-c.want[i]) > 1e-14*3 {
@@ -228,7 +212,7 @@ func TestExactCurlDiv(t *testing.T) {
 		})
 	}
 	// ∂/∂t of a user field: d/dt of k·x·cos(ωt) is −k·x·ω·sin(ωt)
-	r := sessionRun(t, "H(p, t) = [p.x * cos(2*pi*50 Hz * t), 0 m, 0 m] * 1 T/m", "ddt(H, [2, 0, 0] m, 1 ms)")
+	r := numRun(t, "H(p, t) = [p.x * cos(2*pi*50 Hz * t), 0 m, 0 m] * 1 T/m", "ddt(H, [2, 0, 0] m, 1 ms)")
 	got := comps(t, r.Value)
 	want := -2 * 2 * math.Pi * 50 * math.Sin(2*math.Pi*50*1e-3)
 	if math.Abs(got[0]-want) > 1e-14*2*2*math.Pi*50 || got[1] != 0 || got[2] != 0 {
@@ -244,7 +228,7 @@ func TestExactCurlDiv(t *testing.T) {
 // derivative).
 func TestDerivFallback(t *testing.T) {
 	defs := []string{"g(x) = x + x^3/(1 s^2)", "M(t) = 1 A * solve(g, t, -10 s, 10 s) / (1 s)"}
-	r := sessionRun(t, append(defs, "deriv(M, 2 s)")...)
+	r := numRun(t, append(defs, "deriv(M, 2 s)")...)
 	got := r.Value.(runtime.Quantity).V
 	if !strings.Contains(r.Note, "deriv: the derivative of M(t) is by step differences, not exact (solve has no derivative rule)") {
 		t.Errorf("note %q", r.Note)
@@ -253,8 +237,8 @@ func TestDerivFallback(t *testing.T) {
 		t.Errorf("deriv: got %.12g A/s, want 0.25 A/s", got)
 	}
 	// the EMF with that current: −M·dI/dt with M from Maxwell's formula
-	r = sessionRun(t, append(defs, "emf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), M), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 2 s)")...)
-	m := sessionRun(t, "maxwell_mutual(25 mm, 20 mm, 10 mm)").Value.(runtime.Quantity).V
+	r = numRun(t, append(defs, "emf(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), M), circle([0, 0, 10] mm, [0, 0, 1], 20 mm), 2 s)")...)
+	m := numRun(t, "maxwell_mutual(25 mm, 20 mm, 10 mm)").Value.(runtime.Quantity).V
 	e := r.Value.(runtime.Quantity).V
 	if math.Abs(e+m*0.25) > 1e-6*m*0.25 || !strings.Contains(r.Note, "emf: the derivative of M(t) is by step differences") {
 		t.Errorf("emf %.12g V, want %.12g V; note %q", e, -m*0.25, r.Note)
@@ -318,11 +302,11 @@ func TestExactKinksAndJumps(t *testing.T) {
 // dI/dt = I0·ω·cos(ωt). The kernel's closed form and the formula round
 // differently: bound 1e-13 relative.
 func TestExactSourceDdt(t *testing.T) {
-	r := sessionRun(t, "I(t) = 2 A * sin(2*pi*50 Hz*t)",
+	r := numRun(t, "I(t) = 2 A * sin(2*pi*50 Hz*t)",
 		"ddt(b_field(source(circle([0, 0, 0] m, [0, 0, 1], 25 mm), I)), [0, 0, 7] mm, 1.3 ms)")
 	got := comps(t, r.Value)
 	a, z, w := 0.025, 0.007, 2*math.Pi*50
-	mu0 := sessionRun(t, "mu0").Value.(runtime.Quantity).V
+	mu0 := numRun(t, "mu0").Value.(runtime.Quantity).V
 	want := mu0 * a * a / (2 * math.Pow(a*a+z*z, 1.5)) * 2 * w * math.Cos(w*1.3e-3)
 	if math.Abs(got[2]-want) > 1e-13*math.Abs(want) || math.Abs(got[0]) > 1e-13*math.Abs(want) || math.Abs(got[1]) > 1e-13*math.Abs(want) {
 		t.Errorf("ddt B = %v T/s, want [0, 0, %.17g]", got, want)

@@ -10,7 +10,8 @@ import (
 	"loopwise/runtime"
 )
 
-// numRun evaluates lines in a fresh session and returns the last result.
+// numRun evaluates lines in a fresh session and returns the last result
+// (failing on any error).
 func numRun(t *testing.T, lines ...string) *runtime.Result {
 	t.Helper()
 	s := runtime.NewSession(builtins.Standard())
@@ -147,7 +148,9 @@ func TestNumericalErrorBounds(t *testing.T) {
 		// 1)/(μr + 1), the image 15 mm below the face (the method of
 		// images for a permeable half space, e.g. Hammond, Applied
 		// Electromagnetism, 1971, from memory), each M by Maxwell's
-		// formula; and a ring's inductance beside its image
+		// formula; and a ring's inductance beside its image (the ring's own
+		// term from the series as inductance takes it, ringL, so this
+		// case checks the image's part and its carrying)
 		{"mutual near a plate", []string{"r1 = join(arc([0, 0, 5] mm, [0, 0, 1], [20, 0, 5] mm, pi), arc([0, 0, 5] mm, [0, 0, 1], [-20, 0, 5] mm, pi))", "r2 = circle([0, 0, 15] mm, [0, 0, 1], 15 mm)", "mutual_near_plate(r1, r2, [0, 0, 0] m, [0, 0, 1], 1000) / 1 H"}, maxwellM(0.02, 0.015, 0.01) + 999.0/1001*maxwellM(0.02, 0.015, 0.02)},
 		{"inductance near a plate", []string{"r = circle([0, 0, 5] mm, [0, 0, 1], 20 mm)", "inductance_near_plate(r, 0.3 mm, [0, 0, 0] m, [0, 0, 1], 1000) / 1 H"}, ringL(0.02, 0.0003) + 999.0/1001*maxwellM(0.02, 0.02, 0.01)},
 		// a pair of opposed coaxial rings 10 nm apart (R = 20 mm) and a
