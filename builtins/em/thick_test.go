@@ -218,6 +218,16 @@ func BenchmarkThickCoilSelf(b *testing.B) {
 	}
 }
 
+// BenchmarkThickCoilSelfEst is the route thick_coil_inductance takes:
+// the rule and the lower-order rule of its error estimate.
+func BenchmarkThickCoilSelfEst(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		if _, _, err := ThickCoilSelfEst(0.01, 0.02, 0.01); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 func BenchmarkThickCoilMutual(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		if _, err := ThickCoilMutual(Section{0.01, 0.015, -0.01, 0.01}, Section{0.016, 0.02, 0, 0.01}); err != nil {
